@@ -1,0 +1,271 @@
+// Reading run folders back: summary.json, the ions table (whole, it is one row per ion) and the
+// trajectories (batch by batch through a file handle, so a caller can pick some ions or every n-th
+// point without loading a 1e8-point file). Every failure is a one-line RunFolderError naming the path.
+
+import { existsSync, readFileSync, statSync } from 'node:fs';
+import { open, type FileHandle } from 'node:fs/promises';
+import { join } from 'node:path';
+import { RecordBatchReader, tableFromIPC, type RecordBatch, type Table } from 'apache-arrow';
+import {
+  HISTORY_COLUMNS, ION_COLUMNS, TRAJECTORY_COLUMNS,
+  type ColumnSpec, type FateName, type HistoryColumns, type IonColumns, type TrajectoryColumns,
+} from './columns.js';
+import { RunFolderError } from './errors.js';
+import type { RunSummary } from './summary.js';
+import { FILES } from './writer.js';
+
+export interface RunFolder {
+  dir: string;
+  summary: RunSummary;
+  ions: IonColumns;
+  hasTrajectories: boolean;
+  hasHistory: boolean;
+}
+
+const MAGIC = 'ARROW1';
+
+function firstLine(err: unknown): string {
+  return (err instanceof Error ? err.message : String(err)).split('\n')[0];
+}
+
+function checkFolder(dir: string): void {
+  if (!existsSync(dir)) throw new RunFolderError(`${dir}: no such folder`);
+  if (!statSync(dir).isDirectory()) throw new RunFolderError(`${dir}: not a folder (expected a run folder)`);
+  if (!existsSync(join(dir, FILES.summary))) {
+    throw new RunFolderError(`${dir}: not a run folder (no ${FILES.summary})`);
+  }
+}
+
+/** summary.json of a run folder. */
+export function readSummary(dir: string): RunSummary {
+  checkFolder(dir);
+  const path = join(dir, FILES.summary);
+  let value: unknown;
+  try {
+    value = JSON.parse(readFileSync(path, 'utf8'));
+  } catch (err) {
+    throw new RunFolderError(`${path}: not valid JSON (${firstLine(err)})`);
+  }
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) {
+    throw new RunFolderError(`${path}: expected a JSON object`);
+  }
+  return value as RunSummary;
+}
+
+/** An Arrow IPC file starts and ends with "ARROW1"; a missing end marker means a truncated file. */
+function checkMagic(path: string, head: Uint8Array, tail: Uint8Array, size: number): void {
+  const dec = new TextDecoder();
+  if (size < 12 || dec.decode(head) !== MAGIC) throw new RunFolderError(`${path}: not an Arrow IPC file`);
+  if (dec.decode(tail) !== MAGIC) throw new RunFolderError(`${path}: truncated Arrow IPC file (no footer)`);
+}
+
+function readTable(path: string): Table {
+  if (!existsSync(path)) throw new RunFolderError(`${path}: missing`);
+  const bytes = readFileSync(path);
+  checkMagic(path, bytes.subarray(0, 6), bytes.subarray(bytes.byteLength - 6), bytes.byteLength);
+  try {
+    return tableFromIPC(bytes);
+  } catch (err) {
+    throw new RunFolderError(`${path}: unreadable Arrow IPC file (${firstLine(err)})`);
+  }
+}
+
+function columnsOf<T>(table: Table, specs: readonly ColumnSpec[], path: string): T {
+  const out: Record<string, unknown> = {};
+  for (const spec of specs) {
+    const child = table.getChild(spec.name);
+    if (child === null) throw new RunFolderError(`${path}: column '${spec.name}' missing`);
+    if (spec.kind === 'utf8') out[spec.name] = Array.from(child.toArray() as ArrayLike<string>);
+    else {
+      const a = child.toArray() as Int32Array | Float64Array;
+      const want = spec.kind === 'int32' ? Int32Array : Float64Array;
+      if (!(a instanceof want)) throw new RunFolderError(`${path}: column '${spec.name}' is not ${spec.kind}`);
+      out[spec.name] = a;
+    }
+  }
+  return out as T;
+}
+
+/** The ions table, whole. */
+export function readIons(dir: string): IonColumns {
+  const path = join(dir, FILES.ions);
+  return columnsOf<IonColumns & { fate: FateName[] }>(readTable(path), ION_COLUMNS, path);
+}
+
+/** history.arrow (ensemble averages against time), or null when the run has none. */
+export function readHistory(dir: string): HistoryColumns | null {
+  const path = join(dir, FILES.history);
+  if (!existsSync(path)) return null;
+  return columnsOf<HistoryColumns>(readTable(path), HISTORY_COLUMNS, path);
+}
+
+/** summary.json and the ions table of a run folder. */
+export async function readRunFolder(dir: string): Promise<RunFolder> {
+  const summary = readSummary(dir);
+  return {
+    dir,
+    summary,
+    ions: readIons(dir),
+    hasTrajectories: existsSync(join(dir, FILES.trajectories)),
+    hasHistory: existsSync(join(dir, FILES.history)),
+  };
+}
+
+/** Random access to the record batches of trajectories.arrow. */
+export class TrajectoryFile {
+  private constructor(
+    readonly path: string, private readonly handle: FileHandle,
+    private readonly reader: Awaited<ReturnType<typeof openReader>>,
+  ) {}
+
+  static async open(dir: string): Promise<TrajectoryFile> {
+    const path = join(dir, FILES.trajectories);
+    if (!existsSync(path)) throw new RunFolderError(`${path}: missing (the run recorded no trajectories)`);
+    const handle = await open(path, 'r');
+    try {
+      const { size } = await handle.stat();
+      const head = new Uint8Array(6);
+      const tail = new Uint8Array(6);
+      await handle.read(head, 0, 6, 0);
+      await handle.read(tail, 0, 6, Math.max(0, size - 6));
+      checkMagic(path, head, tail, size);
+      const reader = await openReader(handle, path);
+      for (const spec of TRAJECTORY_COLUMNS) {
+        if (!reader.schema.fields.some((f) => f.name === spec.name)) {
+          throw new RunFolderError(`${path}: column '${spec.name}' missing`);
+        }
+      }
+      return new TrajectoryFile(path, handle, reader);
+    } catch (err) {
+      await handle.close();
+      throw err;
+    }
+  }
+
+  get batchCount(): number { return this.reader.numRecordBatches; }
+
+  /** Columns of record batch `i` (0 ≤ i < batchCount). */
+  async batch(i: number): Promise<TrajectoryColumns> {
+    let b: RecordBatch | null;
+    try {
+      b = await this.reader.readRecordBatch(i);
+    } catch (err) {
+      throw new RunFolderError(`${this.path}: batch ${i} unreadable (${firstLine(err)})`);
+    }
+    if (b === null) throw new RunFolderError(`${this.path}: batch ${i} missing`);
+    const out: Record<string, unknown> = {};
+    for (const spec of TRAJECTORY_COLUMNS) out[spec.name] = b.getChild(spec.name)!.toArray();
+    return out as unknown as TrajectoryColumns;
+  }
+
+  async close(): Promise<void> {
+    await this.handle.close();
+  }
+}
+
+async function openReader(handle: FileHandle, path: string) {
+  let reader: RecordBatchReader;
+  try {
+    reader = await RecordBatchReader.from(handle as unknown as Parameters<typeof RecordBatchReader.from>[0]);
+    await reader.open();
+  } catch (err) {
+    throw new RunFolderError(`${path}: unreadable Arrow IPC file (${firstLine(err)})`);
+  }
+  if (!reader.isFile() || !reader.isAsync()) throw new RunFolderError(`${path}: not an Arrow IPC file`);
+  return reader as unknown as {
+    schema: { fields: { name: string }[] };
+    numRecordBatches: number;
+    readRecordBatch(i: number): Promise<RecordBatch | null>;
+  };
+}
+
+/** Every record batch of trajectories.arrow in order, one at a time (for streaming consumers). */
+export async function* trajectoryBatches(dir: string): AsyncGenerator<TrajectoryColumns> {
+  const file = await TrajectoryFile.open(dir);
+  try {
+    for (let i = 0; i < file.batchCount; i++) yield await file.batch(i);
+  } finally {
+    await file.close();
+  }
+}
+
+export interface TrajectorySelection {
+  /** Only these ions (any order; output stays in ion order). */
+  ions?: readonly number[];
+  /** Keep every n-th recorded point of each ion (1 = all), counted from each ion's first point. */
+  everyNth?: number;
+}
+
+/** Growable column of float64 (amortised doubling; no per-point allocation). */
+class Grow<T extends Float64Array | Int32Array> {
+  n = 0;
+  constructor(public a: T) {}
+  push(v: number): void {
+    if (this.n === this.a.length) {
+      const b = new (this.a.constructor as new (n: number) => T)(Math.max(1024, this.a.length * 2));
+      b.set(this.a);
+      this.a = b;
+    }
+    this.a[this.n++] = v;
+  }
+  done(): T { return this.a.subarray(0, this.n) as T; }
+}
+
+/**
+ * Recorded points, optionally of some ions only and decimated. Batches entirely before the first
+ * wanted ion are skipped by a binary search over the batches' first ions (points are in ion order),
+ * and reading stops after the last wanted ion.
+ */
+export async function readTrajectories(dir: string, sel: TrajectorySelection = {}): Promise<TrajectoryColumns> {
+  const every = sel.everyNth ?? 1;
+  if (!Number.isInteger(every) || every < 1) throw new RunFolderError(`everyNth must be a positive integer, got ${every}`);
+  const wanted = sel.ions ? new Set(sel.ions) : null;
+  const lo = wanted && wanted.size > 0 ? Math.min(...wanted) : -Infinity;
+  const hi = wanted ? (wanted.size > 0 ? Math.max(...wanted) : -Infinity) : Infinity;
+  const names = TRAJECTORY_COLUMNS.map((c) => c.name);
+  const cols = names.map((name) => (name === 'ion' ? new Grow(new Int32Array(0)) : new Grow(new Float64Array(0))));
+  const file = await TrajectoryFile.open(dir);
+  try {
+    let start = 0;
+    if (wanted !== null && file.batchCount > 1) {
+      // Last batch whose first ion is below lo: the wanted ion's points may begin inside it.
+      let a = 0, b = file.batchCount - 1;
+      while (a < b) {
+        const mid = (a + b + 1) >> 1;
+        const first = (await file.batch(mid)).ion[0];
+        if (first < lo) a = mid; else b = mid - 1;
+      }
+      start = a;
+    }
+    let currentIon = -1;
+    let k = 0;
+    for (let i = start; i < file.batchCount; i++) {
+      const batch = await file.batch(i);
+      const ion = batch.ion;
+      if (ion.length > 0 && ion[0] > hi) break;
+      const src = names.map((n) => (batch as unknown as Record<string, ArrayLike<number>>)[n]);
+      for (let r = 0; r < ion.length; r++) {
+        if (ion[r] !== currentIon) { currentIon = ion[r]; k = 0; }
+        const keep = (wanted === null || wanted.has(currentIon)) && k % every === 0;
+        k++;
+        if (!keep) continue;
+        for (let c = 0; c < cols.length; c++) cols[c].push(src[c][r]);
+      }
+    }
+  } finally {
+    await file.close();
+  }
+  const out: Record<string, unknown> = {};
+  names.forEach((n, c) => { out[n] = cols[c].done(); });
+  return out as unknown as TrajectoryColumns;
+}
+
+/** Contiguous runs of one ion in trajectory columns: [{ ion, start, end }) in order. */
+export function ionSegments(ion: Int32Array): { ion: number; start: number; end: number }[] {
+  const segs: { ion: number; start: number; end: number }[] = [];
+  let s = 0;
+  for (let r = 1; r <= ion.length; r++) {
+    if (r === ion.length || ion[r] !== ion[s]) { segs.push({ ion: ion[s], start: s, end: r }); s = r; }
+  }
+  return segs;
+}
