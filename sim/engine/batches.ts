@@ -1,0 +1,23 @@
+// How a run is cut into batches. The size depends on the scene only (never on the worker count),
+// so per-batch sums and the order of output rows are the same on any machine.
+
+import type { Scene } from '../scene/types.js';
+
+export interface BatchPlan {
+  size: number;
+  count: number;
+  total: number;
+}
+
+export function planBatches(scene: Scene): BatchPlan {
+  const total = scene.ions.reduce((a, p) => a + p.count, 0);
+  let size = 256;
+  if (scene.run.recordEvery > 0) {
+    // Keep one batch's recorded points to about 2 million (128 MB) so output streams.
+    const firstRf = scene.stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: { frequency: number } } | undefined;
+    const h = firstRf ? 1 / firstRf.rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
+    const perIon = scene.run.maxTime / h / scene.run.recordEvery + 2 * scene.stages.length + 2;
+    size = Math.max(1, Math.min(256, Math.floor(2e6 / perIon)));
+  }
+  return { size, count: Math.ceil(total / size), total };
+}

@@ -1,0 +1,62 @@
+// What a stage kernel needs besides the ion: limits, recorders, the gas step of the stage.
+
+import type { IonBatch } from './batch.js';
+import type { TrajectoryRecorder } from './recorder.js';
+import type { EnsembleHistory } from './history.js';
+
+/** Advance ion `slot`'s velocity through gas over dt (see sim/gas); mutates the batch arrays. */
+export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
+
+/** How an ion left a stage. */
+export const Exit = { forward: 1, backward: 2, hit: 3, time: 4 } as const;
+export type ExitCode = (typeof Exit)[keyof typeof Exit];
+
+/** The moving ion, loaded into locals by each kernel and stored back on exit. */
+export interface IonCursor {
+  ion: number;
+  slot: number;
+  m: number;
+  q: number;
+  /** RF start offset, s: field phase Ω(t + tau) + φ. */
+  tau: number;
+  t: number;
+  x: number; y: number; z: number;
+  vx: number; vy: number; vz: number;
+  /** Steps integrated so far (for the run's ion-step count). */
+  steps: number;
+  /** Steps since the last recorded point. */
+  sinceRecord: number;
+  /** Next history grid index to sample. */
+  nextHist: number;
+}
+
+export interface StepContext {
+  batch: IonBatch;
+  maxTime: number;
+  recordEvery: number;
+  rec: TrajectoryRecorder | null;
+  hist: EnsembleHistory | null;
+  /** Gas of the current stage (stage block, else scene block), or null in vacuum. */
+  gas: GasStep | null;
+}
+
+/** Record the cursor's state and sample the history if due; called by kernels after a step. */
+export function observe(c: IonCursor, ctx: StepContext): void {
+  if (ctx.rec !== null && ++c.sinceRecord >= ctx.recordEvery) {
+    c.sinceRecord = 0;
+    ctx.rec.push(c.ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+  }
+  const h = ctx.hist;
+  if (h !== null) {
+    while (c.nextHist < h.points && h.timeOf(c.nextHist) <= c.t) {
+      h.add(c.nextHist, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+      c.nextHist++;
+    }
+  }
+}
+
+/** Write a kernel's locals back into the cursor and count the steps taken. */
+export function storeCursor(c: IonCursor, t: number, x: number, y: number, z: number, vx: number, vy: number, vz: number, steps: number): void {
+  c.t = t; c.x = x; c.y = y; c.z = z; c.vx = vx; c.vy = vy; c.vz = vz;
+  c.steps += steps;
+}

@@ -1,0 +1,90 @@
+// Field-free drift and uniform axial field (acceleration gap), advanced in closed form:
+//   z(t) = z + v_z t + a t²/2,  a = qE/m,  E = V/L along +z (the potential falls by V over L);
+//   x, y move in straight lines. The crossing time of a boundary solves the quadratic with the
+// cancellation-free form of the roots (Press et al., Numerical Recipes, 3rd ed., eq. 5.6.4).
+// With gas in the stage the ion is stepped on a fixed step, exact flight between gas events.
+
+import type { AccelerateStage, DriftStage } from '../../scene/types.js';
+import { Exit, observe, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
+
+/** Smallest t > 0 with z + v t + a t²/2 = zb, or Infinity. */
+export function crossingTime(z: number, v: number, a: number, zb: number): number {
+  const c = z - zb;
+  if (a === 0) {
+    if (v === 0) return Infinity;
+    const t = -c / v;
+    return t > 0 ? t : Infinity;
+  }
+  const A = 0.5 * a, B = v;
+  const disc = B * B - 4 * A * c;
+  if (disc < 0) return Infinity;
+  const sq = Math.sqrt(disc);
+  const qq = -0.5 * (B + (B >= 0 ? sq : -sq));
+  const r1 = qq / A;
+  const r2 = qq !== 0 ? c / qq : -B / A;
+  let t = Infinity;
+  if (r1 > 0) t = r1;
+  if (r2 > 0 && r2 < t) t = r2;
+  return t;
+}
+
+/** Smallest t > 0 with |(x + vx t, y + vy t)| = R, or Infinity. */
+function wallTime(x: number, y: number, vx: number, vy: number, R: number): number {
+  if (!Number.isFinite(R)) return Infinity;
+  const A = vx * vx + vy * vy;
+  if (A === 0) return Infinity;
+  const B = 2 * (x * vx + y * vy);
+  const C = x * x + y * y - R * R;
+  const disc = B * B - 4 * A * C;
+  if (disc < 0) return Infinity;
+  const t = (-B + Math.sqrt(disc)) / (2 * A);
+  return t > 0 ? t : Infinity;
+}
+
+export function trackUniform(st: DriftStage | AccelerateStage, c: IonCursor, ctx: StepContext, gasStep: number): ExitCode {
+  const a = st.type === 'accelerate' ? (c.q * st.voltage) / (st.length * c.m) : 0;
+  if (st.aperture * st.aperture <= c.x * c.x + c.y * c.y) return Exit.hit;
+  const gas = ctx.gas;
+  for (;;) {
+    const tf = crossingTime(c.z, c.vz, a, st.zEnd);
+    const tb = crossingTime(c.z, c.vz, a, st.zStart);
+    const tExit = Math.min(tf, tb);
+    const tWall = wallTime(c.x, c.y, c.vx, c.vy, st.aperture);
+    const tLeft = ctx.maxTime - c.t;
+    let dt = Math.min(tExit, tWall, tLeft);
+    const stepped = gas !== null && dt > gasStep;
+    if (stepped) dt = gasStep;
+    sampleHistory(c, ctx, a, dt);
+    const t1 = c.t + dt;
+    const x = c.x + c.vx * dt, y = c.y + c.vy * dt;
+    let z = c.z + dt * (c.vz + 0.5 * a * dt);
+    const vz = c.vz + a * dt;
+    let code: ExitCode | 0 = 0;
+    if (!stepped) {
+      if (dt === tWall && tWall < tExit) code = Exit.hit;
+      else if (dt === tLeft && tLeft < tExit) code = Exit.time;
+      else if (tf <= tb) { z = st.zEnd; code = Exit.forward; }
+      else { z = st.zStart; code = Exit.backward; }
+    }
+    storeCursor(c, t1, x, y, z, c.vx, c.vy, vz, 1);
+    if (code !== 0) return code;
+    if (ctx.rec !== null) observe(c, ctx);
+    const b = ctx.batch, i = c.slot;
+    b.vx[i] = c.vx; b.vy[i] = c.vy; b.vz[i] = c.vz;
+    gas!(b, i, dt);
+    c.vx = b.vx[i]; c.vy = b.vy[i]; c.vz = b.vz[i];
+  }
+}
+
+/** History points that fall inside (t, t + dt], from the closed-form motion. */
+function sampleHistory(c: IonCursor, ctx: StepContext, a: number, dt: number): void {
+  const h = ctx.hist;
+  if (h === null) return;
+  while (c.nextHist < h.points) {
+    const tk = h.timeOf(c.nextHist);
+    if (tk > c.t + dt) break;
+    const s = Math.max(0, tk - c.t);
+    h.add(c.nextHist, c.m, c.x + c.vx * s, c.y + c.vy * s, c.z + s * (c.vz + 0.5 * a * s), c.vx, c.vy, c.vz + a * s);
+    c.nextHist++;
+  }
+}

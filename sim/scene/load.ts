@@ -1,0 +1,259 @@
+// Scene files: YAML → validated → resolved to SI (types.ts). Every problem is a SceneError with
+// one line naming the file, line, key path and the expected unit.
+
+import { readFileSync } from 'node:fs';
+import { LineCounter, parseDocument, parse as parseYaml, isMap, isSeq, type Document, type Node } from 'yaml';
+import { validate, fail, yamlDocumentErrors, SceneError, type Field, type Origin } from './schema.js';
+import type { Scene, Stage, Population, RunSettings, GasSettings, RfDrive } from './types.js';
+import { resolveGas } from './gas.js';
+
+const rf: Field = {
+  kind: 'object',
+  fields: {
+    amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true },
+    frequency: { kind: 'quantity', dim: 'frequency', positive: true },
+    phase: { kind: 'quantity', dim: 'angle' },
+    ramp: {
+      kind: 'object',
+      fields: { to: { kind: 'quantity', dim: 'voltage', nonNegative: true }, over: { kind: 'quantity', dim: 'time', positive: true } },
+      required: ['to', 'over'],
+    },
+  },
+  required: ['amplitude', 'frequency'],
+};
+
+const gas: Field = {
+  kind: 'object',
+  fields: {
+    species: { kind: 'string' },
+    mass: { kind: 'quantity', dim: 'mass', positive: true },
+    polarizability: { kind: 'quantity', dim: 'volume', nonNegative: true },
+    pressure: { kind: 'quantity', dim: 'pressure', positive: true },
+    temperature: { kind: 'quantity', dim: 'temperature', positive: true },
+    model: { kind: 'enum', values: ['hard-sphere', 'drag'] },
+    cross_section: { kind: 'quantity', dim: 'area', positive: true },
+    reduced_mobility: { kind: 'quantity', dim: 'mobility', positive: true },
+  },
+  required: ['pressure', 'temperature', 'model'],
+};
+
+const length = { kind: 'quantity', dim: 'length', positive: true } as const;
+const aperture = { kind: 'quantity', dim: 'length', positive: true } as const;
+
+const stage: Field = {
+  kind: 'tagged',
+  tag: 'type',
+  variants: {
+    quadrupole: {
+      fields: { length, r0: length, rf, dc: { kind: 'quantity', dim: 'voltage' }, gas },
+      required: ['length', 'r0', 'rf'],
+    },
+    drift: { fields: { length, aperture, gas }, required: ['length'] },
+    accelerate: {
+      fields: { length, voltage: { kind: 'quantity', dim: 'voltage' }, aperture, gas },
+      required: ['length', 'voltage'],
+    },
+    trap: {
+      fields: { r0: length, z0: length, length, rf, dc: { kind: 'quantity', dim: 'voltage' }, aperture, gas },
+      required: ['r0', 'rf'],
+    },
+  },
+};
+
+const population: Field = {
+  kind: 'object',
+  fields: {
+    mz: { kind: 'number', positive: true },
+    charge: { kind: 'number', integer: true },
+    count: { kind: 'number', integer: true, min: 1, max: 100_000_000 },
+    position: {
+      kind: 'object',
+      fields: {
+        x: { kind: 'quantity', dim: 'length' }, y: { kind: 'quantity', dim: 'length' }, z: { kind: 'quantity', dim: 'length' },
+        spread: { kind: 'quantity', dim: 'length', nonNegative: true },
+        spread_z: { kind: 'quantity', dim: 'length', nonNegative: true },
+      },
+    },
+    energy: { kind: 'quantity', dim: 'energy', nonNegative: true },
+    energy_spread: { kind: 'quantity', dim: 'energy', nonNegative: true },
+    angle_spread: { kind: 'quantity', dim: 'angle', nonNegative: true },
+    direction: { kind: 'enum', values: ['axial', 'isotropic'] },
+    rf_phase: { kind: 'enumOrQuantity', values: ['uniform'], dim: 'angle' },
+  },
+  required: ['mz', 'count'],
+};
+
+const run: Field = {
+  kind: 'object',
+  fields: {
+    integrator: { kind: 'enum', values: ['rk4', 'dopri5'] },
+    steps_per_cycle: { kind: 'number', integer: true, min: 4, max: 100_000 },
+    tolerance: { kind: 'number', positive: true, max: 0.1 },
+    max_time: { kind: 'quantity', dim: 'time', positive: true },
+    record_every: { kind: 'number', integer: true, nonNegative: true },
+    history_every: { kind: 'quantity', dim: 'time', positive: true },
+    step_without_rf: { kind: 'quantity', dim: 'time', positive: true },
+  },
+};
+
+export const SCENE_SCHEMA: Field = {
+  kind: 'object',
+  fields: {
+    name: { kind: 'string' },
+    seed: { kind: 'number', integer: true, nonNegative: true },
+    stages: { kind: 'list', item: stage, minItems: 1 },
+    ions: { kind: 'list', item: population, minItems: 1 },
+    run,
+    gas,
+    space_charge: {
+      kind: 'object',
+      fields: {
+        method: { kind: 'enum', values: ['direct', 'tree'] },
+        weight: { kind: 'number', positive: true },
+        softening: { kind: 'quantity', dim: 'length', positive: true },
+        theta: { kind: 'number', positive: true, max: 1.5 },
+      },
+      required: ['method'],
+    },
+  },
+  required: ['stages', 'ions'],
+};
+
+export interface LoadOptions {
+  /** "key.path=value" overrides from --set, applied before validation. */
+  set?: string[];
+  /** Replaces the scene's seed (from --seed). */
+  seed?: number;
+}
+
+/** Parse "stages.0.dc=105V" into a key path and a YAML scalar value. */
+export function parseOverride(text: string): { path: (string | number)[]; key: string; value: unknown } {
+  const eq = text.indexOf('=');
+  if (eq <= 0) throw new SceneError(`--set expects key=value such as stages.0.dc=105V, got '${text}'`);
+  const key = text.slice(0, eq).trim();
+  const raw = text.slice(eq + 1).trim();
+  const path = key.split('.').map((p) => (/^\d+$/.test(p) ? Number(p) : p));
+  let value: unknown;
+  try { value = parseYaml(raw); } catch { value = raw; }
+  if (value !== null && typeof value === 'object') throw new SceneError(`--set ${key}: only single values can be set, got '${raw}'`);
+  return { path, key, value };
+}
+
+function applyOverrides(doc: Document, sets: string[], origin: Origin): void {
+  for (const s of sets) {
+    const { path, key, value } = parseOverride(s);
+    // The parent must exist (a typo should not create a new branch silently).
+    const parent = path.length > 1 ? doc.getIn(path.slice(0, -1), true) : doc.contents;
+    if (!parent || !(isMap(parent) || isSeq(parent))) {
+      throw new SceneError(`--set ${key}: '${path.slice(0, -1).join('.')}' does not exist in ${origin.file}`);
+    }
+    if (isSeq(parent) && (typeof path[path.length - 1] !== 'number' || (path[path.length - 1] as number) >= parent.items.length)) {
+      throw new SceneError(`--set ${key}: no entry ${String(path[path.length - 1])} in ${path.slice(0, -1).join('.')}`);
+    }
+    doc.setIn(path, doc.createNode(value));
+    origin.overridden.add(key);
+  }
+}
+
+export function loadSceneFile(file: string, opts: LoadOptions = {}): { scene: Scene; text: string } {
+  let text: string;
+  try {
+    text = readFileSync(file, 'utf8');
+  } catch (e) {
+    throw new SceneError(`${file}: cannot read the scene file (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  return { scene: parseScene(text, file, opts), text };
+}
+
+export function parseScene(text: string, file: string, opts: LoadOptions = {}): Scene {
+  const lines = new LineCounter();
+  const doc = parseDocument(text, { lineCounter: lines, prettyErrors: false });
+  const origin: Origin = { file, lines, overridden: new Set() };
+  yamlDocumentErrors(doc, origin);
+  if (!isMap(doc.contents)) throw new SceneError(`${file}:1: a scene is a mapping with at least 'stages' and 'ions'`);
+  applyOverrides(doc, opts.set ?? [], origin);
+  const raw = validate(doc.contents as Node, SCENE_SCHEMA, [], origin) as Record<string, any>;
+  return resolve(raw, doc, origin, opts);
+}
+
+function resolveRf(r: Record<string, any>): RfDrive {
+  const out: RfDrive = { amplitude: r.amplitude, frequency: r.frequency, phase: r.phase ?? 0 };
+  if (r.ramp) out.ramp = { to: r.ramp.to, over: r.ramp.over };
+  return out;
+}
+
+function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: LoadOptions): Scene {
+  const stages: Stage[] = [];
+  let z = 0;
+  raw.stages.forEach((s: Record<string, any>, i: number) => {
+    const node = doc.getIn(['stages', i], true) as Node;
+    const stageGas: GasSettings | undefined = s.gas ? resolveGas(s.gas, ['stages', i, 'gas'], doc, origin) : undefined;
+    let st: Stage;
+    switch (s.type) {
+      case 'quadrupole':
+        st = { type: 'quadrupole', length: s.length, r0: s.r0, rf: resolveRf(s.rf), dc: s.dc ?? 0, zStart: z, zEnd: z + s.length };
+        break;
+      case 'drift':
+        st = { type: 'drift', length: s.length, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
+        break;
+      case 'accelerate':
+        st = { type: 'accelerate', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
+        break;
+      case 'trap': {
+        const z0 = s.z0 ?? s.r0 / Math.SQRT2;
+        const len = s.length ?? 2 * z0;
+        if (len < 2 * z0) fail(origin, node, ['stages', i, 'length'], `must be at least 2·z0 = ${(2 * z0 * 1e3).toPrecision(4)} mm (a length such as 10 mm)`);
+        st = { type: 'trap', r0: s.r0, z0, length: len, rf: resolveRf(s.rf), dc: s.dc ?? 0, aperture: s.aperture ?? Math.min(1e-3, s.r0 / 4), zStart: z, zEnd: z + len };
+        break;
+      }
+      default:
+        throw new SceneError(`${origin.file}: stages.${i}.type: unknown stage type`);
+    }
+    if (stageGas) st.gas = stageGas;
+    stages.push(st);
+    z = st.zEnd;
+  });
+
+  const ions: Population[] = raw.ions.map((p: Record<string, any>, i: number): Population => {
+    const charge = p.charge ?? 1;
+    if (charge === 0) fail(origin, doc.getIn(['ions', i, 'charge'], true) as Node, ['ions', i, 'charge'], 'must be a non-zero whole number of elementary charges');
+    const pos = p.position ?? {};
+    return {
+      mz: p.mz, charge, count: p.count,
+      position: { x: pos.x ?? 0, y: pos.y ?? 0, z: pos.z ?? 0, spread: pos.spread ?? 0, spreadZ: pos.spread_z ?? 0 },
+      energy: p.energy ?? 0, energySpread: p.energy_spread ?? 0, angleSpread: p.angle_spread ?? 0,
+      direction: p.direction ?? 'axial', rfPhase: p.rf_phase ?? 'uniform',
+    };
+  });
+  const total = ions.reduce((a, p) => a + p.count, 0);
+  if (total > 100_000_000) throw new SceneError(`${origin.file}: ions: ${total} ions in all; at most 100000000 per run`);
+
+  const r = raw.run ?? {};
+  const firstRf = stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: RfDrive } | undefined;
+  const spc = r.steps_per_cycle ?? 40;
+  const rfStep = firstRf ? 1 / firstRf.rf.frequency / spc : undefined;
+  const maxTime = r.max_time ?? 1e-3;
+  const runSettings: RunSettings = {
+    integrator: r.integrator ?? 'rk4',
+    stepsPerCycle: spc,
+    tolerance: r.tolerance ?? 1e-8,
+    maxTime,
+    recordEvery: r.record_every ?? 10,
+    historyEvery: r.history_every ?? maxTime / 200,
+    stepNoRf: r.step_without_rf ?? rfStep ?? maxTime / 10000,
+  };
+
+  const scene: Scene = {
+    name: raw.name ?? origin.file.replace(/^.*\//, '').replace(/\.ya?ml$/, ''),
+    seed: opts.seed ?? raw.seed ?? 1,
+    stages,
+    ions,
+    run: runSettings,
+  };
+  if (raw.gas) scene.gas = resolveGas(raw.gas, ['gas'], doc, origin);
+  if (raw.space_charge) {
+    const sc = raw.space_charge;
+    scene.spaceCharge = { method: sc.method, weight: sc.weight ?? 1, softening: sc.softening, theta: sc.theta };
+  }
+  return scene;
+}
