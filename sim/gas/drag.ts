@@ -1,7 +1,7 @@
 // Drag model: viscous force −(|q|/K)·v plus the matching thermal random force, i.e. the Langevin
 // equation m dv = −mγ v dt + q E dt + m (2γkT/m)^½ dW, γ = |q|/(mK), whose noise strength follows
 // from fluctuation–dissipation (Einstein relation D = K kT/|q|). Integrated exactly over a step as an
-// Ornstein–Uhlenbeck process (S. Chandrasekhar, Rev. Mod. Phys. 15, 1 (1943), ch. II §2–3):
+// Ornstein–Uhlenbeck process (S. Chandrasekhar, Rev. Mod. Phys. 15, 1 (1943), ch. II):
 //
 // velocity only (field handled by the engine's split step, makeDragStep):
 //   v ← v e^{−h} + (kT/m (1 − e^{−2h}))^½ ξ,           h = γ dt;

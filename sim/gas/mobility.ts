@@ -47,9 +47,10 @@ export const POLARIZATION_MOMENTUM_RATIO = 1.105;
  * Polarization (Langevin) limit of the mobility. For an r^-4 potential the momentum-transfer rate
  * does not depend on speed (Maxwell molecules), so K = q/(μ N k_m) exactly, with
  * k_m = 1.105 · k_L and the Langevin capture rate k_L = 2π (α' q²/(4πε0 μ))^½. The charge cancels:
- *   K = (4πε0)^½ / (2π · 1.105 · N (α' μ)^½) = 0.5105 (ε0/(α' μ))^½ / N,
- * the textbook form (Mason & McDaniel 1988, ch. 6) whose practical version is
- * K0 ≈ 13.85 /(α'[Å^3] μ[u])^½ cm^2/(V s).
+ *   K = (4πε0)^½ / (2π · 1.105 · N (α' μ)^½).
+ * This is Langevin's K = 0.5105 ((m+M)/m)^½ (ρ(D−1))^-½ in Gaussian units (ρ gas density, D its
+ * dielectric constant; Mason & McDaniel 1988, ch. 6), in practical units
+ * K0 ≈ 13.85/(α'[Å^3] μ[u])^½ cm^2/(V s). Result in m^2/(V s).
  */
 export function langevinMobility(ionMassKg: number, gasMassKg: number, polarizabilityM3: number,
   numberDensityM3: number): number {

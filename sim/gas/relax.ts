@@ -25,6 +25,8 @@ export interface RelaxOptions {
   startTemperatureK?: number;
   /** Start speed, m/s, in a random direction (ignored when startTemperatureK is set). */
   startSpeedMS?: number;
+  /** Start velocity, m/s, the same for every ion (used when neither of the above is set). */
+  startVelocityMS?: readonly [number, number, number];
   /** Record the ensemble mean kinetic energy every this many steps (default: only at the end). */
   sampleEvery?: number;
 }
@@ -51,6 +53,8 @@ export function startBatch(o: RelaxOptions): IonBatch {
       b.vx[i] = o.startSpeedMS * st * Math.cos(ph);
       b.vy[i] = o.startSpeedMS * st * Math.sin(ph);
       b.vz[i] = o.startSpeedMS * ct;
+    } else if (o.startVelocityMS !== undefined) {
+      [b.vx[i], b.vy[i], b.vz[i]] = o.startVelocityMS;
     }
   }
   return b;
