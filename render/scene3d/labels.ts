@@ -1,0 +1,130 @@
+// Text and 2D furniture drawn over the software-rendered image with @napi-rs/canvas: title and
+// stage chain, colour legend, axis triad, scale-bar label and the provenance footer.
+
+import { createCanvas, ImageData, type SKRSContext2D } from '@napi-rs/canvas';
+import * as THREE from 'three';
+import { AXIS_COLORS, INK, INK_SOFT, cssColor, mzRamp } from './palette.js';
+import type { Legend } from './trajectoryColors.js';
+
+export const FONT = '"DejaVu Sans", "Liberation Sans", sans-serif';
+
+export interface LabelContent {
+  title: string;
+  subtitle: string;
+  legend: Legend;
+  footerLeft: string;
+  footerRight: string;
+  scaleBarText: string;
+  /** Scale bar ends on the image, pixels. */
+  scaleBarPx: [number, number, number, number];
+  camera: THREE.Camera;
+}
+
+function triad(ctx: SKRSContext2D, camera: THREE.Camera, ox: number, oy: number, len: number): void {
+  const view = new THREE.Matrix4().extractRotation(camera.matrixWorldInverse);
+  const axes = ['x', 'y', 'z'];
+  // Draw far axes first so the nearest sits on top.
+  const items = axes.map((name, i) => {
+    const v = new THREE.Vector3().setComponent(i, 1).applyMatrix4(view);
+    return { name, i, v };
+  }).sort((a, b) => a.v.z - b.v.z);
+  ctx.lineCap = 'round';
+  for (const { name, i, v } of items) {
+    const ex = ox + v.x * len, ey = oy - v.y * len;
+    ctx.strokeStyle = cssColor(AXIS_COLORS[i]);
+    ctx.lineWidth = 2.5;
+    ctx.beginPath(); ctx.moveTo(ox, oy); ctx.lineTo(ex, ey); ctx.stroke();
+    const r = Math.hypot(v.x, v.y);
+    const lx = r > 0.15 ? ox + v.x * (len + 11) / 1 : ex + 8, ly = r > 0.15 ? oy - v.y * (len + 11) : ey - 8;
+    ctx.fillStyle = cssColor(AXIS_COLORS[i]);
+    ctx.font = `bold 13px ${FONT}`;
+    ctx.textAlign = 'center';
+    ctx.textBaseline = 'middle';
+    ctx.fillText(name, lx, ly);
+  }
+  ctx.fillStyle = cssColor(INK);
+  ctx.beginPath(); ctx.arc(ox, oy, 2.5, 0, 2 * Math.PI); ctx.fill();
+}
+
+function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): void {
+  ctx.textBaseline = 'middle';
+  ctx.textAlign = 'left';
+  ctx.font = `12px ${FONT}`;
+  if (lg.kind === 'ramp') {
+    const w = 180, h = 10, x = right - w, y = top + 18;
+    for (let i = 0; i < w; i++) {
+      ctx.fillStyle = cssColor(mzRamp(i / (w - 1)) as number[]);
+      ctx.fillRect(x + i, y, 1, h);
+    }
+    ctx.strokeStyle = cssColor(INK_SOFT); ctx.lineWidth = 1; ctx.strokeRect(x + 0.5, y + 0.5, w - 1, h - 1);
+    ctx.fillStyle = cssColor(INK);
+    ctx.font = `bold 12px ${FONT}`;
+    ctx.fillText(lg.title, x, top + 6);
+    ctx.font = `12px ${FONT}`;
+    ctx.textBaseline = 'top';
+    ctx.fillText(fmt(lg.min), x, y + h + 4);
+    ctx.textAlign = 'right';
+    ctx.fillText(fmt(lg.max), x + w, y + h + 4);
+    return;
+  }
+  // Swatches in one row, right-aligned; measured first so nothing overlaps.
+  const items = lg.entries.map((e) => ({ e, text: `${e.label} (${e.count})` }));
+  const widths = items.map((it) => ctx.measureText(it.text).width + 28);
+  let x = right - widths.reduce((a, b) => a + b, 0);
+  ctx.fillStyle = cssColor(INK);
+  ctx.font = `bold 12px ${FONT}`;
+  ctx.fillText(lg.title === 'fate' ? 'ion fate' : lg.title, x, top + 6);
+  ctx.font = `12px ${FONT}`;
+  items.forEach((it, i) => {
+    const y = top + 24;
+    ctx.strokeStyle = cssColor(it.e.color);
+    ctx.lineWidth = 3;
+    ctx.beginPath(); ctx.moveTo(x, y); ctx.lineTo(x + 16, y); ctx.stroke();
+    ctx.fillStyle = cssColor(INK);
+    ctx.fillText(it.text, x + 21, y);
+    x += widths[i];
+  });
+}
+
+function fmt(v: number): string {
+  return Math.abs(v) >= 100 ? v.toFixed(0) : v.toPrecision(3);
+}
+
+/** Paint `rgba` (width × height) and the labels; return the PNG bytes. */
+export function drawLabels(rgba: Uint8ClampedArray, width: number, height: number, c: LabelContent): Buffer {
+  const canvas = createCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  ctx.putImageData(new ImageData(rgba, width, height), 0, 0);
+
+  ctx.fillStyle = cssColor(INK);
+  ctx.textBaseline = 'alphabetic';
+  ctx.textAlign = 'left';
+  ctx.font = `bold 22px ${FONT}`;
+  ctx.fillText(c.title, 24, 36);
+  ctx.fillStyle = cssColor(INK_SOFT);
+  ctx.font = `13px ${FONT}`;
+  ctx.fillText(c.subtitle, 24, 58);
+  legend(ctx, c.legend, width - 24, 18);
+
+  // Scale bar label under the bar's midpoint.
+  const [x0, y0, x1, y1] = c.scaleBarPx;
+  ctx.fillStyle = cssColor(INK);
+  ctx.font = `12px ${FONT}`;
+  ctx.textAlign = 'center';
+  ctx.textBaseline = 'top';
+  ctx.fillText(c.scaleBarText, (x0 + x1) / 2, Math.max(y0, y1) + 7);
+
+  triad(ctx, c.camera, 56, height - 80, 30);
+
+  ctx.strokeStyle = 'rgba(36,38,43,0.18)';
+  ctx.lineWidth = 1;
+  ctx.beginPath(); ctx.moveTo(24, height - 34.5); ctx.lineTo(width - 24, height - 34.5); ctx.stroke();
+  ctx.fillStyle = cssColor(INK_SOFT);
+  ctx.font = `11px ${FONT}`;
+  ctx.textBaseline = 'alphabetic';
+  ctx.textAlign = 'left';
+  ctx.fillText(c.footerLeft, 24, height - 15);
+  ctx.textAlign = 'right';
+  ctx.fillText(c.footerRight, width - 24, height - 15);
+  return canvas.toBuffer('image/png');
+}

@@ -1,0 +1,97 @@
+// 3D figure as PNG, drawn entirely on the CPU: three.js builds the scene and the camera, our
+// rasteriser draws it (raster/), @napi-rs/canvas adds the labels and encodes the PNG.
+
+import * as THREE from 'three';
+import { makeCamera, cameraDirection, type CameraName } from './cameras.js';
+import { MM, type RodShape } from './electrodes.js';
+import { drawLabels } from './labels.js';
+import { composite } from './raster/composite.js';
+import { Layers } from './raster/layers.js';
+import { rasteriseBatch, rasteriseLineObjects, rasteriseMeshes } from './raster/sceneRaster.js';
+import type { RunView } from './runInput.js';
+import { buildScene } from './sceneGraph.js';
+import type { ColorBy } from './trajectoryColors.js';
+
+export interface PngOptions {
+  camera: CameraName;
+  color: ColorBy;
+  rods: RodShape;
+  width?: number;
+  height?: number;
+  /** Supersampling factor of the electrode layer (edges anti-aliased by a ss×ss box filter). */
+  supersample?: number;
+  /** Command line or scene file shown in the footer. */
+  sourceNote?: string;
+}
+
+export interface PngResult {
+  png: Buffer;
+  triangles: number;
+  pointsDrawn: number;
+  width: number;
+  height: number;
+}
+
+export const MARGINS = { top: 96, right: 40, bottom: 64, left: 40 };
+
+function describeStages(run: RunView): string {
+  return run.stages.map((s) => {
+    const L = ((s.zEnd - s.zStart) * MM).toFixed(1);
+    switch (s.type) {
+      case 'quadrupole': return `quadrupole ${L} mm, r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm`;
+      case 'trap': return `RF trap r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm, z0 ${((s.z0 ?? 0) * MM).toFixed(2)} mm`;
+      case 'drift': return `drift ${L} mm`;
+      case 'accelerate': return `acceleration ${L} mm${s.voltage !== undefined ? `, ${s.voltage.toFixed(0)} V` : ''}`;
+    }
+  }).join('  →  ');
+}
+
+function openingNote(run: RunView, opened: boolean): string {
+  const notes = ['electrodes semi-transparent over hidden ions'];
+  if (opened && run.stages.some((s) => s.type === 'quadrupole')) notes.push('rod nearest the viewer drawn as outline');
+  if (opened && run.stages.some((s) => s.type === 'trap')) notes.push('trap cut open toward the viewer');
+  return notes.join('; ');
+}
+
+export function renderPng(run: RunView, opts: PngOptions): PngResult {
+  const width = opts.width ?? 1600, height = opts.height ?? 900, ss = opts.supersample ?? 2;
+  const dir = cameraDirection(opts.camera);
+  // Cut the trap toward the viewer; looking down the axis a wedge would not open the view.
+  const cutAzimuth = opts.camera === 'axial' ? undefined : Math.atan2(dir.y, dir.x);
+  const built = buildScene(run, { rods: opts.rods, color: opts.color, cutAzimuth, lineObjects: false, scaleAxis: opts.camera === 'axial' ? 'x' : 'z' });
+  const camera = makeCamera(opts.camera, built.bounds, width, height, MARGINS);
+
+  const L = new Layers(width, height, ss);
+  const triangles = rasteriseMeshes(built.electrodes, camera, L);
+  L.resolveElectrodes();
+  rasteriseLineObjects(built.scene, camera, L, { width: 1.2, opacity: 1 },
+    (o) => o.name.startsWith('axis ') || o.parent === built.trajectories);
+
+  const nTraj = built.batch.start.length - 1;
+  let longest = 0;
+  for (let k = 0; k < nTraj; k++) longest = Math.max(longest, built.batch.start[k + 1] - built.batch.start[k]);
+  const scratch = new Float64Array(3 * Math.max(1, longest));
+  // Dense ensembles are drawn thinner and lighter so the envelope, not single ions, reads.
+  const style = nTraj > 300 ? { width: 1.0, opacity: 0.35 } : nTraj > 60 ? { width: 1.3, opacity: 0.6 } : { width: 1.7, opacity: 0.9 };
+  const pointsDrawn = rasteriseBatch(built.batch, camera, L, style, scratch);
+
+  const rgba = new Uint8ClampedArray(4 * width * height);
+  composite(L, rgba);
+
+  const vp = new THREE.Matrix4().multiplyMatrices(camera.projectionMatrix, camera.matrixWorldInverse);
+  const a = built.scaleBar[0].clone().applyMatrix4(vp), b = built.scaleBar[1].clone().applyMatrix4(vp);
+  const px = (v: THREE.Vector3): [number, number] => [(v.x + 1) * 0.5 * width, (1 - v.y) * 0.5 * height];
+  const [ax, ay] = px(a), [bx, by] = px(b);
+  const nPoints = run.traj.t.length;
+  const png = drawLabels(rgba, width, height, {
+    title: run.sceneName,
+    subtitle: `${describeStages(run)}   ·   ${nTraj} ion${nTraj === 1 ? '' : 's'}, ${nPoints.toLocaleString('en-US')} points   ·   camera ${opts.camera}, ${opts.rods} rods`,
+    legend: built.legend,
+    scaleBarText: `${built.scaleBarMm} mm${opts.camera === 'iso' ? ' (at bar depth)' : ''}`,
+    scaleBarPx: [ax, ay, bx, by],
+    camera,
+    footerLeft: `iontrail ${run.toolVersion} · seed ${run.seed}${run.sceneFile ? ` · scene ${run.sceneFile}` : ''} · run ${run.dir}`,
+    footerRight: openingNote(run, cutAzimuth !== undefined),
+  });
+  return { png, triangles, pointsDrawn, width, height };
+}
