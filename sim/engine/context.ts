@@ -40,11 +40,29 @@ export interface StepContext {
   gas: GasStep | null;
 }
 
-/** Record the cursor's state and sample the history if due; called by kernels after a step. */
-export function observe(c: IonCursor, ctx: StepContext): void {
-  if (ctx.rec !== null && ++c.sinceRecord >= ctx.recordEvery) {
-    c.sinceRecord = 0;
-    ctx.rec.push(c.ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+/** Steps from now until a trajectory point or a history sample is due (Infinity: neither). */
+export function stepsToWatch(c: IonCursor, ctx: StepContext, h: number): number {
+  let s = Infinity;
+  if (ctx.rec !== null) s = ctx.recordEvery - c.sinceRecord;
+  const hs = ctx.hist;
+  if (hs !== null && c.nextHist < hs.points) {
+    s = Math.min(s, Math.max(1, Math.ceil((hs.timeOf(c.nextHist) - c.t) / h - 1e-9)));
+  }
+  return s;
+}
+
+/**
+ * After `steps` steps: record the cursor's state if a point is due and sample the history at
+ * every grid time passed. Kernels call it only when stepsToWatch says so, so the hot loop pays
+ * one integer compare per step.
+ */
+export function observe(c: IonCursor, ctx: StepContext, steps: number): void {
+  if (ctx.rec !== null) {
+    c.sinceRecord += steps;
+    if (c.sinceRecord >= ctx.recordEvery) {
+      c.sinceRecord = 0;
+      ctx.rec.push(c.ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+    }
   }
   const h = ctx.hist;
   if (h !== null) {

@@ -6,7 +6,7 @@
 // an ion crossing an end cap within its hole radius leaves the trap. RK4 as in quadrupole.ts.
 
 import type { TrapStage } from '../../scene/types.js';
-import { Exit, observe, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
+import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
 import { phaseTable } from '../phase-table.js';
 
 export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
@@ -46,7 +46,6 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   const psi = omega * (tEntry + c.tau) + st.rf.phase;
   const cp = Math.cos(psi), sp = Math.sin(psi);
   const gas = ctx.gas;
-  const watch = ctx.rec !== null || ctx.hist !== null;
 
   let x = c.x, y = c.y, z = c.z - zc, vx = c.vx, vy = c.vy, vz = c.vz;
   const span = ctx.maxTime - tEntry;
@@ -54,6 +53,8 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   let j = 0;
   let n = 0;
   let hs = h;
+  let span0 = stepsToWatch(c, ctx, h);
+  let watchIn = span0;
   for (;;) {
     const last = n === full;
     let g0: number, g1: number, g2: number;
@@ -113,9 +114,10 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
       return vz > 0 ? Exit.forward : Exit.backward;
     }
     if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return Exit.time; }
-    if (watch) {
+    if (--watchIn <= 0) {
       storeCursor(c, t1, x, y, z + zc, vx, vy, vz, 0);
-      observe(c, ctx);
+      observe(c, ctx, span0);
+      watchIn = span0 = stepsToWatch(c, ctx, h);
     }
     if (gas !== null) {
       const b = ctx.batch, i = c.slot;

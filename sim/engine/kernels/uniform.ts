@@ -68,7 +68,7 @@ export function trackUniform(st: DriftStage | AccelerateStage, c: IonCursor, ctx
     }
     storeCursor(c, t1, x, y, z, c.vx, c.vy, vz, 1);
     if (code !== 0) return code;
-    if (ctx.rec !== null) observe(c, ctx);
+    if (ctx.rec !== null) observe(c, ctx, 1);
     const b = ctx.batch, i = c.slot;
     b.vx[i] = c.vx; b.vy[i] = c.vy; b.vz[i] = c.vz;
     gas!(b, i, dt);
