@@ -7,10 +7,10 @@
 //
 // Summation order. Each target's field is accumulated in ascending source index, starting from 0.
 // The symmetric loop below (Newton's third law, one distance per pair) keeps that order: target j
-// receives the pair (r, j) while row r < j runs, then its own row j. The pair term for (j, r) is the
-// exact negation of the one for (r, j) in IEEE arithmetic, so any split of targets into blocks
-// (fieldBlock) gives the same bits as one full pass — the result does not depend on worker count.
-// Every pair term is written (d · inv3) · Q in all three loops so the bits match.
+// receives the pair (r, j) while row r < j runs, then its own row j. Cutting the loop into tiles
+// (fieldTile) and running each target's tiles in ascending source order repeats exactly the same
+// additions, so the parallel wavefront (parallel.ts) gives the bits of one serial pass whatever
+// the number of threads.
 
 import { VACUUM_PERMITTIVITY } from '../units/constants.js';
 
@@ -30,61 +30,11 @@ export interface FieldOut {
   ex: Float64Array; ey: Float64Array; ez: Float64Array;
 }
 
-/**
- * Field at targets [a, b) from all n sources, written into out[a..b). Sources outside the block are
- * summed one-sided; pairs inside the block use the symmetric loop. Per target, sources are added in
- * ascending index (see header), so every block split gives identical bits.
- */
-export function fieldBlock(c: ChargeCloud, eps2: number, a: number, b: number, out: FieldOut): void {
-  const { n, x, y, z, qs } = c;
-  const { ex, ey, ez } = out;
-  // Sources below the block, one-sided.
-  for (let i = a; i < b; i++) {
-    const xi = x[i], yi = y[i], zi = z[i];
-    let fx = 0, fy = 0, fz = 0;
-    for (let j = 0; j < a; j++) {
-      const dx = xi - x[j], dy = yi - y[j], dz = zi - z[j];
-      const r2 = dx * dx + dy * dy + dz * dz + eps2;
-      const inv3 = 1 / (r2 * Math.sqrt(r2));
-      const qj = qs[j];
-      fx += dx * inv3 * qj; fy += dy * inv3 * qj; fz += dz * inv3 * qj;
-    }
-    ex[i] = fx; ey[i] = fy; ez[i] = fz;
-  }
-  // Pairs inside the block, symmetric: one inverse distance per pair.
-  for (let i = a; i < b; i++) {
-    const xi = x[i], yi = y[i], zi = z[i], qi = qs[i];
-    let fx = ex[i], fy = ey[i], fz = ez[i];
-    for (let j = i + 1; j < b; j++) {
-      const dx = xi - x[j], dy = yi - y[j], dz = zi - z[j];
-      const r2 = dx * dx + dy * dy + dz * dz + eps2;
-      const inv3 = 1 / (r2 * Math.sqrt(r2));
-      const gx = dx * inv3, gy = dy * inv3, gz = dz * inv3;
-      const qj = qs[j];
-      fx += gx * qj; fy += gy * qj; fz += gz * qj;
-      ex[j] -= gx * qi; ey[j] -= gy * qi; ez[j] -= gz * qi;
-    }
-    ex[i] = fx; ey[i] = fy; ez[i] = fz;
-  }
-  // Sources above the block, one-sided.
-  for (let i = a; i < b; i++) {
-    const xi = x[i], yi = y[i], zi = z[i];
-    let fx = ex[i], fy = ey[i], fz = ez[i];
-    for (let j = b; j < n; j++) {
-      const dx = xi - x[j], dy = yi - y[j], dz = zi - z[j];
-      const r2 = dx * dx + dy * dy + dz * dz + eps2;
-      const inv3 = 1 / (r2 * Math.sqrt(r2));
-      const qj = qs[j];
-      fx += dx * inv3 * qj; fy += dy * inv3 * qj; fz += dz * inv3 * qj;
-    }
-    ex[i] = fx; ey[i] = fy; ez[i] = fz;
-  }
-}
-
 /** Field, V/m, at every ion from all others (single thread). softening ε in m. */
 export function directField(c: ChargeCloud, softening: number, out: FieldOut): void {
   const n = c.n;
-  fieldBlock(c, softening * softening, 0, n, out);
+  out.ex.fill(0, 0, n); out.ey.fill(0, 0, n); out.ez.fill(0, 0, n);
+  fieldTile(c, softening * softening, 0, n, 0, n, out);
   scaleField(out, n, COULOMB_K);
 }
 
@@ -107,4 +57,31 @@ export function coulombEnergy(c: ChargeCloud, softening: number): number {
     u += qs[i] * ui;
   }
   return COULOMB_K * u;
+}
+
+/**
+ * One tile of the symmetric pair loop: rows [i0, i1) against sources [j0, j1), j0 ≥ i1, or the
+ * triangle of block [i0, i1) itself when j0 = i0 (then j1 = i1). Row targets accumulate their
+ * sources in ascending order, column targets receive rows in ascending order, each into its running
+ * sum in out — so running the tiles of every target in ascending source order (parallel.ts) gives
+ * the bits of directField.
+ */
+export function fieldTile(c: ChargeCloud, eps2: number, i0: number, i1: number, j0: number, j1: number, out: FieldOut): void {
+  const { x, y, z, qs } = c;
+  const { ex, ey, ez } = out;
+  const diag = j0 === i0;
+  for (let i = i0; i < i1; i++) {
+    const xi = x[i], yi = y[i], zi = z[i], qi = qs[i];
+    let fx = ex[i], fy = ey[i], fz = ez[i];
+    for (let j = diag ? i + 1 : j0; j < j1; j++) {
+      const dx = xi - x[j], dy = yi - y[j], dz = zi - z[j];
+      const r2 = dx * dx + dy * dy + dz * dz + eps2;
+      const inv3 = 1 / (r2 * Math.sqrt(r2));
+      const gx = dx * inv3, gy = dy * inv3, gz = dz * inv3;
+      const qj = qs[j];
+      fx += gx * qj; fy += gy * qj; fz += gz * qj;
+      ex[j] -= gx * qi; ey[j] -= gy * qi; ez[j] -= gz * qi;
+    }
+    ex[i] = fx; ey[i] = fy; ez[i] = fz;
+  }
 }
