@@ -50,7 +50,7 @@ export function sceneJson(trap: boolean): Record<string, unknown> {
       { type: 'quadrupole', length: QF4.length, r0: QF4.r0, rf: { amplitude: QF4.amplitude, frequency: QF4.frequency, phase: 0 }, dc: QF4.dc },
       { type: 'drift', length: 0.02 },
     ];
-  return { name: trap ? 'Skerry T-7 trap, buffer-gas cooling' : 'Skerry QF-4 filter, m/z 502 working point', seed: 42, stages };
+  return { name: trap ? 'Skerry T-7 trap, helium buffer gas' : 'Skerry QF-4 filter, m/z 502 working point', seed: 42, stages };
 }
 
 /** Write a synthetic run folder at `dir` and return the summary written. */
@@ -114,7 +114,7 @@ export async function writeSyntheticRun(dir: string, opt: SyntheticOptions = {})
       cols.end_time[i] = QF4.length / vz * (1 + 0.01 * j);
       cols.end_x[i] = X(tEnd); cols.end_y[i] = Y(tEnd); cols.end_z[i] = fate === 'hit' ? 0.05 : QF4.length + 0.02;
       cols.end_vx[i] = 1; cols.end_vy[i] = -1; cols.end_vz[i] = vz;
-      cols.end_ke_ev[i] = 5 + 0.05 * j; cols.end_stage[i] = fate === 'hit' ? 0 : 1; cols.collisions[i] = 0;
+      cols.end_ke_ev[i] = 5 + 0.4 * p + 0.05 * j; cols.end_stage[i] = fate === 'hit' ? 0 : 1; cols.collisions[i] = 0;
     }
     species.push({ population: p, mz: mzs[p], charge: 1, total: per, detected, hit: per - detected, alive: 0, transmission: detected / per });
   }

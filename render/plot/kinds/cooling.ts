@@ -1,0 +1,106 @@
+// Buffer-gas cooling: ensemble mean kinetic energy against time on a log axis, per-axis components,
+// and the exponential with the run's fitted time constant τ (summary.cooling.tau_s); below, the
+// cloud size (rms radius and rms z) against time. Data from history.arrow.
+
+import { readHistory, type RunFolder } from '../../../sim/runfolder/index.js';
+import { INK, seriesColor } from '../../common/palette.js';
+import { formatWithUnit } from '../../common/ticks.js';
+import { extent } from '../axis.js';
+import type { Ctx, FigureSpec, LegendEntry, PanelGeom } from '../figure.js';
+import { PlotError, type PlotKind } from '../kind.js';
+import { figureTitle, footerText } from '../provenance.js';
+
+function polyline(ctx: Ctx, g: PanelGeom, t: ArrayLike<number>, y: ArrayLike<number>, color: string, width: number, dash: number[] = []): void {
+  ctx.strokeStyle = color; ctx.lineWidth = width; ctx.setLineDash(dash);
+  ctx.beginPath();
+  let pen = false;
+  for (let i = 0; i < t.length; i++) {
+    const v = y[i];
+    if (!Number.isFinite(v) || (g.y.log && v <= 0)) { pen = false; continue; }
+    const X = g.px(t[i]), Y = g.py(v);
+    if (pen) ctx.lineTo(X, Y); else { ctx.moveTo(X, Y); pen = true; }
+  }
+  ctx.stroke();
+  ctx.setLineDash([]);
+}
+
+/**
+ * With τ fixed, E(t) = E∞ + A·exp(−t/τ) is linear in (E∞, A): ordinary least squares over the
+ * history gives the curve belonging to the reported τ (the engine fits τ on log(E − plateau)).
+ */
+export function exponentialWithTau(t: ArrayLike<number>, e: ArrayLike<number>, tau: number): { floor: number; amp: number } {
+  let n = 0, su = 0, suu = 0, sy = 0, suy = 0;
+  for (let i = 0; i < t.length; i++) {
+    if (!Number.isFinite(e[i])) continue;
+    const u = Math.exp(-t[i] / tau);
+    n++; su += u; suu += u * u; sy += e[i]; suy += u * e[i];
+  }
+  const det = n * suu - su * su;
+  if (!(Math.abs(det) > 0)) return { floor: NaN, amp: NaN };
+  const amp = (n * suy - su * sy) / det;
+  return { floor: (sy - amp * su) / n, amp };
+}
+
+export const cooling: PlotKind = {
+  name: 'cooling',
+  describe: 'ensemble mean kinetic energy (log axis) with the fitted τ, and cloud size, against time',
+  flags: {},
+  async build(run: RunFolder): Promise<FigureSpec> {
+    const h = readHistory(run.dir);
+    if (h === null || h.t.length === 0) throw new PlotError(`${run.dir}: no history.arrow (cooling needs the ensemble history of a run)`);
+    const tauRaw = (run.summary.cooling as { tau_s?: unknown } | undefined)?.tau_s;
+    const tau = typeof tauRaw === 'number' && tauRaw > 0 ? tauRaw : null;
+    const [t0, t1] = extent([h.t]);
+    const [e0, e1] = extent([h.mean_ke_ev, h.mean_ke_x_ev, h.mean_ke_y_ev, h.mean_ke_z_ev], true);
+    const fit = tau === null ? null : exponentialWithTau(h.t, h.mean_ke_ev, tau);
+    const fitCurve = fit === null ? null : Float64Array.from(h.t, (t) => fit.floor + fit.amp * Math.exp(-t / tau!));
+    const C = { total: seriesColor(0), x: seriesColor(1), y: seriesColor(2), z: seriesColor(3), fit: INK };
+    const legend: LegendEntry[] = [
+      { label: 'mean kinetic energy', color: C.total, mark: 'line' },
+      { label: 'x part', color: C.x, mark: 'line' },
+      { label: 'y part', color: C.y, mark: 'line' },
+      { label: 'z part', color: C.z, mark: 'line' },
+      fit && tau !== null
+        ? { label: `fit E∞ + A·exp(−t/τ), τ = ${formatWithUnit(tau, 's')}, E∞ = ${formatWithUnit(fit.floor, 'eV')}`, color: C.fit, mark: 'dash' }
+        : { label: 'no cooling time constant in summary.json', color: C.fit, mark: 'dash' },
+      { label: 'rms radius', color: seriesColor(4), mark: 'line' },
+      { label: 'rms z', color: seriesColor(5), mark: 'line' },
+    ];
+    const [s0, s1] = extent([h.rms_radius_m, h.rms_z_m]);
+    return {
+      title: figureTitle(run.summary, 'buffer-gas cooling'),
+      subtitle: `${h.t.length} history samples; ${Math.round(h.n_alive[h.n_alive.length - 1])} ions alive at the end`,
+      legend,
+      rows: 2, cols: 1, sharedX: true,
+      panels: [
+        {
+          x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
+          y: { label: 'mean kinetic energy', unit: 'eV', min: e0 / 1.3, max: e1 * 1.3, log: true },
+          draw: (ctx, g) => {
+            polyline(ctx, g, h.t, h.mean_ke_x_ev, C.x, 1);
+            polyline(ctx, g, h.t, h.mean_ke_y_ev, C.y, 1);
+            polyline(ctx, g, h.t, h.mean_ke_z_ev, C.z, 1);
+            polyline(ctx, g, h.t, h.mean_ke_ev, C.total, 2.2);
+            if (fitCurve) polyline(ctx, g, h.t, fitCurve, C.fit, 1.5, [7, 4]);
+            if (tau !== null && tau >= t0 && tau <= t1) {
+              const X = Math.round(g.px(tau)) + 0.5;
+              ctx.strokeStyle = C.fit; ctx.lineWidth = 1; ctx.setLineDash([2, 3]);
+              ctx.beginPath(); ctx.moveTo(X, g.top); ctx.lineTo(X, g.top + g.height); ctx.stroke();
+              ctx.setLineDash([]);
+            }
+          },
+          note: tau !== null && tau >= t0 && tau <= t1 ? 'dotted line: t = τ' : undefined,
+        },
+        {
+          x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
+          y: { label: 'cloud size', unit: 'm', min: Math.min(0, s0), max: s1 },
+          draw: (ctx, g) => {
+            polyline(ctx, g, h.t, h.rms_radius_m, seriesColor(4), 2);
+            polyline(ctx, g, h.t, h.rms_z_m, seriesColor(5), 2);
+          },
+        },
+      ],
+      footer: footerText(run.summary, run.dir),
+    };
+  },
+};

@@ -1,0 +1,145 @@
+// Histograms per species: arrival time (end_time of detected ions, the TOF spectrum) and final
+// kinetic energy. Bin width by the Freedman–Diaconis rule, h = 2·IQR·n^(−1/3) (Freedman & Diaconis,
+// Z. Wahrscheinlichkeitstheorie verw. Gebiete 57, 1981), unless --bins is given.
+
+import type { FateName, RunFolder } from '../../../sim/runfolder/index.js';
+import { seriesColor } from '../../common/palette.js';
+import { formatWithUnit } from '../../common/ticks.js';
+import type { FigureSpec, LegendEntry } from '../figure.js';
+import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
+import { figureTitle, footerText } from '../provenance.js';
+
+const FATE_CHOICES = ['detected', 'hit', 'alive', 'all'] as const;
+
+function quantile(sorted: Float64Array, p: number): number {
+  const x = p * (sorted.length - 1);
+  const i = Math.floor(x), f = x - i;
+  return i + 1 < sorted.length ? sorted[i] + f * (sorted[i + 1] - sorted[i]) : sorted[i];
+}
+
+/** Number of bins over [lo, hi] by Freedman–Diaconis, clamped to 5..200. */
+export function freedmanDiaconisBins(values: Float64Array, lo: number, hi: number): number {
+  const s = Float64Array.from(values).sort();
+  const iqr = quantile(s, 0.75) - quantile(s, 0.25);
+  const h = 2 * iqr * Math.pow(s.length, -1 / 3);
+  if (!(h > 0) || !(hi > lo)) return 10;
+  return Math.max(5, Math.min(200, Math.ceil((hi - lo) / h)));
+}
+
+function meanSd(v: ArrayLike<number>): { mean: number; sd: number } {
+  let m = 0;
+  for (let i = 0; i < v.length; i++) m += v[i];
+  m /= v.length;
+  let s = 0;
+  for (let i = 0; i < v.length; i++) s += (v[i] - m) * (v[i] - m);
+  return { mean: m, sd: v.length > 1 ? Math.sqrt(s / (v.length - 1)) : 0 };
+}
+
+function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'energy'): FigureSpec {
+  const I = run.ions;
+  const fate = choiceFlag(opt, 'fate', FATE_CHOICES, 'detected');
+  const src = what === 'arrival' ? I.end_time : I.end_ke_ev;
+  const byPop = new Map<number, number[]>();
+  for (let r = 0; r < I.ion.length; r++) {
+    if (fate !== 'all' && I.fate[r] !== (fate as FateName)) continue;
+    const v = src[r];
+    if (!Number.isFinite(v)) continue;
+    const list = byPop.get(I.population[r]) ?? [];
+    list.push(v);
+    byPop.set(I.population[r], list);
+  }
+  const all = Float64Array.from([...byPop.values()].flat());
+  if (all.length === 0) {
+    throw new PlotError(`${run.dir}: no ${fate === 'all' ? '' : fate + ' '}ions to histogram${fate !== 'all' ? ' (try --fate all)' : ''}`);
+  }
+  let lo = Infinity, hi = -Infinity;
+  for (const v of all) { if (v < lo) lo = v; if (v > hi) hi = v; }
+  if (!(hi > lo)) { const pad = Math.abs(lo) * 0.01 || 1e-12; lo -= pad; hi += pad; }
+  const nBins = opt.values.has('bins') ? intFlag(opt, 'bins', 40, 1, 2000) : freedmanDiaconisBins(all, lo, hi);
+  const width = (hi - lo) / nBins;
+  const pops = [...byPop.keys()].sort((a, b) => a - b);
+  const unit = what === 'arrival' ? 's' : 'eV';
+  const legend: LegendEntry[] = [];
+  const hists = pops.map((p, i) => {
+    const v = byPop.get(p)!;
+    const counts = new Float64Array(nBins);
+    for (const x of v) counts[Math.min(nBins - 1, Math.floor((x - lo) / width))]++;
+    const r = I.population.indexOf(p);
+    const mz = r >= 0 ? Number(I.mz[r].toPrecision(6)) : NaN;
+    const { mean, sd } = meanSd(v);
+    // Mass resolving power of a TOF from the arrival spread: t ∝ √m ⇒ m/Δm = t/(2Δt), with the
+    // FWHM of a Gaussian, Δt = 2.355σ (standard kinematics; Wiley & McLaren, Rev. Sci. Instrum. 26, 1955).
+    const res = what === 'arrival' && sd > 0 ? `, m/Δm ≈ ${Math.round(mean / (2 * 2.355 * sd))}` : '';
+    legend.push({
+      label: `m/z ${mz}: n = ${v.length}, mean ${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
+      color: seriesColor(i), mark: 'box',
+    });
+    return { counts, color: seriesColor(i) };
+  });
+  const overlay = opt.switches.has('overlay');
+  // Stacked by default: species that arrive together stay visible, and the top is the total.
+  const base = hists.map(() => new Float64Array(nBins));
+  if (!overlay) for (let i = 1; i < hists.length; i++) for (let b = 0; b < nBins; b++) base[i][b] = base[i - 1][b] + hists[i - 1].counts[b];
+  let cmax = 0;
+  hists.forEach((h, i) => { for (let b = 0; b < nBins; b++) cmax = Math.max(cmax, base[i][b] + h.counts[b]); });
+  const label = what === 'arrival' ? 'arrival time' : 'final kinetic energy';
+  return {
+    title: figureTitle(run.summary, what === 'arrival' ? 'arrival-time histogram' : 'final-energy histogram'),
+    subtitle: `${all.length.toLocaleString('en-US')} ${fate === 'all' ? '' : fate + ' '}ions, ${nBins} bins of ${formatWithUnit(width, unit, 3)}${opt.values.has('bins') ? '' : ' (Freedman–Diaconis)'}, ${overlay ? 'overlaid' : 'stacked'}${what === 'arrival' ? '; m/Δm from t/(2·FWHM), FWHM = 2.355σ' : ''}`,
+    legend,
+    rows: 1, cols: 1,
+    panels: [{
+      x: { label, unit, min: lo, max: hi },
+      y: { label: 'ions per bin', unit: '', min: 0, max: cmax * 1.08, integer: true },
+      draw: (ctx, g) => {
+        hists.forEach((h, i) => {
+          if (overlay) {
+            ctx.beginPath();
+            ctx.moveTo(g.px(lo), g.py(0));
+            for (let b = 0; b < nBins; b++) {
+              ctx.lineTo(g.px(lo + b * width), g.py(h.counts[b]));
+              ctx.lineTo(g.px(lo + (b + 1) * width), g.py(h.counts[b]));
+            }
+            ctx.lineTo(g.px(hi), g.py(0));
+            ctx.closePath();
+            ctx.globalAlpha = 0.25;
+            ctx.fillStyle = h.color; ctx.fill();
+            ctx.globalAlpha = 1;
+            ctx.strokeStyle = h.color; ctx.lineWidth = 1.5; ctx.stroke();
+            return;
+          }
+          ctx.fillStyle = h.color;
+          for (let b = 0; b < nBins; b++) {
+            if (h.counts[b] === 0) continue;
+            const x0 = g.px(lo + b * width), x1 = g.px(lo + (b + 1) * width);
+            const y0 = g.py(base[i][b]), y1 = g.py(base[i][b] + h.counts[b]);
+            ctx.fillRect(x0, y1, Math.max(1, x1 - x0 - (x1 - x0 > 4 ? 1 : 0)), y0 - y1);
+          }
+        });
+      },
+    }],
+    footer: footerText(run.summary, run.dir),
+  };
+}
+
+const FLAGS = {
+  fate: 'which ions: detected (default) | hit | alive | all',
+  bins: 'number of bins (default: Freedman–Diaconis rule)',
+};
+const SWITCHES = { overlay: 'overlaid outlines per species instead of stacked bars' };
+
+export const arrival: PlotKind = {
+  name: 'arrival',
+  describe: 'histogram of arrival times (end_time) per species, with σ and m/Δm',
+  flags: FLAGS,
+  switches: SWITCHES,
+  build: async (run, opt) => buildHistogram(run, opt, 'arrival'),
+};
+
+export const energy: PlotKind = {
+  name: 'energy',
+  describe: 'histogram of final kinetic energies (end_ke_ev) per species',
+  flags: FLAGS,
+  switches: SWITCHES,
+  build: async (run, opt) => buildHistogram(run, opt, 'energy'),
+};

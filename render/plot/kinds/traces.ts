@@ -1,0 +1,170 @@
+// Time traces: stacked panels sharing one time axis (x, y, z, r, kinetic energy) for chosen ions or
+// all recorded ones, drawn through per-pixel min/max decimation so 1e6 points per series draw in
+// milliseconds. Optional RF period marks along the top of each panel.
+
+import { readTrajectories, ionSegments, type RunFolder, type TrajectoryColumns } from '../../../sim/runfolder/index.js';
+import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../../sim/units/constants.js';
+import { seriesColor, INK_SOFT } from '../../common/palette.js';
+import { formatWithUnit } from '../../common/ticks.js';
+import { extent } from '../axis.js';
+import { Decimator } from '../decimate.js';
+import type { Ctx, FigureSpec, LegendEntry, PanelGeom, PanelSpec } from '../figure.js';
+import { PlotError, intFlag, ionList, type KindOptions, type PlotKind } from '../kind.js';
+import { figureTitle, footerText } from '../provenance.js';
+import { firstRfFrequency } from '../scene.js';
+
+const QUANTITIES = {
+  x: { label: 'x', unit: 'm' },
+  y: { label: 'y', unit: 'm' },
+  z: { label: 'z', unit: 'm' },
+  r: { label: 'r', unit: 'm' },
+  ke: { label: 'kinetic energy', unit: 'eV' },
+  vx: { label: 'vx', unit: 'm/s' },
+  vy: { label: 'vy', unit: 'm/s' },
+  vz: { label: 'vz', unit: 'm/s' },
+} as const;
+type Quantity = keyof typeof QUANTITIES;
+
+/** Series drawn per ion beyond which ions are coloured by population instead of one by one. */
+const MAX_PER_ION_COLOURS = 7;
+
+/** One derived column over all points (r, kinetic energy) or a stored one. */
+function column(q: Quantity, tr: TrajectoryColumns, massOf: (ion: number) => number): Float64Array {
+  if (q === 'r') {
+    const out = new Float64Array(tr.x.length);
+    for (let i = 0; i < out.length; i++) out[i] = Math.hypot(tr.x[i], tr.y[i]);
+    return out;
+  }
+  if (q === 'ke') {
+    // Kinetic energy ½mv² in eV (non-relativistic; ion speeds here are ≪ c).
+    const out = new Float64Array(tr.x.length);
+    for (let i = 0; i < out.length; i++) {
+      const v2 = tr.vx[i] * tr.vx[i] + tr.vy[i] * tr.vy[i] + tr.vz[i] * tr.vz[i];
+      out[i] = (0.5 * massOf(tr.ion[i]) * v2) / ELEMENTARY_CHARGE;
+    }
+    return out;
+  }
+  return tr[q];
+}
+
+export interface TraceSeries { start: number; end: number; color: string }
+
+/** Draw one decimated polyline per series. */
+export function drawSeries(ctx: Ctx, g: PanelGeom, t: ArrayLike<number>, y: ArrayLike<number>, series: TraceSeries[], lineWidth: number, dec: Decimator): void {
+  ctx.lineWidth = lineWidth;
+  ctx.lineJoin = 'round';
+  for (const s of series) {
+    const n = dec.run(t, y, s.start, s.end, g.ax, g.bx);
+    if (n === 0) continue;
+    const xy = dec.xy;
+    ctx.strokeStyle = s.color;
+    ctx.beginPath();
+    ctx.moveTo(xy[0], g.ay + g.by * xy[1]);
+    for (let k = 1; k < n; k++) ctx.lineTo(xy[2 * k], g.ay + g.by * xy[2 * k + 1]);
+    if (n === 1) ctx.lineTo(xy[0] + 0.5, g.ay + g.by * xy[1]);
+    ctx.stroke();
+  }
+}
+
+export const traces: PlotKind = {
+  name: 'traces',
+  describe: 'stacked time traces (x, y, z, r, kinetic energy) of chosen ions on one time axis',
+  flags: {
+    ions: 'ions to draw, e.g. 0,3,7 or 0-9 (default: every recorded ion)',
+    panels: 'quantities, top to bottom, from x,y,z,r,ke,vx,vy,vz (default x,y,z,ke)',
+    every: 'read every n-th recorded point (default 1)',
+  },
+  switches: { 'rf-marks': 'tick marks at every RF period (of the first RF stage) along each panel top' },
+  async build(run: RunFolder, opt: KindOptions): Promise<FigureSpec> {
+    if (!run.hasTrajectories) throw new PlotError(`${run.dir}: no trajectories.arrow (run with record_every > 0 to draw traces)`);
+    const panelsText = opt.values.get('panels') ?? 'x,y,z,ke';
+    const panels = panelsText.split(',').map((s) => s.trim()) as Quantity[];
+    for (const p of panels) {
+      if (!(p in QUANTITIES)) throw new PlotError(`--panels: unknown quantity '${p}' (expected some of ${Object.keys(QUANTITIES).join(',')})`);
+    }
+    const every = intFlag(opt, 'every', 1, 1, 1e9);
+    const ionsText = opt.values.get('ions');
+    const wanted = ionsText === undefined ? undefined : ionList(ionsText);
+    const tr = await readTrajectories(run.dir, { ions: wanted, everyNth: every });
+    if (tr.t.length === 0) {
+      throw new PlotError(`${run.dir}: no recorded points${wanted ? ` for ions ${ionsText}` : ''}`);
+    }
+    const rowOf = new Map<number, number>();
+    run.ions.ion.forEach((ion, r) => rowOf.set(ion, r));
+    const massOf = (ion: number): number => {
+      const r = rowOf.get(ion);
+      return r === undefined ? NaN : run.ions.mz[r] * Math.abs(run.ions.charge[r]) * ATOMIC_MASS_UNIT;
+    };
+    const segs = ionSegments(tr.ion);
+    const perIon = segs.length <= MAX_PER_ION_COLOURS;
+    const legend: LegendEntry[] = [];
+    const popIndex = new Map<number, number>();
+    const series: TraceSeries[] = segs.map((s, k) => {
+      const r = rowOf.get(s.ion);
+      const mz = r === undefined ? NaN : run.ions.mz[r];
+      if (perIon) {
+        const color = seriesColor(k);
+        legend.push({ label: `ion ${s.ion} (m/z ${fmt(mz)})`, color, mark: 'line' });
+        return { ...s, color };
+      }
+      const pop = r === undefined ? -1 : run.ions.population[r];
+      if (!popIndex.has(pop)) {
+        popIndex.set(pop, popIndex.size);
+        legend.push({ label: `m/z ${fmt(mz)}`, color: seriesColor(popIndex.size - 1), mark: 'line' });
+      }
+      return { ...s, color: seriesColor(popIndex.get(pop)!) };
+    });
+    const [t0, t1] = extent([tr.t]);
+    const rf = opt.switches.has('rf-marks') ? firstRfFrequency(run.summary) : undefined;
+    if (opt.switches.has('rf-marks') && rf === undefined) {
+      throw new PlotError(`--rf-marks: the scene in ${run.dir}/summary.json has no RF stage`);
+    }
+    // Marks every RF period, thinned to every n-th period (n = 1, 2, 5, 10, …) where they would be
+    // closer than 4 px (plot width estimated from the page width; the legend says which n).
+    let rfEvery = 1;
+    if (rf !== undefined) {
+      const pxPer = ((opt.width - 120) / Math.max(t1 - t0, 1e-30)) / rf;
+      while (pxPer * rfEvery < 4) rfEvery = rfEvery === 1 ? 2 : rfEvery === 2 ? 5 : rfEvery * 2;
+      const every = rfEvery === 1 ? '' : ` (mark every ${rfEvery} periods)`;
+      legend.push({ label: `RF period ${formatWithUnit(1 / rf, 's')}${every}`, color: INK_SOFT, mark: 'line' });
+    }
+    const dec = new Decimator();
+    const lineWidth = perIon ? 1.3 : 0.8;
+    const specs: PanelSpec[] = panels.map((q) => {
+      const y = column(q, tr, massOf);
+      const [lo, hi] = extent([y]);
+      return {
+        x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
+        y: { label: QUANTITIES[q].label, unit: QUANTITIES[q].unit, min: lo, max: hi },
+        draw: (ctx, g) => drawSeries(ctx, g, tr.t, y, series, lineWidth, dec),
+        overlay: rf === undefined ? undefined : (ctx, g) => {
+          const period = 1 / rf;
+          ctx.strokeStyle = INK_SOFT;
+          ctx.lineWidth = 1.2;
+          ctx.beginPath();
+          const k0 = Math.ceil(g.x.min / period / rfEvery) * rfEvery;
+          for (let k = k0; k * period <= g.x.max; k += rfEvery) {
+            const X = Math.round(g.ax + g.bx * k * period) + 0.5;
+            ctx.moveTo(X, g.top); ctx.lineTo(X, g.top + 6);
+          }
+          ctx.stroke();
+        },
+      };
+    });
+    const total = tr.t.length;
+    return {
+      title: figureTitle(run.summary, 'time traces'),
+      subtitle: `${segs.length} ion${segs.length === 1 ? '' : 's'}, ${total.toLocaleString('en-US')} recorded points${every > 1 ? ` (every ${every}th read)` : ''}`,
+      legend,
+      panels: specs,
+      rows: specs.length,
+      cols: 1,
+      sharedX: true,
+      footer: footerText(run.summary, run.dir),
+    };
+  },
+};
+
+function fmt(mz: number): string {
+  return Number.isFinite(mz) ? String(Number(mz.toPrecision(6))) : '?';
+}

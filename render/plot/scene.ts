@@ -1,0 +1,41 @@
+// The resolved scene as the engine stores it in summary.json provenance.scene: SI numbers, keys as
+// in the scene file (issue 3). Only what the figures need is read here, defensively: a missing
+// value gives undefined, never a throw.
+
+import type { RunSummary } from '../../sim/runfolder/index.js';
+
+export interface RfStage {
+  index: number;
+  type: 'quadrupole' | 'trap';
+  r0: number;
+  z0?: number;
+  amplitude: number;
+  frequency: number;
+  dc: number;
+}
+
+const num = (v: unknown): number | undefined => (typeof v === 'number' && Number.isFinite(v) ? v : undefined);
+
+export function sceneStages(summary: RunSummary): Record<string, unknown>[] {
+  const scene = (summary.provenance as { scene?: unknown } | undefined)?.scene;
+  const stages = (scene as { stages?: unknown } | undefined)?.stages;
+  return Array.isArray(stages) ? (stages as Record<string, unknown>[]) : [];
+}
+
+/** Stages with an RF drive (quadrupole filters and traps), in scene order. */
+export function rfStages(summary: RunSummary): RfStage[] {
+  const out: RfStage[] = [];
+  sceneStages(summary).forEach((s, index) => {
+    if (s.type !== 'quadrupole' && s.type !== 'trap') return;
+    const rf = (s.rf ?? {}) as Record<string, unknown>;
+    const r0 = num(s.r0), amplitude = num(rf.amplitude), frequency = num(rf.frequency);
+    if (r0 === undefined || amplitude === undefined || frequency === undefined) return;
+    out.push({ index, type: s.type, r0, z0: num(s.z0), amplitude, frequency, dc: num(s.dc) ?? 0 });
+  });
+  return out;
+}
+
+/** RF frequency of the first RF stage, Hz, if any. */
+export function firstRfFrequency(summary: RunSummary): number | undefined {
+  return rfStages(summary)[0]?.frequency;
+}

@@ -1,0 +1,151 @@
+// 2D figures from synthetic run folders: structural checks (size, ink in the plot area, the series
+// colours present), every kind, PNG and SVG, and the bad-input rules (one-line error, exit 2, no file).
+
+import { existsSync, readdirSync, readFileSync, statSync, truncateSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { KINDS, plotRun } from '../../render/plot/index.js';
+import { REGION_FILL, seriesColor } from '../../render/common/palette.js';
+import { main } from '../../cli/main.js';
+import { tempRoot, writeSyntheticRun } from '../runfolder/synthetic.js';
+import { countColor, countInk, decodePng } from './pixels.js';
+
+let root = '';
+let filterRun = '';
+let trapRun = '';
+
+beforeAll(async () => {
+  root = tempRoot('plot');
+  filterRun = join(root, 'qf4');
+  trapRun = join(root, 't7');
+  await writeSyntheticRun(filterRun, { mz: [502, 219, 1000], perPopulation: 4, pointsPerIon: 1500 });
+  await writeSyntheticRun(trapRun, { mz: [502, 219], perPopulation: 3, pointsPerIon: 300, history: true, trap: true });
+});
+
+async function png(dir: string, kind: string, extra: Record<string, string> = {}, switches: string[] = [], size = { width: 900, height: 600 }) {
+  const out = join(root, `${kind}-${Object.values(extra).join('_')}-${switches.join('_')}.png`);
+  await plotRun(dir, { kind, out, ...size, values: new Map(Object.entries(extra)), switches: new Set(switches) });
+  return decodePng(readFileSync(out));
+}
+
+describe('every kind renders', () => {
+  const cases: [string, () => string][] = [
+    ['traces', () => filterRun], ['stability', () => filterRun], ['phase', () => filterRun], ['xy', () => filterRun],
+    ['arrival', () => filterRun], ['energy', () => filterRun], ['cooling', () => trapRun],
+  ];
+  it('lists exactly the kinds tested here', () => {
+    expect(KINDS.map((k) => k.name).sort()).toEqual(cases.map((c) => c[0]).sort());
+  });
+  for (const [kind, dir] of cases) {
+    it(`${kind}: requested size, ink inside the plot area, first series colour present`, async () => {
+      const r = await png(dir(), kind);
+      expect([r.width, r.height]).toEqual([900, 600]);
+      // The middle of the page (where the panels are) carries data and axes, not just paper.
+      expect(countInk(r, 100, 120, 880, 540)).toBeGreaterThan(500);
+      // Density figures use the ramp instead of the series colours.
+      if (kind !== 'phase' && kind !== 'xy') expect(countColor(r, seriesColor(0), 40, 60, 90, 900, 560)).toBeGreaterThan(20);
+    });
+  }
+});
+
+describe('traces', () => {
+  it('draws one colour per chosen ion and RF period marks', async () => {
+    const r = await png(filterRun, 'traces', { ions: '0,5', panels: 'x,ke' }, ['rf-marks']);
+    expect(countColor(r, seriesColor(0), 30)).toBeGreaterThan(200);
+    expect(countColor(r, seriesColor(1), 30)).toBeGreaterThan(200);
+    expect(countColor(r, seriesColor(2), 20)).toBe(0); // only two ions asked for
+  });
+  it('refuses an unknown panel quantity and ions without points', async () => {
+    await expect(png(filterRun, 'traces', { panels: 'x,q' })).rejects.toThrow(/--panels: unknown quantity 'q'/);
+    await expect(png(filterRun, 'traces', { ions: '999' })).rejects.toThrow(/no recorded points for ions 999/);
+  });
+});
+
+describe('stability', () => {
+  it('fills the first region and marks each species in its own colour', async () => {
+    const r = await png(filterRun, 'stability');
+    expect(countColor(r, REGION_FILL, 4)).toBeGreaterThan(20000);
+    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 30)).toBeGreaterThan(20);
+  });
+  it('draws the trap diagram in (q_z, a_z)', async () => {
+    const r = await png(trapRun, 'stability');
+    expect(countColor(r, REGION_FILL, 4)).toBeGreaterThan(20000);
+    // The q_z = 0.908 edge is dashed in vermillion, shared with series 1 (also a species here).
+    expect(countColor(r, seriesColor(1), 30)).toBeGreaterThan(100);
+  });
+});
+
+describe('scatter kinds', () => {
+  it('draws marks in population colours with --style scatter', async () => {
+    const r = await png(filterRun, 'xy', { style: 'scatter', source: 'points' });
+    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 60)).toBeGreaterThan(50);
+  });
+  it('phase space from end states', async () => {
+    const r = await png(filterRun, 'phase', { source: 'end' });
+    expect(countColor(r, seriesColor(0), 30)).toBeGreaterThan(10);
+  });
+});
+
+describe('SVG output', () => {
+  it('writes an SVG of the requested size with the series colours', async () => {
+    const out = join(root, 'traces.svg');
+    await plotRun(filterRun, { kind: 'traces', out, width: 800, height: 500, values: new Map([['ions', '0,5']]) });
+    const text = readFileSync(out, 'utf8');
+    expect(text).toMatch(/^<\?xml[^>]*>\s*<svg[^>]*width="800"[^>]*height="500"/);
+    expect(text.toUpperCase()).toContain(seriesColor(0).toUpperCase());
+    expect(text.trimEnd().endsWith('</svg>')).toBe(true);
+  });
+});
+
+describe('plot bad input (CLI)', () => {
+  let err = '';
+  afterEach(() => vi.restoreAllMocks());
+  async function cli(args: string[]): Promise<number> {
+    err = '';
+    vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => { err += String(s); return true; });
+    return main(['plot', ...args]);
+  }
+  const noFileLeft = (dir: string, name: string) => readdirSync(dir).filter((f) => f.includes(name));
+
+  it('not a run folder', async () => {
+    const out = join(root, 'bad1.png');
+    expect(await cli([root, '--kind', 'traces', '-o', out])).toBe(2);
+    expect(err).toMatch(/not a run folder \(no summary.json\)/);
+    expect(err.trim().split('\n').length).toBe(1);
+    expect(noFileLeft(root, 'bad1')).toEqual([]);
+  });
+  it('unknown kind, with a hint', async () => {
+    expect(await cli([filterRun, '--kind', 'trace', '-o', join(root, 'bad2.png')])).toBe(2);
+    expect(err).toMatch(/unknown --kind 'trace' \(did you mean 'traces'\?\)/);
+  });
+  it('output folder missing', async () => {
+    expect(await cli([filterRun, '--kind', 'traces', '-o', join(root, 'nope', 'x.png')])).toBe(2);
+    expect(err).toMatch(/output folder .*nope does not exist/);
+  });
+  it('unsupported output type', async () => {
+    expect(await cli([filterRun, '--kind', 'traces', '-o', join(root, 'x.jpg')])).toBe(2);
+    expect(err).toMatch(/unsupported file type 'jpg'/);
+  });
+  it('truncated Arrow file: one line, exit 2, no partial output', async () => {
+    const dir = join(root, 'trunc');
+    await writeSyntheticRun(dir, { pointsPerIon: 100 });
+    const p = join(dir, 'trajectories.arrow');
+    truncateSync(p, statSync(p).size - 100);
+    const outDir = join(root, 'outs');
+    mkdirSync(outDir, { recursive: true });
+    expect(await cli([dir, '--kind', 'traces', '-o', join(outDir, 'tr.png')])).toBe(2);
+    expect(err).toMatch(/trajectories.arrow: truncated Arrow IPC file/);
+    expect(readdirSync(outDir)).toEqual([]);
+  });
+  it('a flag of another kind is refused by name', async () => {
+    expect(await cli([filterRun, '--kind', 'stability', '--panels', 'x', '-o', join(root, 'b.png')])).toBe(2);
+    expect(err).toMatch(/unknown option --panels/);
+  });
+  it('writes the file on success (exit 0) and leaves no temp file', async () => {
+    const outDir = join(root, 'ok');
+    mkdirSync(outDir, { recursive: true });
+    expect(await cli([filterRun, '--kind', 'energy', '-o', join(outDir, 'e.png')])).toBe(0);
+    expect(readdirSync(outDir)).toEqual(['e.png']);
+    expect(existsSync(join(outDir, 'e.png'))).toBe(true);
+  });
+});
