@@ -81,8 +81,8 @@ export function meanSpacing(e: Ensemble): number {
   return Math.cbrt((4 * Math.PI * R * R * R) / (3 * n));
 }
 
-/** Default softening: 1e-3 × mean spacing — small enough that the field differs from Coulomb's
- *  law by < 1e-6 relative at the mean spacing (ε²/a² · 3/2), large enough to keep a rare close pair finite. */
+/** Default softening: 1e-3 × mean spacing a — the field at distance a differs from Coulomb's law
+ *  by (3/2) ε²/a² = 1.5e-6 relative, yet a rare very close pair stays finite. */
 export function defaultSoftening(e: Ensemble): number {
   return 1e-3 * meanSpacing(e);
 }
@@ -259,4 +259,29 @@ export function kineticEnergy(e: Ensemble, weight = 1): number {
   let k = 0;
   for (let i = 0; i < e.n; i++) if (e.alive[i]) k += e.mass[i] * (e.vx[i] ** 2 + e.vy[i] ** 2 + e.vz[i] ** 2);
   return 0.5 * weight * k;
+}
+
+/** Fields of an IonBatch (sim/engine/batch.ts) the ensemble needs; structural, to keep sim/engine optional. */
+export interface BatchLike {
+  n: number;
+  x: Float64Array; y: Float64Array; z: Float64Array;
+  vx: Float64Array; vy: Float64Array; vz: Float64Array;
+  mass: Float64Array; charge: Float64Array; fate: Int8Array;
+}
+
+/**
+ * An Ensemble over a batch's own arrays (positions and velocities are advanced in place);
+ * `alive` is taken from fate === 0 (Fate.alive). After the run, markLosses() writes the fate back.
+ */
+export function ensembleFromBatch(b: BatchLike): Ensemble {
+  const alive = new Uint8Array(b.n);
+  for (let i = 0; i < b.n; i++) alive[i] = b.fate[i] === 0 ? 1 : 0;
+  return { n: b.n, x: b.x, y: b.y, z: b.z, vx: b.vx, vy: b.vy, vz: b.vz, mass: b.mass, charge: b.charge, alive };
+}
+
+/** Sets fate = hitCode (Fate.hit = 2) for ions the ensemble lost; returns how many. */
+export function markLosses(e: Ensemble, b: BatchLike, hitCode = 2): number {
+  let k = 0;
+  for (let i = 0; i < e.n; i++) if (!e.alive[i] && b.fate[i] === 0) { b.fate[i] = hitCode; k++; }
+  return k;
 }

@@ -60,6 +60,23 @@ describe('tree vs direct Coulomb field', () => {
   });
 });
 
+describe('tree edge cases', () => {
+  it('handles one ion, coincident ions (depth cap) and removed ions like the direct sum', () => {
+    const one: ChargeCloud = { n: 1, x: new Float64Array(1), y: new Float64Array(1), z: new Float64Array(1), qs: new Float64Array([q]) };
+    const o1 = field(1);
+    new CoulombTree().field(one, 1e-9, o1);
+    expect(o1.ex[0]).toBe(0);
+    // 30 ions on one point among 300 others, 10 others with zero source charge (removed).
+    const e = gaussianCloud(330, 50e-6, 50e-6, m, q, 41), c = { ...cloudOf(e), qs: new Float64Array(e.charge) };
+    for (let i = 0; i < 30; i++) { e.x[i] = 1e-5; e.y[i] = 2e-5; e.z[i] = -1e-5; }
+    for (let i = 300; i < 310; i++) c.qs[i] = 0;
+    const ref = field(e.n), got = field(e.n);
+    directField(c, 1e-7, ref);
+    new CoulombTree({ theta: 0.5 }).field(c, 1e-7, got);
+    expect(rmsError(got, ref, e.n)).toBeLessThan(0.01);
+  });
+});
+
 describe('direct sum', () => {
   const e = clouds[1][1], c = cloudOf(e);
   it('gives the same bits when cut into tiles run in wavefront order (worker-count independence)', () => {

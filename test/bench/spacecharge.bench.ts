@@ -1,0 +1,89 @@
+// Space-charge speed (issue 7). Direct Coulomb sum at N = 2,000: pair interactions per second of
+// sim/spacecharge/direct.ts against a plain C kernel of the same physics and loop shape
+// (test/bench/c/spacecharge.c, cc -O2, single thread), both timed in this run on the same cloud
+// (checksums compared); the 2-thread speed-up of ParallelDirect; and the N where the Barnes–Hut
+// tree (θ = 0.5, quadrupoles, build included) overtakes the direct sum.
+
+import { directField, type ChargeCloud, type FieldOut } from '../../sim/spacecharge/direct.js';
+import { CoulombTree } from '../../sim/spacecharge/tree.js';
+import { ParallelDirect } from '../../sim/spacecharge/parallel.js';
+import { ELEMENTARY_CHARGE, VACUUM_PERMITTIVITY } from '../../sim/units/constants.js';
+import { loadavg, availableParallelism } from 'node:os';
+import { RandomStream, Purpose } from '../../sim/random/counter.js';
+import { buildC, runC } from './cbuild.js';
+
+/** The cloud the C kernel builds: x_i = R sin(0.7 i + 0.1), y_i = R sin(1.3 i + 0.2), z_i = R sin(2.9 i + 0.3). */
+function cloud(n: number): ChargeCloud {
+  const R = 1e-4, c: ChargeCloud = { n, x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), qs: new Float64Array(n) };
+  for (let i = 0; i < n; i++) {
+    c.x[i] = R * Math.sin(0.7 * i + 0.1); c.y[i] = R * Math.sin(1.3 * i + 0.2); c.z[i] = R * Math.sin(2.9 * i + 0.3);
+    c.qs[i] = ELEMENTARY_CHARGE;
+  }
+  return c;
+}
+/** A Gaussian cloud (RMS 100 µm × 100 µm × 200 µm) from the counter streams, for the tree table. */
+function gaussian(n: number): ChargeCloud {
+  const c: ChargeCloud = { n, x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), qs: new Float64Array(n) };
+  for (let i = 0; i < n; i++) {
+    const rs = new RandomStream(3, i, Purpose.start);
+    c.x[i] = 1e-4 * rs.normal(); c.y[i] = 1e-4 * rs.normal(); c.z[i] = 2e-4 * rs.normal(); c.qs[i] = ELEMENTARY_CHARGE;
+  }
+  return c;
+}
+const out = (n: number): FieldOut => ({ ex: new Float64Array(n), ey: new Float64Array(n), ez: new Float64Array(n) });
+
+/** Best time of one call, s, over at least `secs` seconds and 3 calls. */
+function bestTime(f: () => void, secs: number): number {
+  let best = Infinity, reps = 0;
+  const t0 = performance.now();
+  while ((performance.now() - t0) / 1e3 < secs || reps < 3) {
+    const a = performance.now(); f(); best = Math.min(best, (performance.now() - a) / 1e3); reps++;
+  }
+  return best;
+}
+
+export async function bench(): Promise<void> {
+  const N = 2000, eps = 1e-9, pairs = (N * (N - 1)) / 2;
+  const exe = buildC('spacecharge');
+  const [cRateS, cSumS] = runC(exe, [String(N), '2']).split(/\s+/);
+  const cRate = Number(cRateS), cSum = Number(cSumS);
+
+  const c = cloud(N), o = out(N);
+  for (let k = 0; k < 20; k++) directField(c, eps, o); // warm-up (JIT)
+  const tJs = bestTime(() => directField(c, eps, o), 2);
+  const jsRate = pairs / tJs;
+  // The C sum is in units of charge/m² (no k); compare checksums to show the same physics.
+  const k = 1 / (4 * Math.PI * VACUUM_PERMITTIVITY);
+  let s = 0;
+  for (let i = 0; i < N; i++) s += Math.abs(o.ex[i]) + Math.abs(o.ey[i]) + Math.abs(o.ez[i]);
+  const sumDiff = Math.abs(s / k - cSum) / cSum;
+
+  console.log(`direct sum, N = ${N} (single thread): JS ${(jsRate / 1e6).toFixed(1)} M pairs/s, C -O2 ${(cRate / 1e6).toFixed(1)} M pairs/s, ratio ${(jsRate / cRate).toFixed(2)} (goal ≥ 0.70)`);
+  console.log(`  checksum agreement JS vs C: ${sumDiff.toExponential(1)} relative`);
+
+  for (const n of [2000, 8000]) {
+    const cn = cloud(n), on = out(n);
+    const t1 = bestTime(() => directField(cn, eps, on), 1);
+    const pd = await ParallelDirect.create(2, n);
+    try {
+      for (let r = 0; r < 5; r++) pd.field(cn, eps, on);
+      const t2 = bestTime(() => pd.field(cn, eps, on), 1);
+      console.log(`parallel direct, N = ${n}: 2 threads ${(t1 / t2).toFixed(2)}× one thread (same bits; machine load at start ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores)`);
+    } finally { await pd.close(); }
+  }
+
+  const tree = new CoulombTree({ theta: 0.5 });
+  let crossover = 0;
+  const rows: string[] = [];
+  for (const n of [250, 500, 1000, 2000, 4000, 8000, 16000]) {
+    const cn = gaussian(n), on = out(n);
+    const secs = n >= 8000 ? 1 : 0.5;
+    const td = bestTime(() => directField(cn, eps, on), secs);
+    const tt = bestTime(() => tree.field(cn, eps, on), secs);
+    rows.push(`  N = ${String(n).padStart(5)}: direct ${(td * 1e3).toFixed(2)} ms, tree ${(tt * 1e3).toFixed(2)} ms (${(td / tt).toFixed(2)}×)`);
+    if (!crossover && tt < td) crossover = n;
+  }
+  console.log('tree (θ = 0.5, quadrupole, build included) vs direct, one field evaluation, Gaussian cloud:');
+  for (const r of rows) console.log(r);
+  console.log(crossover ? `tree/direct crossover: tree faster from N ≈ ${crossover} (grid 250…16000)` : 'tree not faster than direct up to N = 16000');
+}
