@@ -23,7 +23,7 @@ export const ELECTRODE_COLORS = {
   outline: hex('#8b8f96'),
 } as const;
 
-/** Axis triad colours (x, y, z): our own choice, not RGB-by-axis. */
+/** Axis triad colours (x, y, z): muted red, green, blue in the usual order (common practice, no source). */
 export const AXIS_COLORS: readonly Rgb[] = [hex('#c2492f'), hex('#3e8a4f'), hex('#2f5fa8')];
 
 export const FATE_COLORS: Record<string, Rgb> = {

@@ -2,9 +2,8 @@
 // ions' m/z and fate (to colour them) and the recorded points grouped per ion. Positions stay SI
 // here; conversion to scene millimetres happens where geometry is built.
 
-import { existsSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
-import { tableFromIPC, type Table } from 'apache-arrow';
+import { ionSegments, readRunFolder, readTrajectories, type RunSummary } from '../../sim/runfolder/index.js';
 import { RenderError } from './errors.js';
 
 export type StageKind = 'quadrupole' | 'drift' | 'accelerate' | 'trap';
@@ -52,26 +51,6 @@ export interface RunViewOptions {
   everyNth?: number;
 }
 
-function need(dir: string, name: string): string {
-  const p = join(dir, name);
-  if (!existsSync(p)) throw new RenderError(`not a run folder: ${dir} (no ${name})`);
-  return p;
-}
-
-function readTable(path: string) {
-  try {
-    return tableFromIPC(readFileSync(path)) as Table;
-  } catch (err) {
-    throw new RenderError(`cannot read ${path}: not a complete Arrow IPC file (${String((err as Error).message).split('\n')[0]})`);
-  }
-}
-
-function column(table: Table, path: string, name: string): ArrayLike<unknown> {
-  const col = table.getChild(name);
-  if (!col) throw new RenderError(`${path}: missing column '${name}'`);
-  return col.toArray() as ArrayLike<unknown>;
-}
-
 const finiteOrUndefined = (v: unknown): number | undefined =>
   typeof v === 'number' && Number.isFinite(v) && v > 0 ? v : undefined;
 
@@ -102,77 +81,51 @@ export function placeStages(raw: unknown, where: string): PlacedStage[] {
   return out;
 }
 
-export function readRunView(dir: string, opts: RunViewOptions = {}): RunView {
-  if (!existsSync(dir) || !statSync(dir).isDirectory()) throw new RenderError(`not a run folder: ${dir} (no such folder)`);
-  const summaryPath = need(dir, 'summary.json');
-  const ionsPath = need(dir, 'ions.arrow');
-  const trajPath = need(dir, 'trajectories.arrow');
-  let summary: Record<string, any>;
-  try {
-    summary = JSON.parse(readFileSync(summaryPath, 'utf8'));
-  } catch (err) {
-    throw new RenderError(`${summaryPath}: not valid JSON (${(err as Error).message.split('\n')[0]})`);
-  }
-  const prov = summary.provenance ?? {};
-  const scene = prov.scene ?? {};
-  const stages = placeStages(scene.stages, summaryPath);
-
-  const ions = readTable(ionsPath);
-  const ionId = Int32Array.from(column(ions, ionsPath, 'ion') as ArrayLike<number>);
-  const mz = Float64Array.from(column(ions, ionsPath, 'mz') as ArrayLike<number>);
-  const fateCol = column(ions, ionsPath, 'fate');
-  const fate = Array.from({ length: ionId.length }, (_, i) => String(fateCol[i]));
+/** Read a run folder through the shared reader (sim/runfolder) and group its points per ion. */
+export async function readRunView(dir: string, opts: RunViewOptions = {}): Promise<RunView> {
+  const folder = await readRunFolder(dir);
+  if (!folder.hasTrajectories) throw new RenderError(`${dir}: the run recorded no trajectories (nothing to draw in 3D)`);
+  const summary = folder.summary;
+  const prov = (summary.provenance ?? {}) as Partial<RunSummary['provenance']>;
+  const scene = (prov.scene ?? {}) as { stages?: unknown; name?: string; seed?: number };
+  const stages = placeStages(scene.stages, join(dir, 'summary.json'));
+  const { ion: ionId, mz, fate } = folder.ions;
   const rowOf = new Map<number, number>();
   ionId.forEach((id, row) => rowOf.set(id, row));
 
-  const tr = readTable(trajPath);
-  const tIon = column(tr, trajPath, 'ion') as ArrayLike<number>;
-  const cols = ['t', 'x', 'y', 'z'].map((n) => column(tr, trajPath, n) as ArrayLike<number>);
-  const keep = opts.ions ? new Set(opts.ions) : undefined;
   const every = Math.max(1, Math.floor(opts.everyNth ?? 1));
-
-  // Two passes: count kept points per run of equal ion ids, then copy (no growing arrays for 1e6 rows).
-  const n = tIon.length;
-  let runs = 0, points = 0;
-  for (let i = 0; i < n; ) {
-    let j = i;
-    while (j < n && tIon[j] === tIon[i]) j++;
-    if (!keep || keep.has(tIon[i])) {
-      if (!rowOf.has(tIon[i])) throw new RenderError(`${trajPath}: ion ${tIon[i]} is not in ions.arrow`);
-      runs++;
-      points += Math.ceil((j - i) / every) + (((j - i - 1) % every) !== 0 ? 1 : 0);
-    }
-    i = j;
+  const cols = await readTrajectories(dir, { ions: opts.ions });
+  const segs = ionSegments(cols.ion);
+  // Keep every n-th point and always the last one, so a struck ion still ends on the electrode.
+  let points = 0;
+  for (const s of segs) {
+    const len = s.end - s.start;
+    points += Math.ceil(len / every) + ((len - 1) % every !== 0 ? 1 : 0);
   }
   const traj: TrajectorySet = {
-    ionRow: new Int32Array(runs), start: new Int32Array(runs + 1),
+    ionRow: new Int32Array(segs.length), start: new Int32Array(segs.length + 1),
     t: new Float64Array(points), x: new Float64Array(points), y: new Float64Array(points), z: new Float64Array(points),
   };
-  let k = 0, p = 0;
-  const dst = [traj.t, traj.x, traj.y, traj.z];
-  for (let i = 0; i < n; ) {
-    let j = i;
-    while (j < n && tIon[j] === tIon[i]) j++;
-    if (!keep || keep.has(tIon[i])) {
-      traj.ionRow[k] = rowOf.get(tIon[i])!;
-      traj.start[k] = p;
-      for (let q = i; q < j; q++) {
-        if ((q - i) % every !== 0 && q !== j - 1) continue;
-        for (let c = 0; c < 4; c++) dst[c][p] = cols[c][q];
-        p++;
-      }
-      k++;
+  let p = 0;
+  segs.forEach((s, k) => {
+    const row = rowOf.get(s.ion);
+    if (row === undefined) throw new RenderError(`${join(dir, 'trajectories.arrow')}: ion ${s.ion} is not in ions.arrow`);
+    traj.ionRow[k] = row;
+    traj.start[k] = p;
+    for (let q = s.start; q < s.end; q++) {
+      if ((q - s.start) % every !== 0 && q !== s.end - 1) continue;
+      traj.t[p] = cols.t[q]; traj.x[p] = cols.x[q]; traj.y[p] = cols.y[q]; traj.z[p] = cols.z[q];
+      p++;
     }
-    i = j;
-  }
-  traj.start[runs] = p;
+  });
+  traj.start[segs.length] = p;
 
   return {
     dir,
     sceneName: String(summary.scene_name ?? scene.name ?? 'unnamed scene'),
     sceneFile: typeof prov.scene_file === 'string' ? prov.scene_file : undefined,
     seed: String(prov.seed ?? scene.seed ?? '?'),
-    toolVersion: String(summary.tool_version ?? prov.tool_version ?? '?'),
+    toolVersion: String(prov.tool_version ?? (summary as Record<string, unknown>).tool_version ?? '?'),
     stages, ionId, mz, fate, traj,
   };
 }

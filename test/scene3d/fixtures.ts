@@ -4,9 +4,7 @@
 // stable ions oscillate and unstable ones grow and strike the rods. The numbers are demo values of
 // the fictional Skerry QF-4 filter and Skerry T-7 trap.
 
-import { mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { tableFromArrays, tableToIPC } from 'apache-arrow';
+import { RunFolderWriter } from '../../sim/runfolder/index.js';
 
 export type FixtureKind = 'filter' | 'trap' | 'tof';
 
@@ -38,8 +36,7 @@ function mathieu(a: number, q: number, u0: number, du0: number, xiMax: number, n
   }
 }
 
-export function makeRunFolder(dir: string, opts: FixtureOptions): string {
-  mkdirSync(dir, { recursive: true });
+export async function makeRunFolder(dir: string, opts: FixtureOptions): Promise<string> {
   const rnd = lcg(12345);
   const { ions: N, points: P, kind } = opts;
   const mzList = kind === 'trap' ? [100, 150, 250] : [69, 131, 219, 264, 414, 502, 614];
@@ -94,15 +91,31 @@ export function makeRunFolder(dir: string, opts: FixtureOptions): string {
     }
     fate.push(f);
   }
-  // Clip duplicate tail times of struck ions so t is non-decreasing (it already is).
-  const ions = tableFromArrays({ ion, population: new Int32Array(N), mz, charge, fate });
-  const traj = tableFromArrays({ ion: tI, t, x, y, z, vx: zero, vy: zero.slice(), vz: zero.slice() });
-  writeFileSync(join(dir, 'ions.arrow'), tableToIPC(ions, 'file'));
-  writeFileSync(join(dir, 'trajectories.arrow'), tableToIPC(traj, 'file'));
+  const w = await RunFolderWriter.create(dir, { force: true });
+  const z0s = () => new Float64Array(N);
+  w.appendIons({
+    ion, population: new Int32Array(N), mz, charge,
+    x0: z0s(), y0: z0s(), z0: z0s(), vx0: z0s(), vy0: z0s(), vz0: z0s(),
+    fate, end_time: z0s(), end_x: z0s(), end_y: z0s(), end_z: z0s(),
+    end_vx: z0s(), end_vy: z0s(), end_vz: z0s(), end_ke_ev: z0s(), end_stage: new Int32Array(N), collisions: z0s(),
+  });
+  // Several record batches, as the engine streams them (an ion may span two batches).
+  const chunk = Math.max(1, Math.floor((N * P) / 3));
+  for (let a = 0; a < N * P; a += chunk) {
+    const b = Math.min(N * P, a + chunk);
+    w.appendTrajectory({ ion: tI.subarray(a, b), t: t.subarray(a, b), x: x.subarray(a, b), y: y.subarray(a, b), z: z.subarray(a, b), vx: zero.subarray(a, b), vy: zero.subarray(a, b), vz: zero.subarray(a, b) });
+  }
   const names = { filter: 'Skerry QF-4 m/z 219–264 window', trap: 'Skerry T-7 storage at q_z 0.3–0.8', tof: 'Skerry LT-1 flight tube' };
-  writeFileSync(join(dir, 'summary.json'), JSON.stringify({
-    scene_name: names[kind], tool_version: '0.1.0',
-    provenance: { seed: 7, scene_file: `scenes/skerry-${kind}.yaml`, scene: { name: names[kind], seed: 7, stages } },
-  }, null, 2));
+  const count = (f: string) => fate.filter((v) => v === f).length;
+  await w.finish({
+    complete: true, scene_name: names[kind],
+    ions: { total: N, detected: count('detected'), hit: count('hit'), alive: count('alive') },
+    species: [], stats: { steps: 0, wall_s: 0 }, warnings: [],
+    provenance: {
+      tool_version: '0.1.0', scene: { name: names[kind], seed: 7, stages }, scene_file: `scenes/skerry-${kind}.yaml`,
+      seed: 7, command_line: 'test fixture', integrator: { name: 'rk4' }, workers: 1, started_at: '2026-01-01T00:00:00Z',
+    },
+    units: { length: 'm', time: 's' },
+  });
   return dir;
 }
