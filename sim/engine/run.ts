@@ -60,7 +60,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const warnings = sceneWarnings(scene);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
   const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime);
-  const pops = scene.ions.map((p, k) => ({ population: k, mz: p.mz, charge: p.charge, total: 0, detected: 0, hit: 0, alive: 0, collisions: 0 }));
+  const pops = scene.ions.map((p, k) => ({ population: k, mz: p.mz, charge: p.charge, total: 0, detected: 0, hit: 0, alive: 0, collisions: 0, aliveKe: 0 }));
   let steps = 0;
   let done = 0;
   let energyError = 0;
@@ -83,7 +83,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
           p.collisions += r.collisions[k];
           if (r.fate[k] === Fate.detected) p.detected++;
           else if (r.fate[k] === Fate.hit) p.hit++;
-          else p.alive++;
+          else { p.alive++; p.aliveKe += r.end_ke_ev[k]; }
         }
         done += r.count;
         opts.progress?.(done, plan.total);
@@ -105,6 +105,8 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const species: SpeciesSummary[] = pops.map((p) => ({
     population: p.population, mz: p.mz, charge: p.charge, total: p.total, detected: p.detected, hit: p.hit, alive: p.alive,
     transmission: p.total > 0 ? p.detected / p.total : 0,
+    // Mean kinetic energy of the ions still stored at max_time (RF heating shows here at high q).
+    alive_mean_ke_ev: p.alive > 0 ? p.aliveKe / p.alive : null,
   }));
   const totals = species.reduce((a, s) => ({ total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit, alive: a.alive + s.alive }), { total: 0, detected: 0, hit: 0, alive: 0 });
   const summary: RunSummary = {

@@ -1,0 +1,60 @@
+// iontrail demo [-o DIR]: the built-in demo of the fictional Skerry instrument family — operating
+// point checks, then each demo scene run into DIR (default out/demo), with figures where the
+// renderer is present. This is what `npm start` runs.
+
+import { existsSync, mkdirSync } from 'node:fs';
+import { join, resolve, dirname } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { parseArgs, flag } from '../args.js';
+import { loadSceneFile } from '../../sim/scene/load.js';
+import { runScene } from '../../sim/engine/run.js';
+import { progressBar } from '../progress.js';
+import { parseCount } from './run.js';
+
+export const describe = 'run the built-in demo (Skerry filter, trap and TOF scenes) into out/demo';
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replace(/\/dist$/, '');
+
+/** Demo scenes in the order they run, with the check lines that go with them. */
+export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml'];
+
+const CHECKS: string[][] = [
+  ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '600V', '--dc', '40V', '--mz', '502', '--rf-max', '5kV'],
+  ['--analyzer', 'trap', '--r0', '7.07mm', '--freq', '1.05MHz', '--rf', '400V', '--mz', '609'],
+];
+
+export async function run(argv: string[]): Promise<number> {
+  const a = parseArgs(argv, { values: ['out', 'workers'], switches: ['force', 'help'], aliases: { o: 'out' } }, 'demo');
+  if (a.switches.has('help')) { process.stdout.write('usage: iontrail demo [-o DIR] [--workers N]\n'); return 0; }
+  const out = resolve(flag(a, 'out') ?? join(process.cwd(), 'out', 'demo'));
+  const workers = parseCount(flag(a, 'workers'), '--workers', 1);
+  mkdirSync(out, { recursive: true });
+  const check = await import('./check.js');
+  for (const c of CHECKS) {
+    process.stdout.write(`\n$ iontrail check ${c.join(' ')}\n`);
+    const code = await check.run(c);
+    if (code !== 0) return code;
+  }
+  for (const file of DEMO_SCENES) {
+    const path = join(ROOT, 'scenes', file);
+    if (!existsSync(path)) continue;
+    const { scene } = loadSceneFile(path);
+    const dir = join(out, file.replace(/\.ya?ml$/, ''));
+    process.stdout.write(`\n$ iontrail run scenes/${file} -o ${dir} --force\n`);
+    const bar = progressBar(file);
+    const s = await runScene(scene, { out: dir, force: true, workers, sceneFile: `scenes/${file}`, commandLine: `iontrail demo`, progress: bar.update, handleSigint: true });
+    bar.end();
+    for (const w of s.warnings) process.stderr.write(`warning: ${w}\n`);
+    for (const sp of s.species) {
+      process.stdout.write(`  m/z ${sp.mz}: ${sp.detected} detected, ${sp.hit} hit, ${sp.alive} alive of ${sp.total} (transmission ${(100 * sp.transmission).toFixed(1)} %)\n`);
+    }
+    if (s.cooling) {
+      const c = s.cooling as Record<string, number | null>;
+      process.stdout.write(`  cooling: tau ${c.tau_s === null ? 'n/a' : `${((c.tau_s as number) * 1e3).toPrecision(3)} ms`}, final mean KE ${(c.final_mean_ke_ev as number).toPrecision(3)} eV, rms radius ${((c.final_rms_radius_m as number) * 1e3).toPrecision(3)} mm\n`);
+    }
+    if (!s.complete) return 130;
+  }
+  process.stdout.write(`\nrun folders in ${out}\n`);
+  process.stdout.write('Simulated operating points must be verified on the bench before use. RF and DC supplies of these instruments are lethal: follow local electrical-safety codes and leave high-voltage work to qualified staff.\n');
+  return 0;
+}
