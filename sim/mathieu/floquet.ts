@@ -52,6 +52,7 @@ export interface FloquetResult extends Monodromy {
   /**
    * Rotation number (continuous in a for fixed q): equals β when stable, the integer k of the
    * instability gap otherwise (0 below a0, 1 between b1 and a1, 2 between b2 and a2, ...).
+   * NaN when the solutions overflow within one period (|a|, |q| ≳ 1e4: deep in an unstable gap).
    */
   rotation: number;
 }
@@ -180,6 +181,7 @@ export function floquet(a: number, q: number, options: MonodromyOptions = {}): F
   const m = monodromy(a, q, options);
   const half = m.trace / 2;
   const estimate = (m.phase1 + m.phase2) / (2 * Math.PI); // within 1 of the rotation number
+  if (!Number.isFinite(half)) return { ...m, a, q, stable: false, beta: null, rotation: NaN };
   const stable = Math.abs(half) < 1;
   let rotation: number;
   let beta: number | null = null;
