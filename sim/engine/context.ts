@@ -6,6 +6,8 @@ import type { EnsembleHistory } from './history.js';
 
 /** Advance ion `slot`'s velocity through gas over dt (see sim/gas); mutates the batch arrays. */
 export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
+/** Advance ion `slot`'s position and velocity exactly through drag gas in a uniform field E (V/m). */
+export type GasFieldStep = (batch: IonBatch, slot: number, dt: number, ex: number, ey: number, ez: number) => void;
 
 /** How an ion left a stage. */
 export const Exit = { forward: 1, backward: 2, hit: 3, time: 4 } as const;
@@ -38,6 +40,8 @@ export interface StepContext {
   hist: EnsembleHistory | null;
   /** Gas of the current stage (stage block, else scene block), or null in vacuum. */
   gas: GasStep | null;
+  /** Drag model only: exact position-and-velocity step in a uniform field (uniform stages use it). */
+  gasField: GasFieldStep | null;
 }
 
 /** Steps from now until a trajectory point or a history sample is due (Infinity: neither). */

@@ -3,7 +3,8 @@
 
 import type { Scene } from '../scene/types.js';
 import { allocateBatch, Fate } from './batch.js';
-import { Exit, type GasStep, type IonCursor, type StepContext } from './context.js';
+import { Exit, type IonCursor, type StepContext } from './context.js';
+import type { GasFactory } from './gas-hooks.js';
 import { TrajectoryRecorder } from './recorder.js';
 import { EnsembleHistory } from './history.js';
 import { populationOffsets, startIon } from './start.js';
@@ -33,7 +34,6 @@ export interface BatchResult {
   energyError: number;
 }
 
-export type GasFactory = (stage: number) => GasStep | null;
 
 export function trackBatch(scene: Scene, batchIndex: number, start: number, count: number, gasFor: GasFactory): BatchResult {
   const b = allocateBatch(count);
@@ -41,7 +41,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const run = scene.run;
   const rec = run.recordEvery > 0 ? new TrajectoryRecorder(Math.min(1 << 16, count * 64)) : null;
   const hist = new EnsembleHistory(run.historyEvery, run.maxTime);
-  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null };
+  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null, gasField: null };
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
   const electrostatic = isElectrostatic(scene);
   const base = stageBasePotentials(scene);
@@ -71,7 +71,8 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     let fate: number = Fate.alive;
     for (;;) {
       const st = scene.stages[s];
-      ctx.gas = gasSteps[s];
+      ctx.gas = gasSteps[s].step;
+      ctx.gasField = gasSteps[s].field;
       let code;
       switch (st.type) {
         case 'quadrupole': code = trackQuadrupole(st, c, ctx, run.stepsPerCycle); break;

@@ -44,6 +44,7 @@ function wallTime(x: number, y: number, vx: number, vy: number, R: number): numb
 export function trackUniform(st: DriftStage | AccelerateStage, c: IonCursor, ctx: StepContext, gasStep: number): ExitCode {
   const a = st.type === 'accelerate' ? (c.q * st.voltage) / (st.length * c.m) : 0;
   if (st.aperture * st.aperture <= c.x * c.x + c.y * c.y) return Exit.hit;
+  if (ctx.gasField !== null) return trackUniformDrag(st, c, ctx, gasStep, a * c.m / c.q);
   const gas = ctx.gas;
   for (;;) {
     const tf = crossingTime(c.z, c.vz, a, st.zEnd);
@@ -87,4 +88,27 @@ function sampleHistory(c: IonCursor, ctx: StepContext, a: number, dt: number): v
     h.add(c.nextHist, c.m, c.x + c.vx * s, c.y + c.vy * s, c.z + s * (c.vz + 0.5 * a * s), c.vx, c.vy, c.vz + a * s);
     c.nextHist++;
   }
+}
+
+/**
+ * Drag gas in a uniform field: the exact Ornstein–Uhlenbeck step of sim/gas/drag.ts moves the ion
+ * (field included), so the stage only checks the boundaries after each step.
+ */
+function trackUniformDrag(st: DriftStage | AccelerateStage, c: IonCursor, ctx: StepContext, h: number, ez: number): ExitCode {
+  const b = ctx.batch, i = c.slot;
+  const step = ctx.gasField!;
+  const ap2 = st.aperture * st.aperture;
+  b.x[i] = c.x; b.y[i] = c.y; b.z[i] = c.z; b.vx[i] = c.vx; b.vy[i] = c.vy; b.vz[i] = c.vz;
+  let code: ExitCode = Exit.time;
+  for (;;) {
+    const dt = Math.min(h, ctx.maxTime - c.t);
+    if (!(dt > 0)) { code = Exit.time; break; }
+    step(b, i, dt, 0, 0, ez);
+    storeCursor(c, c.t + dt, b.x[i], b.y[i], b.z[i], b.vx[i], b.vy[i], b.vz[i], 1);
+    if (c.x * c.x + c.y * c.y >= ap2) { code = Exit.hit; break; }
+    if (c.z >= st.zEnd) { code = Exit.forward; break; }
+    if (c.z < st.zStart) { code = Exit.backward; break; }
+    observe(c, ctx, 1);
+  }
+  return code;
 }
