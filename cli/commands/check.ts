@@ -116,6 +116,7 @@ export function checkJson(r: OperatingPointReport): Record<string, unknown> {
     well_depth_v: byAxis(r, (x) => x.wellDepthV),
     well_depth_valid: byAxis(r, (x) => x.wellDepthValid),
     mz_window: r.mzWindow,
+    mz_margin: r.mzMargin,
   };
   if (r.analyzer === 'trap') {
     obj.lmco_mz = r.lmcoMz;
@@ -167,6 +168,11 @@ export function checkLines(r: OperatingPointReport): string[] {
   if (w === null) lines.push(`${windowLabel} at this DC/RF ratio: none (the scan line misses the first region)`);
   else if (w.high === null) lines.push(`${windowLabel} at this DC/RF ratio: m/z ≥ ${mzText(w.low)} (no upper limit with DC = 0)`);
   else lines.push(`${windowLabel} at this DC/RF ratio: m/z ${mzText(w.low)} – ${mzText(w.high)} (m/Δm ≈ ${w.resolution!.toFixed(0)})`);
+  if (r.mzMargin !== null) {
+    const pct = (d: number) => `${((100 * d) / r.mz).toFixed(1)} %`;
+    const above = r.mzMargin.above === null ? 'no high edge' : `${mzText(r.mzMargin.above)} (${pct(r.mzMargin.above)}) below the high edge`;
+    lines.push(`m/z ${r.mz} sits ${mzText(r.mzMargin.below)} (${pct(r.mzMargin.below)}) above the low edge, ${above}`);
+  }
   if (r.lmcoMz !== null) lines.push(`low-mass cut-off (q_z = ${r.qEject}): m/z ${mzText(r.lmcoMz)}`);
   if (r.mzMax !== null) {
     const where = r.analyzer === 'trap' ? `at q_z = ${r.qEject}` : 'at the apex of the first region';

@@ -56,6 +56,11 @@ export interface OperatingPointReport {
   firstRegion: boolean;
   /** m/z range inside the first region along the line a/q = ±2U/V; null when the line misses it. */
   mzWindow: MzWindow | null;
+  /**
+   * How far this m/z sits inside the window: m/z above the low edge and below the high edge (null
+   * when unbounded); null when the m/z is outside the window.
+   */
+  mzMargin: { below: number; above: number | null } | null;
   /** Trap: low-mass cut-off, m/z with q_z = qEject at this RF amplitude (a_z = 0). */
   lmcoMz: number | null;
   qEject: number | null;
@@ -133,6 +138,9 @@ export function analyzeOperatingPoint(p: OperatingPoint, options: AnalysisOption
   const isTrap = p.analyzer === 'trap';
   const qEject = isTrap ? options.qEject ?? DEFAULT_Q_EJECT : null;
   const rfMax = options.rfMax ?? null;
+  const win = mzWindow(p);
+  const inside = win !== null && p.mz >= win.low && (win.high === null || p.mz <= win.high);
+  const mzMargin = inside ? { below: p.mz - win.low, above: win.high === null ? null : win.high - p.mz } : null;
   let mzMax: number | null = null;
   if (rfMax !== null) mzMax = mzAtQ(p, rfMax, isTrap ? qEject! : cachedQuadrupoleApex().q);
   return {
@@ -147,7 +155,8 @@ export function analyzeOperatingPoint(p: OperatingPoint, options: AnalysisOption
     axes,
     stable,
     firstRegion,
-    mzWindow: mzWindow(p),
+    mzWindow: win,
+    mzMargin,
     lmcoMz: isTrap ? mzAtQ(p, p.rf, qEject!) : null,
     qEject,
     rfMax,

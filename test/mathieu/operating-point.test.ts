@@ -126,6 +126,15 @@ describe('m/z window along the scan line a/q = 2U/V (Dawson 1976, ch. 2)', () =>
     expect(rfOnly.low / mzAtQ(filter, filter.rf, 0.908)).toBeCloseTo(1, 3);
   });
 
+  it('margin to the window edges is reported inside the window only', () => {
+    const w = mzWindow(filter)!;
+    const mid = 0.5 * (w.low + w.high!);
+    const r = analyzeOperatingPoint({ ...filter, mz: mid });
+    expect(r.mzMargin!.below).toBeCloseTo(mid - w.low, 10);
+    expect(r.mzMargin!.above!).toBeCloseTo(w.high! - mid, 10);
+    expect(analyzeOperatingPoint({ ...filter, mz: w.low * 0.9 }).mzMargin).toBeNull();
+  });
+
   it('negative DC gives the same window (x and y swap roles)', () => {
     const w1 = mzWindow(filter)!, w2 = mzWindow({ ...filter, dc: -filter.dc })!;
     expect(w2.low).toBeCloseTo(w1.low, 8);
