@@ -101,7 +101,7 @@ controls.target.copy(center);
 const presets = { iso: [-0.78, 0.52, -0.5], axial: [0, 0, 1], side: [-1, 0, 0] };
 function preset(name) {
   const d = new THREE.Vector3(...presets[name]).normalize();
-  camera.position.copy(center).addScaledVector(d, 0.8 * radius / Math.tan(THREE.MathUtils.degToRad(15)));
+  camera.position.copy(center).addScaledVector(d, 0.6 * radius / Math.tan(THREE.MathUtils.degToRad(15)));
   camera.up.set(0, 1, 0);
   controls.update();
 }

@@ -15,7 +15,7 @@ export interface LineStyle {
   opacity: number;
 }
 
-function toScreen(m: Float32Array | number[], W: number, H: number, x: number, y: number, z: number, out: Float64Array, o: number): boolean {
+export function toScreen(m: Float32Array | number[], W: number, H: number, x: number, y: number, z: number, out: Float64Array, o: number): boolean {
   // clip = M·(x, y, z, 1), column-major as three stores it.
   const cw = m[3] * x + m[7] * y + m[11] * z + m[15];
   if (!(cw > 1e-9)) return false;

@@ -1,0 +1,100 @@
+// The self-contained viewer in a real browser: Debian's chromium, headless, via playwright-core.
+// WebGL there runs on SwiftShader (CPU). Skips, loudly, only where no chromium binary exists.
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createCanvas, loadImage } from '@napi-rs/canvas';
+import { chromium } from 'playwright-core';
+import { renderHtml } from '../../render/scene3d/html.js';
+import { readRunView } from '../../render/scene3d/runInput.js';
+import { makeRunFolder } from './fixtures.js';
+
+function findChromium(): string | undefined {
+  for (const name of ['chromium', 'chromium-browser']) {
+    try {
+      const p = execFileSync('which', [name], { encoding: 'utf8' }).trim();
+      if (p && existsSync(p)) return p;
+    } catch { /* not on PATH */ }
+  }
+  return undefined;
+}
+
+const exe = findChromium();
+if (!exe) {
+  process.stderr.write('\n' + '!'.repeat(78) + '\n!!! SKIPPING the HTML viewer browser test: no chromium on PATH.\n' +
+    '!!! Install it with: apt-get install -y chromium   (CI does this in .ci/run)\n' + '!'.repeat(78) + '\n\n');
+}
+
+let tmp: string;
+let htmlPath: string;
+let html: string;
+
+beforeAll(async () => {
+  tmp = mkdtempSync(join(tmpdir(), 'iontrail-html-'));
+  const run = await readRunView(await makeRunFolder(join(tmp, 'filter'), { kind: 'filter', ions: 30, points: 200 }));
+  html = renderHtml(run, { camera: 'iso', color: 'fate', rods: 'hyperbolic' });
+  htmlPath = join(tmp, 'view.html');
+  writeFileSync(htmlPath, html);
+});
+afterAll(() => rmSync(tmp, { recursive: true, force: true }));
+
+describe('HTML viewer file', () => {
+  it('is one file that loads nothing from outside (no src/href to other files or hosts)', () => {
+    expect(html).not.toMatch(/<script[^>]*\ssrc=/i);
+    expect(html).not.toMatch(/<link[^>]*\shref=/i);
+    expect(html).not.toMatch(/\bimport\s*\(\s*['"]https?:/);
+    expect(html).toContain('id="time"');
+  });
+});
+
+/** Pixels of a PNG screenshot that differ from the viewer's clear colour #f6f4ee by > 24/765. */
+async function drawnPixels(png: Buffer): Promise<number> {
+  const img = await loadImage(png);
+  const c = createCanvas(img.width, img.height);
+  const ctx = c.getContext('2d');
+  ctx.drawImage(img, 0, 0);
+  const d = ctx.getImageData(0, 0, img.width, img.height).data;
+  let n = 0;
+  for (let i = 0; i < d.length; i += 4) if (Math.abs(d[i] - 0xf6) + Math.abs(d[i + 1] - 0xf4) + Math.abs(d[i + 2] - 0xee) > 24) n++;
+  return n;
+}
+
+describe.skipIf(!exe)('HTML viewer in headless chromium', () => {
+  it('loads with no console errors, no network, and draws a non-blank canvas that the time slider changes', async () => {
+    const browser = await chromium.launch({
+      executablePath: exe,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
+        '--disable-background-networking', '--disable-component-update', '--disable-sync',
+        '--use-angle=swiftshader', '--enable-unsafe-swiftshader'],
+    });
+    try {
+      const page = await browser.newPage({ viewport: { width: 1000, height: 700 } });
+      const errors: string[] = [];
+      const requests: string[] = [];
+      page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+      page.on('pageerror', (e) => errors.push(e.message));
+      page.on('request', (r) => { if (!/^(file|blob|data):/.test(r.url())) requests.push(r.url()); });
+      await page.goto(pathToFileURL(htmlPath).href);
+      await page.waitForSelector('body[data-ready="yes"]', { timeout: 60000 });
+      await page.waitForTimeout(300);
+      const canvas = page.locator('#view canvas');
+      const full = await drawnPixels(await canvas.screenshot());
+      const box = await canvas.boundingBox();
+      // Electrodes and trajectories of the scene cover well over 1 % of the canvas.
+      expect(full).toBeGreaterThan(0.01 * box!.width * box!.height);
+      await page.locator('#time').fill('20');
+      await page.waitForTimeout(300);
+      const early = await drawnPixels(await canvas.screenshot());
+      // Early in the flight the ions have covered a fraction of their paths: fewer drawn pixels.
+      expect(early).toBeLessThan(full);
+      expect(await page.locator('#time-label').textContent()).toMatch(/^t = [\d.]+ µs$/);
+      expect(errors).toEqual([]);
+      expect(requests).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  }, 120_000); // browser start and SwiftShader compile take seconds on a shared 2-core machine
+});
