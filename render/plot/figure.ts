@@ -5,7 +5,7 @@
 
 import { createCanvas, SvgExportFlag, type SKRSContext2D } from '@napi-rs/canvas';
 import { font } from '../common/fonts.js';
-import { FRAME, GRID, INK, INK_SOFT, PANEL, PAPER } from '../common/palette.js';
+import { FRAME, GRID, INK, INK_SOFT, PANEL, PAPER, densityRgb } from '../common/palette.js';
 import type { ImageFormat } from '../common/output.js';
 import { Axis, type AxisSpec } from './axis.js';
 
@@ -15,7 +15,7 @@ export interface LegendEntry {
   label: string;
   color: string;
   /** How the swatch is drawn. */
-  mark: 'line' | 'dash' | 'point' | 'ring' | 'box' | 'region';
+  mark: 'line' | 'dash' | 'point' | 'ring' | 'box' | 'region' | 'ramp';
   /** Fill of a 'region' swatch (its edge is `color`). */
   fill?: string;
 }
@@ -97,6 +97,14 @@ function drawSwatch(ctx: Ctx, e: LegendEntry, x: number, y: number): void {
     ctx.beginPath(); ctx.arc(x + 10, y, 4, 0, 2 * Math.PI); ctx.fill();
   } else if (e.mark === 'ring') {
     ctx.beginPath(); ctx.arc(x + 10, y, 4, 0, 2 * Math.PI); ctx.stroke();
+  } else if (e.mark === 'ramp') {
+    for (let i = 0; i < 20; i++) {
+      const [r, g, b] = densityRgb(0.15 + 0.85 * (i / 19));
+      ctx.fillStyle = `rgb(${r},${g},${b})`;
+      ctx.fillRect(x + i, y - 5, 1, 10);
+    }
+    ctx.strokeStyle = FRAME; ctx.lineWidth = 1;
+    ctx.strokeRect(x + 0.5, y - 5.5, 20, 11);
   } else if (e.mark === 'region') {
     ctx.fillStyle = e.fill ?? e.color;
     ctx.fillRect(x + 2, y - 6, 16, 12);

@@ -39,3 +39,12 @@ export function rfStages(summary: RunSummary): RfStage[] {
 export function firstRfFrequency(summary: RunSummary): number | undefined {
   return rfStages(summary)[0]?.frequency;
 }
+
+/** Type and z extent (zStart, zEnd, m) of scene stage `index`, if the resolved scene has them. */
+export function stageExtent(summary: RunSummary, index: number): { type: string; zStart: number; zEnd: number } | undefined {
+  const s = sceneStages(summary)[index];
+  if (!s) return undefined;
+  const zStart = num(s.zStart), zEnd = num(s.zEnd);
+  if (zStart === undefined || zEnd === undefined) return undefined;
+  return { type: String(s.type), zStart, zEnd };
+}

@@ -200,13 +200,20 @@ export interface TrajectorySelection {
 class Grow<T extends Float64Array | Int32Array> {
   n = 0;
   constructor(public a: T) {}
+  private reserve(extra: number): void {
+    if (this.n + extra <= this.a.length) return;
+    const b = new (this.a.constructor as new (n: number) => T)(Math.max(1024, this.a.length * 2, this.n + extra));
+    b.set(this.a.subarray(0, this.n));
+    this.a = b;
+  }
   push(v: number): void {
-    if (this.n === this.a.length) {
-      const b = new (this.a.constructor as new (n: number) => T)(Math.max(1024, this.a.length * 2));
-      b.set(this.a);
-      this.a = b;
-    }
+    if (this.n === this.a.length) this.reserve(1);
     this.a[this.n++] = v;
+  }
+  pushRange(src: Float64Array | Int32Array, start: number, end: number): void {
+    this.reserve(end - start);
+    this.a.set(src.subarray(start, end), this.n);
+    this.n += end - start;
   }
   done(): T { return this.a.subarray(0, this.n) as T; }
 }
@@ -243,7 +250,17 @@ export async function readTrajectories(dir: string, sel: TrajectorySelection = {
       const batch = await file.batch(i);
       const ion = batch.ion;
       if (ion.length > 0 && ion[0] > hi) break;
-      const src = names.map((n) => (batch as unknown as Record<string, ArrayLike<number>>)[n]);
+      const src = names.map((n) => (batch as unknown as Record<string, Float64Array | Int32Array>)[n]);
+      if (every === 1) {
+        // Whole runs of one wanted ion are copied in bulk (the common case: all points, or some ions).
+        let s = 0;
+        for (let r = 1; r <= ion.length; r++) {
+          if (r < ion.length && ion[r] === ion[s]) continue;
+          if (wanted === null || wanted.has(ion[s])) for (let c = 0; c < cols.length; c++) cols[c].pushRange(src[c], s, r);
+          s = r;
+        }
+        continue;
+      }
       for (let r = 0; r < ion.length; r++) {
         if (ion[r] !== currentIon) { currentIon = ion[r]; k = 0; }
         const keep = (wanted === null || wanted.has(currentIon)) && k % every === 0;

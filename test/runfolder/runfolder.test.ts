@@ -81,6 +81,12 @@ describe('run folder round trip', () => {
     const got = Array.from(sel.t, (t, r) => t + sel.ion[r]);
     expect(got).toEqual(expectT);
     expect((await readTrajectories(dir, { ions: [] })).t.length).toBe(0);
+    // Without decimation the selected ions are copied in bulk; same points as filtering.
+    const bulk = await readTrajectories(dir, { ions: [7, 3] });
+    const expectX: number[] = [];
+    for (const s of ionSegments(all.ion)) if (s.ion === 3 || s.ion === 7) expectX.push(...all.x.subarray(s.start, s.end));
+    expect(Array.from(bulk.x)).toEqual(expectX);
+    expect(new Set(bulk.ion)).toEqual(new Set([3, 7]));
   });
 
   it('writes CSV that parses back to the exact float64 values', async () => {

@@ -48,6 +48,7 @@ export const cooling: PlotKind = {
   async build(run: RunFolder): Promise<FigureSpec> {
     const h = readHistory(run.dir);
     if (h === null || h.t.length === 0) throw new PlotError(`${run.dir}: no history.arrow (cooling needs the ensemble history of a run)`);
+    const hasGas = run.summary.cooling !== undefined && run.summary.cooling !== null;
     const tauRaw = (run.summary.cooling as { tau_s?: unknown } | undefined)?.tau_s;
     const tau = typeof tauRaw === 'number' && tauRaw > 0 ? tauRaw : null;
     const [t0, t1] = extent([h.t]);
@@ -62,13 +63,13 @@ export const cooling: PlotKind = {
       { label: 'z part', color: C.z, mark: 'line' },
       fit && tau !== null
         ? { label: `fit E∞ + A·exp(−t/τ), τ = ${formatWithUnit(tau, 's')}, E∞ = ${formatWithUnit(fit.floor, 'eV')}`, color: C.fit, mark: 'dash' }
-        : { label: 'no cooling time constant in summary.json', color: C.fit, mark: 'dash' },
+        : { label: hasGas ? 'no cooling time constant fitted (see summary.json warnings)' : 'no buffer gas in this run: no τ', color: C.fit, mark: 'dash' },
       { label: 'rms radius', color: seriesColor(4), mark: 'line' },
       { label: 'rms z', color: seriesColor(5), mark: 'line' },
     ];
     const [s0, s1] = extent([h.rms_radius_m, h.rms_z_m]);
     return {
-      title: figureTitle(run.summary, 'buffer-gas cooling'),
+      title: figureTitle(run.summary, hasGas ? 'buffer-gas cooling' : 'ensemble energy and size'),
       subtitle: `${h.t.length} history samples; ${Math.round(h.n_alive[h.n_alive.length - 1])} ions alive at the end`,
       legend,
       rows: 2, cols: 1, sharedX: true,

@@ -8,6 +8,7 @@ import { extent, padded } from '../axis.js';
 import type { Ctx, FigureSpec, LegendEntry, PanelGeom, PanelSpec } from '../figure.js';
 import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
+import { rfStages, sceneStages, stageExtent } from '../scene.js';
 
 const SOURCES = ['points', 'start', 'end'] as const;
 const STYLES = ['auto', 'scatter', 'density'] as const;
@@ -29,12 +30,33 @@ async function loadCloud(run: RunFolder, opt: KindOptions): Promise<Cloud> {
   if (source === 'end') return { x: I.end_x, y: I.end_y, vx: I.end_vx, vy: I.end_vy, pop: I.population, what: 'ion end states' };
   if (!run.hasTrajectories) throw new PlotError(`--source points: ${run.dir} has no trajectories.arrow (try --source end)`);
   const every = intFlag(opt, 'every', 1, 1, 1e9);
+  // Points inside one stage only (default: the first RF stage), so that the drift after a filter
+  // does not stretch the axes; --stage all keeps every point.
+  const stageText = opt.values.get('stage');
+  let zRange: { type: string; zStart: number; zEnd: number } | undefined;
+  let stageIndex = -1;
+  if (stageText !== 'all') {
+    if (stageText !== undefined) {
+      stageIndex = intFlag(opt, 'stage', 0, 0, 1000);
+      if (stageIndex >= sceneStages(run.summary).length) throw new PlotError(`--stage ${stageIndex}: the scene has ${sceneStages(run.summary).length} stages (or give --stage all)`);
+    } else stageIndex = rfStages(run.summary)[0]?.index ?? -1;
+    zRange = stageIndex >= 0 ? stageExtent(run.summary, stageIndex) : undefined;
+  }
   const tr = await readTrajectories(run.dir, { everyNth: every });
   const rowOf = new Map<number, number>();
   I.ion.forEach((ion, r) => rowOf.set(ion, r));
-  const pop = new Int32Array(tr.ion.length);
-  for (let k = 0; k < pop.length; k++) pop[k] = I.population[rowOf.get(tr.ion[k]) ?? 0] ?? 0;
-  return { x: tr.x, y: tr.y, vx: tr.vx, vy: tr.vy, pop, what: `recorded points${every > 1 ? ` (every ${every}th)` : ''}` };
+  let keep = tr.ion.length;
+  let idx: Int32Array | null = null;
+  if (zRange) {
+    idx = new Int32Array(tr.ion.length);
+    keep = 0;
+    for (let k = 0; k < tr.z.length; k++) if (tr.z[k] >= zRange.zStart && tr.z[k] <= zRange.zEnd) idx[keep++] = k;
+  }
+  const pick = (a: Float64Array) => (idx === null ? a : Float64Array.from(idx.subarray(0, keep), (k) => a[k]));
+  const pop = new Int32Array(keep);
+  for (let j = 0; j < keep; j++) pop[j] = I.population[rowOf.get(tr.ion[idx === null ? j : idx[j]]) ?? 0] ?? 0;
+  const where = zRange ? ` inside stage ${stageIndex} (${zRange.type})` : '';
+  return { x: pick(tr.x), y: pick(tr.y), vx: pick(tr.vx), vy: pick(tr.vy), pop, what: `recorded points${where}${every > 1 ? `, every ${every}th` : ''}` };
 }
 
 function populationLegend(run: RunFolder, pops: Int32Array): { legend: LegendEntry[]; colorOf: Map<number, string> } {
@@ -110,6 +132,7 @@ const COMMON_FLAGS = {
   source: 'points (all recorded points, default when recorded) | start | end (ion states)',
   style: 'auto (density above 20,000 points) | scatter | density',
   every: 'with --source points: read every n-th recorded point',
+  stage: 'with --source points: only points inside this scene stage (default: the first RF stage), or all',
 };
 
 async function build(run: RunFolder, opt: KindOptions, kind: 'phase' | 'xy'): Promise<FigureSpec> {
@@ -120,7 +143,7 @@ async function build(run: RunFolder, opt: KindOptions, kind: 'phase' | 'xy'): Pr
   const density = style === 'density' || (style === 'auto' && n > DENSITY_ABOVE);
   const { legend, colorOf } = populationLegend(run, cloud.pop);
   const shown: LegendEntry[] = density
-    ? [{ label: `density of ${n.toLocaleString('en-US')} points (log scale, all populations)`, color: '#2171B5', mark: 'box' }]
+    ? [{ label: `points per 3 px cell, log scale: 1 (light) to most (dark); ${n.toLocaleString('en-US')} points, all populations`, color: '#2171B5', mark: 'ramp' }]
     : legend;
   const panels = kind === 'phase'
     ? [

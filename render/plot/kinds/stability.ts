@@ -4,7 +4,8 @@
 // with the q_z = 0.908 edge (β_z = 1 at a_z = 0, the low-mass cut-off) marked.
 
 import type { RunFolder } from '../../../sim/runfolder/index.js';
-import { firstRegionEdgeQ, firstRegionQuadrupole, firstRegionTrap, quadrupoleApex, type QA } from '../../../sim/mathieu/boundaries.js';
+import { firstRegionEdgeQ, firstRegionQuadrupole, firstRegionTrap, quadrupoleApex, quadrupoleUpperEdge, type QA } from '../../../sim/mathieu/boundaries.js';
+import { brentRoot } from '../../../sim/mathieu/root-find.js';
 import { floquet } from '../../../sim/mathieu/floquet.js';
 import { mathieuParameters, mzAtQ } from '../../../sim/mathieu/parameters.js';
 import { INK, INK_SOFT, PAPER, REGION_EDGE, REGION_FILL, seriesColor } from '../../common/palette.js';
@@ -84,6 +85,26 @@ function drawPoints(ctx: Ctx, g: PanelGeom, pts: SpeciesPoint[]): void {
   }
 }
 
+/**
+ * Where the filter's scan line a = s·q runs inside the first region: the q range between its
+ * crossings of the upper edge min(−a0, b1) (bracketed on the sampled polygon, then Brent's method on
+ * the edge itself), or null when the line passes above the apex.
+ */
+export function scanWindow(region: QA[], s: number): [number, number] | null {
+  const f = (q: number) => quadrupoleUpperEdge(q) - s * q;
+  const top = region.filter((p) => p.q > 0 && p.a >= 0);
+  const roots: number[] = [];
+  // Near q = 0 the edge is ≈ q²/2 (below the line for q < 2s): a crossing before the first sample.
+  if (top.length > 0 && top[0].a - s * top[0].q > 0) roots.push(brentRoot(f, Math.min(s, top[0].q) * 1e-3, top[0].q, 1e-12));
+  for (let i = 1; i < top.length; i++) {
+    const a = top[i - 1], b = top[i];
+    const fa = a.a - s * a.q, fb = b.a - s * b.q;
+    if (fa === 0) roots.push(a.q);
+    else if (fa * fb < 0) roots.push(brentRoot(f, a.q, b.q, 1e-12));
+  }
+  return roots.length >= 2 ? [roots[0], roots[roots.length - 1]] : null;
+}
+
 export const stability: PlotKind = {
   name: 'stability',
   describe: 'first Mathieu stability region (sim/mathieu) with the species as (q, a) points and the scan line',
@@ -122,9 +143,17 @@ export const stability: PlotKind = {
     const aMax = Math.max(trap ? Math.max(...regionA) * 1.15 : 0.3, ...points.map((p) => p.a + 0.03));
     // Scan line a/q = 2U/V (filter) or a_z/q_z = −2U/V (trap): the locus all m/z share at fixed U, V.
     const slope = (trap ? -2 : 2) * stage.dc / stage.amplitude;
+    let pass = '';
+    if (!trap) {
+      // m/z ∝ 1/q at fixed V (mzAtQ), so the window's right end is its lowest m/z.
+      const w = slope > 0 ? scanWindow(region, slope) : null;
+      if (slope === 0) pass = `: RF only, m/z ≥ ${fmt(mzAtQ(op, stage.amplitude, qEdge))} stable`;
+      else if (w) pass = `: passes m/z ${fmt(mzAtQ(op, stage.amplitude, w[1]))} to ${fmt(mzAtQ(op, stage.amplitude, w[0]))}`;
+      else if (slope > 0) pass = ': above the apex, no m/z passes';
+    }
     const legend: LegendEntry[] = [
       { label: `first stability region (${trap ? 'z and r' : 'x and y'} stable)`, color: REGION_EDGE, mark: 'region', fill: REGION_FILL },
-      { label: `scan line ${trap ? 'a_z/q_z = −2U/V' : 'a/q = 2U/V'} = ${slope.toFixed(4)}`, color: INK, mark: 'dash' },
+      { label: `scan line ${trap ? 'a_z/q_z = −2U/V' : 'a/q = 2U/V'} = ${slope.toFixed(4)}${pass}`, color: INK, mark: 'dash' },
     ];
     if (trap) {
       const lmco = mzAtQ(op, stage.amplitude, qEdge);
