@@ -57,7 +57,9 @@ export async function main(argv: string[]): Promise<number> {
     return await cmd.run(rest);
   } catch (err) {
     if (isUserError(err)) {
-      process.stderr.write(`iontrail ${name}: ${err.message.split('\n')[0]}\n`);
+      // Messages may already start with the command name ("check: --rf ..."): say it once.
+      const line = err.message.split('\n')[0].replace(new RegExp(`^${name}: `), '');
+      process.stderr.write(`iontrail ${name}: ${line}\n`);
       return 2;
     }
     throw err;

@@ -15,6 +15,7 @@ import type { BatchResult } from './track.js';
 import { isElectrostatic } from './potential.js';
 import { stageAt } from './start.js';
 import { fitCooling } from '../analysis/cooling.js';
+import { isTimeOfFlight, tofSummary } from '../analysis/tof-summary.js';
 import { SceneError } from '../scene/schema.js';
 
 export interface RunOptions {
@@ -65,6 +66,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   let done = 0;
   let energyError = 0;
   let stop = false;
+  // Arrival times of detected ions per population, for the time-of-flight figures.
+  const tof = isTimeOfFlight(scene);
+  const arrivals: number[][] = scene.ions.map(() => []);
+  const arrivalKe: number[][] = scene.ions.map(() => []);
   const onSigint = () => { stop = true; };
   if (opts.handleSigint) process.on('SIGINT', onSigint);
   try {
@@ -81,7 +86,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
           const p = pops[r.population[k]];
           p.total++;
           p.collisions += r.collisions[k];
-          if (r.fate[k] === Fate.detected) p.detected++;
+          if (r.fate[k] === Fate.detected) {
+            p.detected++;
+            if (tof) { arrivals[r.population[k]].push(r.end_time[k]); arrivalKe[r.population[k]].push(r.end_ke_ev[k]); }
+          }
           else if (r.fate[k] === Fate.hit) p.hit++;
           else { p.alive++; p.aliveKe += r.end_ke_ev[k]; }
         }
@@ -142,6 +150,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
     };
     if (fit.tau_s === null) warnings.push('cooling: mean kinetic energy does not fall over the run; no time constant fitted');
   }
+  if (tof) summary.tof = tofSummary(scene, arrivals, arrivalKe);
   await writer.finish(summary);
   return summary;
 }

@@ -82,9 +82,11 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       if (code === Exit.hit) { fate = Fate.hit; break; }
       if (code === Exit.time) { fate = Fate.alive; break; }
       if (code === Exit.forward) {
+        if (st.type === 'accelerate' && st.closed) { fate = Fate.hit; break; }
         if (s === scene.stages.length - 1) { fate = Fate.detected; break; }
         s++;
       } else {
+        if (st.type === 'drift' && st.detectReturning) { fate = Fate.detected; break; }
         // Back out through the entrance of the first stage: lost at the entrance aperture.
         if (s === 0) { fate = Fate.hit; break; }
         s--;

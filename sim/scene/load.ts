@@ -48,7 +48,19 @@ const stage: Field = {
       fields: { length, r0: length, rf, dc: { kind: 'quantity', dim: 'voltage' }, gas },
       required: ['length', 'r0', 'rf'],
     },
-    drift: { fields: { length, aperture, gas }, required: ['length'] },
+    drift: { fields: { length, aperture, gas, detect_returning: { kind: 'enum', values: ['true', 'false'] } }, required: ['length'] },
+    reflectron: {
+      fields: { length, voltage: { kind: 'quantity', dim: 'voltage', positive: true }, aperture, gas },
+      required: ['length', 'voltage'],
+    },
+    source: {
+      fields: {
+        extraction: { kind: 'object', fields: { length, voltage: { kind: 'quantity', dim: 'voltage' } }, required: ['length', 'voltage'] },
+        acceleration: { kind: 'object', fields: { length, voltage: { kind: 'quantity', dim: 'voltage' } }, required: ['length', 'voltage'] },
+        aperture, gas,
+      },
+      required: ['extraction', 'acceleration'],
+    },
     accelerate: {
       fields: { length, voltage: { kind: 'quantity', dim: 'voltage' }, aperture, gas },
       required: ['length', 'voltage'],
@@ -195,9 +207,23 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
         break;
       case 'drift':
         st = { type: 'drift', length: s.length, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
+        if (s.detect_returning === 'true') st.detectReturning = true;
         break;
+      case 'reflectron':
+        // Retarding field: the potential rises by `voltage` towards the closed back plate.
+        st = { type: 'accelerate', role: 'reflectron', closed: true, length: s.length, voltage: -s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
+        break;
+      case 'source': {
+        // Two uniform-field regions (Wiley & McLaren 1955): extraction, then acceleration.
+        const ex: Stage = { type: 'accelerate', role: 'source-extraction', length: s.extraction.length, voltage: s.extraction.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.extraction.length, sceneIndex: i };
+        if (stageGas) ex.gas = stageGas;
+        stages.push(ex);
+        z = ex.zEnd;
+        st = { type: 'accelerate', role: 'source-acceleration', length: s.acceleration.length, voltage: s.acceleration.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.acceleration.length };
+        break;
+      }
       case 'accelerate':
-        st = { type: 'accelerate', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
+        st = { type: 'accelerate', role: 'gap', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
         break;
       case 'trap': {
         const z0 = s.z0 ?? s.r0 / Math.SQRT2;
@@ -210,6 +236,7 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
         throw new SceneError(`${origin.file}: stages.${i}.type: unknown stage type`);
     }
     if (stageGas) st.gas = stageGas;
+    st.sceneIndex = i;
     stages.push(st);
     z = st.zEnd;
   });

@@ -13,6 +13,8 @@ export interface RfDrive {
 }
 
 interface StageBase {
+  /** Index of the scene-file entry this stage came from (a source gives two stages). */
+  sceneIndex?: number;
   /** Position of the stage entrance and exit along z, m (filled in by the loader). */
   zStart: number;
   zEnd: number;
@@ -33,6 +35,8 @@ export interface QuadrupoleStage extends StageBase {
 export interface DriftStage extends StageBase {
   type: 'drift';
   aperture: number;
+  /** Reflectron instruments: an ion leaving back through this stage's entrance hits the detector. */
+  detectReturning?: boolean;
 }
 
 /** Uniform axial field: the potential falls by `voltage` (V) from entrance to exit. */
@@ -40,6 +44,10 @@ export interface AccelerateStage extends StageBase {
   type: 'accelerate';
   voltage: number;
   aperture: number;
+  /** A closed far end (reflectron back plate): an ion reaching it is lost. */
+  closed?: boolean;
+  /** What the scene called it: a plain gap, a reflectron, or a region of a two-field source. */
+  role?: 'gap' | 'reflectron' | 'source-extraction' | 'source-acceleration';
 }
 
 /** Ideal 3D RF trap: ring at dc + amplitude·cos(...), end caps grounded; centred in the stage. */

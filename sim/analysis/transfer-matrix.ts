@@ -1,0 +1,160 @@
+// Transfer matrices of one axis of the ideal quadrupole over one RF period. In the RF phase
+// θ = Ω t + φ (d/dθ, scaled U = u/r0) the axis obeys Hill's equation
+//   U'' = −w(θ) U,   w(θ) = s·(a/4 + (q/2) cos θ),   s = +1 for x, −1 for y,
+// which is the Mathieu form u'' + (a − 2q cos 2ξ) u = 0 with ξ = θ/2 shifted by half a period
+// (Dawson, Quadrupole Mass Spectrometry and its Applications, 1976, eq. 2.6–2.9). The motion is
+// linear, so the state after any time is a 2×2 matrix times the start state:
+//   F(θ) = propagator from phase 0 to θ,   F(θ + 2π) = F(θ)·M0,   M0 = F(2π) (monodromy),
+//   state at phase θ from phase ψ:  w(θ) = F(θ) F(ψ)⁻¹ w(ψ)
+// (Magnus & Winkler, Hill's Equation, 1966, §1.2). F is tabulated once per (a, q) on a grid of
+// S points per check interval (M checks per period, M = steps_per_cycle, matching the direct
+// kernel's check times), with classic RK4 sub-steps (Hairer, Nørsett & Wanner, Solving ODEs I,
+// Table II.1.2); an arbitrary phase is one short RK4 step (≤ 2π/(M·S)) away from a grid point.
+//
+// For a stable axis the Courant–Snyder form I = γU² + 2αUU' + βU'² (Courant & Snyder, Ann. Phys.
+// 3, 1, 1958, eq. 3.13) is invariant under M0, so over any number of periods |U(θ)| ≤ √(I·W(θ))
+// with W = first row of F in the dual form (βF11² − 2αF11F12 + γF12²). Its maximum over the grid,
+// Wmax, bounds the excursion at every time of the stage without stepping a single period.
+
+export interface PeriodTable {
+  /** Checks per period M and grid points per check interval S; grid size n = M·S over 2π. */
+  checks: number;
+  sub: number;
+  n: number;
+  /** Grid spacing in phase, rad. */
+  dTheta: number;
+  /** a/4 and q/2 with the axis sign s folded in: w(θ) = w0 + w1 cos θ. */
+  w0: number;
+  w1: number;
+  /** F(θ_i), i = 0..n, θ_i = i·dTheta: [[f11, f12], [f21, f22]] in (U, dU/dθ). */
+  f11: Float64Array; f12: Float64Array; f21: Float64Array; f22: Float64Array;
+  /** cos θ_i, sin θ_i. */
+  cos: Float64Array; sin: Float64Array;
+  /** Monodromy M0 = F(2π). */
+  m11: number; m12: number; m21: number; m22: number;
+  /** |tr M0| < 2. */
+  stable: boolean;
+  /** Courant–Snyder parameters (stable only; else NaN). */
+  beta: number; alpha: number; gamma: number;
+  /** Largest W(θ_i) over the grid (stable only; else Infinity). */
+  wMax: number;
+}
+
+/** RK4 sub-steps per grid interval when building the table. */
+const INNER = 4;
+
+/**
+ * Table of one axis. `a`, `q` are this axis's Mathieu parameters (y: −a, −q); `checks` = M.
+ * Cost: M·S·INNER RK4 steps on two solutions (≈ 5k for M = 40, S = 16).
+ */
+export function periodTable(a: number, q: number, checks: number, sub = 16): PeriodTable {
+  const n = checks * sub;
+  const dTheta = (2 * Math.PI) / n;
+  const w0 = a / 4, w1 = q / 2;
+  const f11 = new Float64Array(n + 1), f12 = new Float64Array(n + 1);
+  const f21 = new Float64Array(n + 1), f22 = new Float64Array(n + 1);
+  const cos = new Float64Array(n + 1), sin = new Float64Array(n + 1);
+  for (let i = 0; i <= n; i++) { cos[i] = Math.cos(i * dTheta); sin[i] = Math.sin(i * dTheta); }
+  // Columns: solution 1 (U = 1, U' = 0) and solution 2 (U = 0, U' = 1).
+  let u1 = 1, p1 = 0, u2 = 0, p2 = 1;
+  f11[0] = 1; f12[0] = 0; f21[0] = 0; f22[0] = 1;
+  const h = dTheta / INNER;
+  for (let i = 0; i < n; i++) {
+    for (let s = 0; s < INNER; s++) {
+      const th = i * dTheta + s * h;
+      const g0 = w0 + w1 * Math.cos(th), g1 = w0 + w1 * Math.cos(th + 0.5 * h), g2 = w0 + w1 * Math.cos(th + h);
+      let r = rk4Step(u1, p1, g0, g1, g2, h); u1 = r0u; p1 = r;
+      r = rk4Step(u2, p2, g0, g1, g2, h); u2 = r0u; p2 = r;
+    }
+    // Rows of F: first row = positions of the two solutions, second = their slopes.
+    f11[i + 1] = u1; f12[i + 1] = u2; f21[i + 1] = p1; f22[i + 1] = p2;
+  }
+  const m11 = f11[n], m12 = f12[n], m21 = f21[n], m22 = f22[n];
+  const half = 0.5 * (m11 + m22);
+  const stable = Math.abs(half) < 1;
+  let beta = NaN, alpha = NaN, gamma = NaN, wMax = Infinity;
+  if (stable) {
+    // M0 = I cos μ + J sin μ, J = [[α, β], [−γ, −α]]; the sign of sin μ makes β > 0.
+    const sinMu = Math.sign(m12) * Math.sqrt(Math.max(0, 1 - half * half));
+    beta = m12 / sinMu;
+    alpha = (m11 - m22) / (2 * sinMu);
+    gamma = -m21 / sinMu;
+    wMax = 0;
+    for (let i = 0; i <= n; i++) {
+      const w = beta * f11[i] * f11[i] - 2 * alpha * f11[i] * f12[i] + gamma * f12[i] * f12[i];
+      if (w > wMax) wMax = w;
+    }
+  }
+  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax };
+}
+
+// The position result of rk4Step (the slope is returned): avoids allocating a pair per call.
+let r0u = 0;
+
+/**
+ * One classic RK4 step of U'' = −g U over h with g at the start, middle and end of the step;
+ * sets r0u to the new U and returns the new U'.
+ */
+function rk4Step(u: number, p: number, g0: number, g1: number, g2: number, h: number): number {
+  const a1 = -g0 * u;
+  const u2 = u + 0.5 * h * p, p2 = p + 0.5 * h * a1, a2 = -g1 * u2;
+  const u3 = u + 0.5 * h * p2, p3 = p + 0.5 * h * a2, a3 = -g1 * u3;
+  const u4 = u + h * p3, p4 = p + h * a3, a4 = -g2 * u4;
+  r0u = u + (h / 6) * (p + 2 * p2 + 2 * p3 + p4);
+  return p + (h / 6) * (a1 + 2 * a2 + 2 * a3 + a4);
+}
+
+/** A 2×2 matrix in a reusable holder. */
+export interface Mat2 { a11: number; a12: number; a21: number; a22: number }
+
+export function mat2(): Mat2 {
+  return { a11: 1, a12: 0, a21: 0, a22: 1 };
+}
+
+/**
+ * F(θ) for θ in [0, 2π] into `out`: the grid point below θ, then one RK4 step of size
+ * ε = θ − θ_i < dTheta. The one-step error is O((ω ε)⁵) with ω² ≈ |w0| + |w1| ≲ 1, below 1e-12
+ * for ε ≤ 2π/640. `ce`, `se`, `ch`, `sh`: cos and sin of ε and ε/2 (shared by all checks of an ion,
+ * since its check phases differ from grid points by the same ε).
+ */
+export function fAtGrid(t: PeriodTable, i: number, eps: number, ch: number, sh: number, ce: number, se: number, out: Mat2): Mat2 {
+  const c = t.cos[i], s = t.sin[i];
+  const g0 = t.w0 + t.w1 * c;
+  const g1 = t.w0 + t.w1 * (c * ch - s * sh);
+  const g2 = t.w0 + t.w1 * (c * ce - s * se);
+  let p = rk4Step(t.f11[i], t.f21[i], g0, g1, g2, eps);
+  out.a11 = r0u; out.a21 = p;
+  p = rk4Step(t.f12[i], t.f22[i], g0, g1, g2, eps);
+  out.a12 = r0u; out.a22 = p;
+  return out;
+}
+
+/** F(θ), θ in [0, 2π). */
+export function fAt(t: PeriodTable, theta: number, out: Mat2): Mat2 {
+  let i = Math.floor(theta / t.dTheta);
+  if (i >= t.n) i = t.n - 1;
+  if (i < 0) i = 0;
+  const eps = theta - i * t.dTheta;
+  return fAtGrid(t, i, eps, Math.cos(0.5 * eps), Math.sin(0.5 * eps), Math.cos(eps), Math.sin(eps), out);
+}
+
+/** M0^k applied to the vector (v1, v2) by repeated squaring (O(log k) products); result in out[0..1]. */
+export function powerApply(t: PeriodTable, k: number, v1: number, v2: number, out: Float64Array): void {
+  let b11 = t.m11, b12 = t.m12, b21 = t.m21, b22 = t.m22;
+  let x1 = v1, x2 = v2;
+  let e = k;
+  while (e > 0) {
+    if (e & 1) {
+      const y1 = b11 * x1 + b12 * x2;
+      x2 = b21 * x1 + b22 * x2;
+      x1 = y1;
+    }
+    e = Math.floor(e / 2);
+    if (e > 0) {
+      const c11 = b11 * b11 + b12 * b21, c12 = b11 * b12 + b12 * b22;
+      const c21 = b21 * b11 + b22 * b21, c22 = b21 * b12 + b22 * b22;
+      b11 = c11; b12 = c12; b21 = c21; b22 = c22;
+    }
+  }
+  out[0] = x1; out[1] = x2;
+}
