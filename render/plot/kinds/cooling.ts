@@ -25,20 +25,26 @@ function polyline(ctx: Ctx, g: PanelGeom, t: ArrayLike<number>, y: ArrayLike<num
 }
 
 /**
- * With τ fixed, E(t) = E∞ + A·exp(−t/τ) is linear in (E∞, A): ordinary least squares over the
- * history gives the curve belonging to the reported τ (the engine fits τ on log(E − plateau)).
+ * The curve of the reported τ: E(t) = E∞ + A·exp(−t/τ). E∞ is the plateau as the engine defines it
+ * (summary.cooling.plateau_mean_ke_ev, else the mean of the last 20 % of the samples, as in
+ * sim/analysis/cooling.ts); with E∞ and τ fixed, A is the least-squares amplitude
+ * Σ u(E − E∞) / Σ u², u = exp(−t/τ). Fixing E∞ keeps the curve sane when τ exceeds the run.
  */
-export function exponentialWithTau(t: ArrayLike<number>, e: ArrayLike<number>, tau: number): { floor: number; amp: number } {
-  let n = 0, su = 0, suu = 0, sy = 0, suy = 0;
-  for (let i = 0; i < t.length; i++) {
-    if (!Number.isFinite(e[i])) continue;
-    const u = Math.exp(-t[i] / tau);
-    n++; su += u; suu += u * u; sy += e[i]; suy += u * e[i];
+export function exponentialWithTau(t: ArrayLike<number>, e: ArrayLike<number>, tau: number, plateau?: number): { floor: number; amp: number } {
+  const idx: number[] = [];
+  for (let i = 0; i < t.length; i++) if (Number.isFinite(e[i])) idx.push(i);
+  if (idx.length === 0) return { floor: NaN, amp: NaN };
+  let floor = plateau;
+  if (floor === undefined || !Number.isFinite(floor)) {
+    const tail = idx.slice(Math.floor(idx.length * 0.8));
+    floor = tail.reduce((a, i) => a + e[i], 0) / tail.length;
   }
-  const det = n * suu - su * su;
-  if (!(Math.abs(det) > 0)) return { floor: NaN, amp: NaN };
-  const amp = (n * suy - su * sy) / det;
-  return { floor: (sy - amp * su) / n, amp };
+  let suu = 0, suy = 0;
+  for (const i of idx) {
+    const u = Math.exp(-t[i] / tau);
+    suu += u * u; suy += u * (e[i] - floor);
+  }
+  return { floor, amp: suu > 0 ? suy / suu : NaN };
 }
 
 export const cooling: PlotKind = {
@@ -53,7 +59,8 @@ export const cooling: PlotKind = {
     const tau = typeof tauRaw === 'number' && tauRaw > 0 ? tauRaw : null;
     const [t0, t1] = extent([h.t]);
     const [e0, e1] = extent([h.mean_ke_ev, h.mean_ke_x_ev, h.mean_ke_y_ev, h.mean_ke_z_ev], true);
-    const fit = tau === null ? null : exponentialWithTau(h.t, h.mean_ke_ev, tau);
+    const plateauRaw = (run.summary.cooling as { plateau_mean_ke_ev?: unknown } | undefined)?.plateau_mean_ke_ev;
+    const fit = tau === null ? null : exponentialWithTau(h.t, h.mean_ke_ev, tau, typeof plateauRaw === 'number' ? plateauRaw : undefined);
     const fitCurve = fit === null ? null : Float64Array.from(h.t, (t) => fit.floor + fit.amp * Math.exp(-t / tau!));
     const C = { total: seriesColor(0), x: seriesColor(1), y: seriesColor(2), z: seriesColor(3), fit: INK };
     const legend: LegendEntry[] = [
@@ -62,7 +69,7 @@ export const cooling: PlotKind = {
       { label: 'y part', color: C.y, mark: 'line' },
       { label: 'z part', color: C.z, mark: 'line' },
       fit && tau !== null
-        ? { label: `fit E∞ + A·exp(−t/τ), τ = ${formatWithUnit(tau, 's')}, E∞ = ${formatWithUnit(fit.floor, 'eV')}`, color: C.fit, mark: 'dash' }
+        ? { label: `E∞ + A·exp(−t/τ), fitted τ = ${formatWithUnit(tau, 's')}, plateau E∞ = ${formatWithUnit(fit.floor, 'eV')}`, color: C.fit, mark: 'dash' }
         : { label: hasGas ? 'no cooling time constant fitted (see summary.json warnings)' : 'no buffer gas in this run: no τ', color: C.fit, mark: 'dash' },
       { label: 'rms radius', color: seriesColor(4), mark: 'line' },
       { label: 'rms z', color: seriesColor(5), mark: 'line' },
@@ -70,7 +77,7 @@ export const cooling: PlotKind = {
     const [s0, s1] = extent([h.rms_radius_m, h.rms_z_m]);
     return {
       title: figureTitle(run.summary, hasGas ? 'buffer-gas cooling' : 'ensemble energy and size'),
-      subtitle: `${h.t.length} history samples; ${Math.round(h.n_alive[h.n_alive.length - 1])} ions alive at the end`,
+      subtitle: `${h.t.length} history samples; ${Math.round(h.n_alive[0])} ions alive at the start, ${Math.round(h.n_alive[h.n_alive.length - 1])} at the end${tau !== null && tau > t1 - t0 ? '; τ longer than the run: extrapolated' : ''}`,
       legend,
       rows: 2, cols: 1, sharedX: true,
       panels: [

@@ -130,13 +130,15 @@ export const traces: PlotKind = {
     }
     const dec = new Decimator();
     const lineWidth = perIon ? 1.3 : 0.8;
+    // Many ions: translucent lines so the populations drawn first still show through.
+    const alpha = perIon ? 1 : 0.6;
     const specs: PanelSpec[] = panels.map((q) => {
       const y = column(q, tr, massOf);
       const [lo, hi] = extent([y]);
       return {
         x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
         y: { label: QUANTITIES[q].label, unit: QUANTITIES[q].unit, min: lo, max: hi },
-        draw: (ctx, g) => drawSeries(ctx, g, tr.t, y, series, lineWidth, dec),
+        draw: (ctx, g) => { ctx.globalAlpha = alpha; drawSeries(ctx, g, tr.t, y, series, lineWidth, dec); ctx.globalAlpha = 1; },
         overlay: rf === undefined ? undefined : (ctx, g) => {
           const period = 1 / rf;
           ctx.strokeStyle = INK_SOFT;
