@@ -75,7 +75,10 @@ export function buildScene(run: RunView, opts: SceneOptions): BuiltScene {
     for (let i = 0; i < b - a; i++) col.set(colors.rgb.subarray(3 * k, 3 * k + 3), 3 * i);
     geo.setAttribute('color', new THREE.BufferAttribute(col, 3));
     const line = new THREE.Line(geo, lineMat);
-    line.name = `ion ${run.ionId[run.traj.ionRow[k]]}`;
+    const row = run.traj.ionRow[k];
+    line.name = `ion ${run.ionId[row]}`;
+    // Carried into glTF node extras so a viewer can tell which ion a line is.
+    line.userData = { ion: run.ionId[row], mz: run.mz[row], fate: run.fate[row] };
     trajectories.add(line);
   }
   scene.add(trajectories);

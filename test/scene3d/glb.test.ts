@@ -55,6 +55,7 @@ describe('.glb', () => {
       expect(node).toBeDefined();
       const prim = json.meshes[node.mesh].primitives[0];
       expect(prim.mode).toBe(3); // LINE_STRIP (glTF 2.0 §3.7.2.1)
+      expect(node.extras).toEqual({ ion: run.ionId[ionRow[k]], mz: run.mz[ionRow[k]], fate: run.fate[ionRow[k]] });
       expect(json.accessors[prim.attributes.POSITION].count).toBe(start[k + 1] - start[k]);
       expect(json.accessors[prim.attributes.COLOR_0].count).toBe(start[k + 1] - start[k]);
       checked++;
@@ -78,5 +79,10 @@ describe('.glb', () => {
       expect(pos.max[2]).toBeCloseTo(120, 3);
     }
     expect(json.scenes[0].extras?.units ?? json.nodes.find((n: any) => n.extras?.units)?.extras?.units).toBe('mm');
+  });
+
+  it('same run and options give the same bytes', async () => {
+    const again = await renderGlb(run, { camera: 'iso', color: 'mz', rods: 'hyperbolic' });
+    expect(Buffer.compare(Buffer.from(again), Buffer.from(bytes))).toBe(0);
   });
 });
