@@ -1,6 +1,6 @@
 // What a figure kind is: a name, the flags it takes, and a builder from a run folder to a figure.
 
-import type { RunFolder } from '../../sim/runfolder/index.js';
+import { estimateTrajectoryRows, type RunFolder } from '../../sim/runfolder/index.js';
 import type { FigureSpec } from './figure.js';
 
 export interface KindOptions {
@@ -60,4 +60,22 @@ export function ionList(text: string, flagName = 'ions'): number[] {
     for (let i = a; i <= b; i++) out.add(i);
   }
   return [...out].sort((x, y) => x - y);
+}
+
+/** Points a figure reads into memory at most before it thins them on its own (8 columns × 8 bytes each). */
+export const MAX_POINTS_IN_MEMORY = 20_000_000;
+
+/**
+ * The --every to read with: the flag when given, else 1, or the smallest n that keeps the points
+ * of `ionsWanted` (of all ions) under MAX_POINTS_IN_MEMORY. `note` says so for the subtitle.
+ */
+export function pointStride(run: RunFolder, opt: KindOptions, ionsWanted: number | null): { every: number; note: string } {
+  if (opt.values.has('every')) return { every: intFlag(opt, 'every', 1, 1, 1e9), note: '' };
+  const total = estimateTrajectoryRows(run.dir);
+  const nIons = Math.max(1, run.ions.ion.length);
+  const share = ionsWanted === null ? 1 : Math.min(1, ionsWanted / nIons);
+  const rows = total * share;
+  if (rows <= MAX_POINTS_IN_MEMORY) return { every: 1, note: '' };
+  const every = Math.ceil(rows / MAX_POINTS_IN_MEMORY);
+  return { every, note: `every ${every}th point read (≈${(rows / 1e6).toFixed(0)} M recorded; give --every 1 with fewer --ions to draw all)` };
 }

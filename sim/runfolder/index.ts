@@ -18,7 +18,7 @@
 //   const run = await readRunFolder(dir);   // { dir, summary, ions, hasTrajectories, hasHistory }
 //   await readTrajectories(dir, { ions: [0, 3], everyNth: 10 });
 //   for await (const b of trajectoryBatches(dir)) ...;   // streaming, one record batch at a time
-//   readHistory(dir); readSummary(dir); ionSegments(cols.ion);
+//   readHistory(dir); readSummary(dir); ionSegments(cols.ion); estimateTrajectoryRows(dir);
 // Every read/write failure is a RunFolderError (name 'RunFolderError', one-line message with the path).
 
 export { RunFolderError } from './errors.js';
@@ -30,6 +30,6 @@ export {
 export { formatSummary, type RunSummary, type SpeciesSummary, type RunProvenance } from './summary.js';
 export { RunFolderWriter, FILES, type RunFolderWriterOptions } from './writer.js';
 export {
-  readRunFolder, readSummary, readIons, readHistory, readTrajectories, trajectoryBatches, ionSegments,
+  readRunFolder, readSummary, readIons, readHistory, readTrajectories, trajectoryBatches, ionSegments, estimateTrajectoryRows,
   TrajectoryFile, type RunFolder, type TrajectorySelection,
 } from './reader.js';

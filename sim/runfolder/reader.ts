@@ -179,6 +179,18 @@ async function openReader(handle: FileHandle, path: string) {
   };
 }
 
+/** Bytes per trajectory row in the Arrow body: one Int32 and seven Float64 columns. */
+const TRAJECTORY_ROW_BYTES = 4 + 7 * 8;
+
+/**
+ * Number of recorded points, estimated from the file size without reading it (within a few per
+ * cent: headers and padding are small against the bodies). 0 when there is no trajectories file.
+ */
+export function estimateTrajectoryRows(dir: string): number {
+  const path = join(dir, FILES.trajectories);
+  return existsSync(path) ? Math.floor(statSync(path).size / TRAJECTORY_ROW_BYTES) : 0;
+}
+
 /** Every record batch of trajectories.arrow in order, one at a time (for streaming consumers). */
 export async function* trajectoryBatches(dir: string): AsyncGenerator<TrajectoryColumns> {
   const file = await TrajectoryFile.open(dir);

@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { tableFromIPC } from 'apache-arrow';
 import {
   ION_COLUMNS, RunFolderError, RunFolderWriter, readHistory, readRunFolder, readTrajectories, trajectoryBatches,
-  ionSegments, formatSummary, type RunSummary,
+  ionSegments, formatSummary, estimateTrajectoryRows, type RunSummary,
 } from '../../sim/runfolder/index.js';
 import { tempRoot, writeSyntheticRun } from './synthetic.js';
 
@@ -33,6 +33,8 @@ describe('run folder round trip', () => {
     expect(run.ions.end_stage).toBeInstanceOf(Int32Array);
     const tr = await fullTrajectories(dir);
     expect(tr.t.length).toBe(15 * 300);
+    // Batches of 777 points: headers (~0.3 kB a batch) are under 1 % of the 47 kB bodies; 5 % margin.
+    expect(Math.abs(estimateTrajectoryRows(dir) - tr.t.length) / tr.t.length).toBeLessThan(0.05);
     // Points of each ion contiguous and in ion order.
     const segs = ionSegments(tr.ion);
     expect(segs.map((s) => s.ion)).toEqual(Array.from({ length: 15 }, (_, i) => i));
@@ -65,6 +67,9 @@ describe('run folder round trip', () => {
     for await (const b of trajectoryBatches(dir)) { n += b.t.length; batches++; }
     expect(n).toBe(16000);
     expect(batches).toBe(250);
+    // The size-based estimate (60 body bytes a row) only errs upwards: batch headers and padding
+    // add bytes, never remove them (so the plotting memory guard is conservative).
+    expect(estimateTrajectoryRows(dir)).toBeGreaterThanOrEqual(n);
   });
 
   it('selects ions and decimates the same as filtering everything (binary search over batches)', async () => {

@@ -6,7 +6,7 @@ import { readTrajectories, type RunFolder } from '../../../sim/runfolder/index.j
 import { densityRgb, seriesColor } from '../../common/palette.js';
 import { extent, padded } from '../axis.js';
 import type { Ctx, FigureSpec, LegendEntry, PanelGeom, PanelSpec } from '../figure.js';
-import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
+import { PlotError, choiceFlag, intFlag, pointStride, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 import { rfStages, sceneStages, stageExtent } from '../scene.js';
 
@@ -29,7 +29,7 @@ async function loadCloud(run: RunFolder, opt: KindOptions): Promise<Cloud> {
   if (source === 'start') return { x: I.x0, y: I.y0, vx: I.vx0, vy: I.vy0, pop: I.population, what: 'ion start states' };
   if (source === 'end') return { x: I.end_x, y: I.end_y, vx: I.end_vx, vy: I.end_vy, pop: I.population, what: 'ion end states' };
   if (!run.hasTrajectories) throw new PlotError(`--source points: ${run.dir} has no trajectories.arrow (try --source end)`);
-  const every = intFlag(opt, 'every', 1, 1, 1e9);
+  const { every, note } = pointStride(run, opt, null);
   // Points inside one stage only (default: the first RF stage), so that the drift after a filter
   // does not stretch the axes; --stage all keeps every point.
   const stageText = opt.values.get('stage');
@@ -56,7 +56,7 @@ async function loadCloud(run: RunFolder, opt: KindOptions): Promise<Cloud> {
   const pop = new Int32Array(keep);
   for (let j = 0; j < keep; j++) pop[j] = I.population[rowOf.get(tr.ion[idx === null ? j : idx[j]]) ?? 0] ?? 0;
   const where = zRange ? ` inside stage ${stageIndex} (${zRange.type})` : '';
-  return { x: pick(tr.x), y: pick(tr.y), vx: pick(tr.vx), vy: pick(tr.vy), pop, what: `recorded points${where}${every > 1 ? `, every ${every}th` : ''}` };
+  return { x: pick(tr.x), y: pick(tr.y), vx: pick(tr.vx), vy: pick(tr.vy), pop, what: `recorded points${where}${every > 1 ? `, ${note || `every ${every}th`}` : ''}` };
 }
 
 function populationLegend(run: RunFolder, pops: Int32Array): { legend: LegendEntry[]; colorOf: Map<number, string> } {

@@ -9,7 +9,7 @@ import { formatWithUnit } from '../../common/ticks.js';
 import { extent } from '../axis.js';
 import { Decimator } from '../decimate.js';
 import type { Ctx, FigureSpec, LegendEntry, PanelGeom, PanelSpec } from '../figure.js';
-import { PlotError, intFlag, ionList, type KindOptions, type PlotKind } from '../kind.js';
+import { PlotError, ionList, pointStride, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 import { firstRfFrequency } from '../scene.js';
 
@@ -72,7 +72,7 @@ export const traces: PlotKind = {
   flags: {
     ions: 'ions to draw, e.g. 0,3,7 or 0-9 (default: every recorded ion)',
     panels: 'quantities, top to bottom, from x,y,z,r,ke,vx,vy,vz (default x,y,z,ke)',
-    every: 'read every n-th recorded point (default 1)',
+    every: 'read every n-th recorded point (default 1; thinned automatically above 2e7 points)',
   },
   switches: { 'rf-marks': 'tick marks at every RF period (of the first RF stage) along each panel top' },
   async build(run: RunFolder, opt: KindOptions): Promise<FigureSpec> {
@@ -82,9 +82,9 @@ export const traces: PlotKind = {
     for (const p of panels) {
       if (!(p in QUANTITIES)) throw new PlotError(`--panels: unknown quantity '${p}' (expected some of ${Object.keys(QUANTITIES).join(',')})`);
     }
-    const every = intFlag(opt, 'every', 1, 1, 1e9);
     const ionsText = opt.values.get('ions');
     const wanted = ionsText === undefined ? undefined : ionList(ionsText);
+    const { every, note } = pointStride(run, opt, wanted ? wanted.length : null);
     const tr = await readTrajectories(run.dir, { ions: wanted, everyNth: every });
     if (tr.t.length === 0) {
       throw new PlotError(`${run.dir}: no recorded points${wanted ? ` for ions ${ionsText}` : ''}`);
@@ -156,7 +156,7 @@ export const traces: PlotKind = {
     const total = tr.t.length;
     return {
       title: figureTitle(run.summary, 'time traces'),
-      subtitle: `${segs.length} ion${segs.length === 1 ? '' : 's'}, ${total.toLocaleString('en-US')} recorded points${every > 1 ? ` (every ${every}th read)` : ''}`,
+      subtitle: `${segs.length} ion${segs.length === 1 ? '' : 's'}, ${total.toLocaleString('en-US')} recorded points${every > 1 ? ` (${note || `every ${every}th read`})` : ''}`,
       legend,
       panels: specs,
       rows: specs.length,
