@@ -109,6 +109,15 @@ describe('run folder round trip', () => {
     expect(Number(tl[123].split(',')[2])).toBe(tr.x[122]);
   });
 
+  it('same data ⇒ same bytes (Arrow, CSV and summary.json), as the determinism rule requires', async () => {
+    const root = tempRoot('rf');
+    await writeSyntheticRun(join(root, 'a'), { csv: true, history: true, batchPoints: 500 });
+    await writeSyntheticRun(join(root, 'b'), { csv: true, history: true, batchPoints: 500 });
+    for (const f of ['ions.arrow', 'trajectories.arrow', 'history.arrow', 'summary.json', 'ions.csv', 'trajectories.csv']) {
+      expect(readFileSync(join(root, 'a', f)).equals(readFileSync(join(root, 'b', f)))).toBe(true);
+    }
+  });
+
   it('writes summary.json with the fixed key order, extra keys kept after the known ones', () => {
     const s = { warnings: [], extra_key: 1, complete: false, scene_name: 'x', ions: { alive: 0, hit: 0, detected: 0, total: 0 } } as unknown as RunSummary;
     const text = formatSummary(s);
