@@ -16,7 +16,7 @@ export const describe = 'run the built-in demo (Skerry filter, trap and TOF scen
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replace(/\/dist$/, '');
 
 /** Demo scenes in the order they run, with the check lines that go with them. */
-export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml'];
+export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml'];
 
 const CHECKS: string[][] = [
   ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '600V', '--dc', '40V', '--mz', '502', '--rf-max', '5kV'],

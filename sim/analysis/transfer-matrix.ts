@@ -38,6 +38,8 @@ export interface PeriodTable {
   beta: number; alpha: number; gamma: number;
   /** Largest W(θ_i) over the grid (stable only; else Infinity). */
   wMax: number;
+  /** Largest F11² + F12² over the grid: bounds U² ≤ rowMax·|c|² at every phase (Cauchy–Schwarz). */
+  rowMax: number;
 }
 
 /** RK4 sub-steps per grid interval when building the table. */
@@ -72,7 +74,8 @@ export function periodTable(a: number, q: number, checks: number, sub = 16): Per
   const m11 = f11[n], m12 = f12[n], m21 = f21[n], m22 = f22[n];
   const half = 0.5 * (m11 + m22);
   const stable = Math.abs(half) < 1;
-  let beta = NaN, alpha = NaN, gamma = NaN, wMax = Infinity;
+  let beta = NaN, alpha = NaN, gamma = NaN, wMax = Infinity, rowMax = 0;
+  for (let i = 0; i <= n; i++) rowMax = Math.max(rowMax, f11[i] * f11[i] + f12[i] * f12[i]);
   if (stable) {
     // M0 = I cos μ + J sin μ, J = [[α, β], [−γ, −α]]; the sign of sin μ makes β > 0.
     const sinMu = Math.sign(m12) * Math.sqrt(Math.max(0, 1 - half * half));
@@ -85,7 +88,7 @@ export function periodTable(a: number, q: number, checks: number, sub = 16): Per
       if (w > wMax) wMax = w;
     }
   }
-  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax };
+  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax, rowMax };
 }
 
 // The position result of rk4Step (the slope is returned): avoids allocating a pair per call.
@@ -127,6 +130,20 @@ export function fAtGrid(t: PeriodTable, i: number, eps: number, ch: number, sh: 
   p = rk4Step(t.f12[i], t.f22[i], g0, g1, g2, eps);
   out.a12 = r0u; out.a22 = p;
   return out;
+}
+
+/**
+ * First row of F(θ_i + ε) (the positions of the two fundamental solutions) by the Taylor series
+ * of U'' = −wU to third order: U(θ+ε) = U + εU' − (ε²/2)wU − (ε³/6)(w'U + wU'). The remainder is
+ * ε⁴/24·|U''''| with |U''''| ≲ (w² + |w''| + 2|w'|)·|F| ≲ 3|F|: below 2e-9·|F| for ε ≤ 2π/640, far
+ * under any loss decision's sensitivity. Result in rowOut[0..1].
+ */
+export function rowAt(t: PeriodTable, i: number, eps: number, rowOut: Float64Array): void {
+  const w = t.w0 + t.w1 * t.cos[i], dw = -t.w1 * t.sin[i];
+  const e2 = 0.5 * eps * eps, e3 = (eps * eps * eps) / 6;
+  const u1 = t.f11[i], p1 = t.f21[i], u2 = t.f12[i], p2 = t.f22[i];
+  rowOut[0] = u1 + eps * p1 - e2 * w * u1 - e3 * (dw * u1 + w * p1);
+  rowOut[1] = u2 + eps * p2 - e2 * w * u2 - e3 * (dw * u2 + w * p2);
 }
 
 /** F(θ), θ in [0, 2π). */

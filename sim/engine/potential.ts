@@ -17,7 +17,7 @@ export function stageBasePotentials(scene: Scene): number[] {
 /** True when nothing in the scene varies in time or dissipates: no RF amplitude, no gas. */
 export function isElectrostatic(scene: Scene): boolean {
   if (scene.gas) return false;
-  return scene.stages.every((s) => !s.gas && !((s.type === 'quadrupole' || s.type === 'trap') && (s.rf.amplitude !== 0 || s.rf.ramp)));
+  return scene.stages.every((s) => !s.gas && !((s.type === 'quadrupole' || s.type === 'trap') && (s.rf.amplitude !== 0 || s.rf.ramp || (s.type === 'trap' && s.aux && s.aux.amplitude !== 0))));
 }
 
 export function dcPotential(scene: Scene, base: number[], stage: number, x: number, y: number, z: number): number {

@@ -16,6 +16,7 @@ import { isElectrostatic } from './potential.js';
 import { stageAt } from './start.js';
 import { fitCooling } from '../analysis/cooling.js';
 import { isTimeOfFlight, tofSummary } from '../analysis/tof-summary.js';
+import { scanSummary, scanTrap } from '../analysis/trap-scan.js';
 import { SceneError } from '../scene/schema.js';
 
 export interface RunOptions {
@@ -68,6 +69,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   let stop = false;
   // Arrival times of detected ions per population, for the time-of-flight figures.
   const tof = isTimeOfFlight(scene);
+  const scan = scanTrap(scene) !== undefined;
   const arrivals: number[][] = scene.ions.map(() => []);
   const arrivalKe: number[][] = scene.ions.map(() => []);
   const onSigint = () => { stop = true; };
@@ -88,7 +90,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
           p.collisions += r.collisions[k];
           if (r.fate[k] === Fate.detected) {
             p.detected++;
-            if (tof) { arrivals[r.population[k]].push(r.end_time[k]); arrivalKe[r.population[k]].push(r.end_ke_ev[k]); }
+            if (tof || scan) { arrivals[r.population[k]].push(r.end_time[k]); arrivalKe[r.population[k]].push(r.end_ke_ev[k]); }
           }
           else if (r.fate[k] === Fate.hit) p.hit++;
           else { p.alive++; p.aliveKe += r.end_ke_ev[k]; }
@@ -148,9 +150,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       initial_mean_ke_ev: fit.initial_mean_ke_ev,
       collisions_per_ion: totals.total > 0 ? pops.reduce((a, p) => a + p.collisions, 0) / totals.total : 0,
     };
-    if (fit.tau_s === null) warnings.push('cooling: mean kinetic energy does not fall over the run; no time constant fitted');
+    if (fit.tau_s === null && !scan) warnings.push('cooling: mean kinetic energy does not fall over the run; no time constant fitted');
   }
   if (tof) summary.tof = tofSummary(scene, arrivals, arrivalKe);
+  if (scan) summary.scan = scanSummary(scene, arrivals);
   await writer.finish(summary);
   return summary;
 }

@@ -19,6 +19,15 @@
 // Scattering: elastic, g' = g·n̂ with n̂ uniform on the sphere; v' = v + M/(m+M) (g' − g).
 // Random numbers: nine uniforms per candidate from the ion's counter-based gas stream, so an ion's
 // collisions are the same however ions are batched or which worker runs them.
+//
+// Two ways to call it, with identical results: the plain GasStep (velocity through the batch
+// arrays every step), or the kernel's pieces, which let a stepping loop keep the optical depth and
+// the velocity in locals and touch memory only at a candidate — in JS the store/call/reload of the
+// plain step costs more than the gas physics itself (see test/bench/gas.bench.ts):
+//   let s = k.enter(b, i);                                   // once per ion per stage visit
+//   per step: const d = s - (k.rateSlope * |v| + k.rateFloor) * h;
+//             if (d > 0) s = d; else { store v; s = k.collide(b, i, h, s); reload v }
+//   k.leave(b, i, s);                                        // before the ion leaves the kernel
 
 import type { IonBatch } from '../engine/batch.js';
 import { BOLTZMANN } from '../units/constants.js';
@@ -30,7 +39,31 @@ import { GasScratchTable, type GasScratch } from './scratch.js';
 /** Uniforms consumed per candidate collision (fixed, so counters stay easy to audit). */
 export const DRAWS_PER_CANDIDATE = 9;
 
+/** Hard-sphere gas pieces for a stepping loop; `step` is the same physics as a plain GasStep. */
+export interface HardSphereKernel {
+  /**
+   * Majorant rate ν*(v) = rateSlope·|v| + rateFloor, 1/s (n σ and n σ c̄). Evaluate the step's
+   * depth exactly as `s - (rateSlope * |v| + rateFloor) * dt` to match `step` bit for bit.
+   */
+  readonly rateSlope: number;
+  readonly rateFloor: number;
+  /** Remaining optical depth of ion i (drawn on first use of the slot). */
+  enter(batch: IonBatch, i: number): number;
+  /**
+   * Candidates within a step of length dt that started with optical depth `depth` (≤ the step's
+   * ν*·dt): updates batch.vx/vy/vz, gasCounter, collisions of ion i; returns the depth left.
+   */
+  collide(batch: IonBatch, i: number, dt: number, depth: number): number;
+  /** Store the depth carried in a local back into the per-ion scratch. */
+  leave(batch: IonBatch, i: number, depth: number): void;
+  step: GasStep;
+}
+
 export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
+  return makeHardSphereKernel(gas, seed).step;
+}
+
+export function makeHardSphereKernel(gas: GasSpec, seed: number): HardSphereKernel {
   checkGasSpec(gas);
   if (gas.model !== 'hard-sphere') throw new GasSpecError('model', `expects hard-sphere here, got '${gas.model}'`);
   const gasMass = gas.massKg;
@@ -39,20 +72,42 @@ export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
   const sigmaV = Math.sqrt(kT / gasMass); // per-component spread of the gas velocity
   const aGas = Math.SQRT2 * sigmaV; // most probable gas speed
   const meanGasSpeed = Math.sqrt((8 * kT) / (Math.PI * gasMass));
+  const rateFloor = nSigma * meanGasSpeed;
   const TWO_PI = 2 * Math.PI;
   const scratch = new GasScratchTable(seed);
   let bound: IonBatch | null = null;
   let sc!: GasScratch;
+  let depth: Float64Array = new Float64Array(0);
+  let owner: Float64Array = new Float64Array(0);
+
+  function bind(batch: IonBatch): void {
+    sc = scratch.of(batch);
+    depth = sc.state;
+    owner = sc.owner;
+    bound = batch;
+  }
 
   function claim(batch: IonBatch, i: number): void {
     scratch.claim(sc, batch, i);
     const c = batch.gasCounter[i];
-    sc.state[i] = -Math.log(uniformAt(sc.k0[i], sc.k1[i], c));
+    depth[i] = -Math.log(uniformAt(sc.k0[i], sc.k1[i], c));
     batch.gasCounter[i] = c + 1;
   }
 
+  function enter(batch: IonBatch, i: number): number {
+    if (batch !== bound) bind(batch);
+    if (owner[i] !== batch.index[i]) claim(batch, i);
+    return depth[i];
+  }
+
+  function leave(batch: IonBatch, i: number, s: number): void {
+    if (batch !== bound) bind(batch);
+    depth[i] = s;
+  }
+
   // Slow path: at least one candidate within this step.
-  function collideWithin(batch: IonBatch, i: number, dt: number): void {
+  function collide(batch: IonBatch, i: number, dt: number, s: number): number {
+    if (batch !== bound) bind(batch);
     const k0 = sc.k0[i];
     const k1 = sc.k1[i];
     const wGas = gasMass / (batch.mass[i] + gasMass);
@@ -61,8 +116,7 @@ export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
     let vy = batch.vy[i];
     let vz = batch.vz[i];
     let speed = Math.sqrt(vx * vx + vy * vy + vz * vz);
-    let rate = nSigma * (speed + meanGasSpeed);
-    let s = sc.state[i];
+    let rate = nSigma * speed + rateFloor;
     let left = dt;
     let hits = 0;
     while (s <= rate * left) {
@@ -103,30 +157,30 @@ export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
         vy += wGas * (g * st * Math.sin(ph) - gy);
         vz += wGas * (g * ct - gz);
         speed = Math.sqrt(vx * vx + vy * vy + vz * vz);
-        rate = nSigma * (speed + meanGasSpeed);
+        rate = nSigma * speed + rateFloor;
         hits++;
       }
       s = -Math.log(uniformAt(k0, k1, c - 1));
     }
-    sc.state[i] = s - rate * left;
     batch.vx[i] = vx;
     batch.vy[i] = vy;
     batch.vz[i] = vz;
     batch.gasCounter[i] = c;
     batch.collisions[i] += hits;
+    return s - rate * left;
   }
 
-  return function hardSphereStep(batch: IonBatch, i: number, dt: number): void {
-    if (batch !== bound) {
-      sc = scratch.of(batch);
-      bound = batch;
-    }
-    if (sc.owner[i] !== batch.index[i]) claim(batch, i);
+  // Plain GasStep: one speed and one multiply-add on the ion's optical depth per call.
+  function hardSphereStep(batch: IonBatch, i: number, dt: number): void {
+    if (batch !== bound) bind(batch);
+    if (owner[i] !== batch.index[i]) claim(batch, i);
     const vx = batch.vx[i];
     const vy = batch.vy[i];
     const vz = batch.vz[i];
-    const depth = sc.state[i] - nSigma * (Math.sqrt(vx * vx + vy * vy + vz * vz) + meanGasSpeed) * dt;
-    if (depth > 0) sc.state[i] = depth;
-    else collideWithin(batch, i, dt);
-  };
+    const s = depth[i];
+    const d = s - (nSigma * Math.sqrt(vx * vx + vy * vy + vz * vz) + rateFloor) * dt;
+    depth[i] = d > 0 ? d : collide(batch, i, dt, s);
+  }
+
+  return { rateSlope: nSigma, rateFloor, enter, collide, leave, step: hardSphereStep };
 }

@@ -66,7 +66,14 @@ const stage: Field = {
       required: ['length', 'voltage'],
     },
     trap: {
-      fields: { r0: length, z0: length, length, rf, dc: { kind: 'quantity', dim: 'voltage' }, aperture, gas },
+      fields: {
+        r0: length, z0: length, length, rf, dc: { kind: 'quantity', dim: 'voltage' }, aperture, gas,
+        aux: {
+          kind: 'object',
+          fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
+          required: ['amplitude', 'frequency'],
+        },
+      },
       required: ['r0', 'rf'],
     },
   },
@@ -230,6 +237,7 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
         const len = s.length ?? 2 * z0;
         if (len < 2 * z0) fail(origin, node, ['stages', i, 'length'], `must be at least 2·z0 = ${(2 * z0 * 1e3).toPrecision(4)} mm (a length such as 10 mm)`);
         st = { type: 'trap', r0: s.r0, z0, length: len, rf: resolveRf(s.rf), dc: s.dc ?? 0, aperture: s.aperture ?? Math.min(1e-3, s.r0 / 4), zStart: z, zEnd: z + len };
+        if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
         break;
       }
       default:

@@ -59,6 +59,8 @@ export interface TrapStage extends StageBase {
   dc: number;
   /** Radius of the holes in the end caps, m: an ion crossing an end cap within it leaves the trap. */
   aperture: number;
+  /** Supplementary dipolar AC between the end caps (zero-to-peak cap-to-cap voltage, Hz, rad). */
+  aux?: { amplitude: number; frequency: number; phase: number };
 }
 
 export type Stage = QuadrupoleStage | DriftStage | AccelerateStage | TrapStage;

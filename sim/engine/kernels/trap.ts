@@ -4,6 +4,10 @@
 // (March & Todd, Quadrupole Ion Trap Mass Spectrometry, 2005, ch. 2). V(t) may ramp linearly
 // (mass-selective instability scan). Electrodes: ring r² − 2z'² = r0², end caps 2z'² − r² = 2z0²;
 // an ion crossing an end cap within its hole radius leaves the trap. RK4 as in quadrupole.ts.
+// A supplementary dipolar AC between the end caps (resonance ejection) adds the uniform-field
+// approximation E_z = A cos(ω_aux t + φ)/(2 z0) (the field between the caps at the centre, without
+// the geometry factor of real hyperbolic caps; March & Todd 2005, ch. 3); its phase advances by a
+// rotation per half step, so no Math.cos runs per step.
 
 import type { TrapStage } from '../../scene/types.js';
 import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
@@ -53,6 +57,13 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   let j = 0;
   let n = 0;
   let hs = h;
+  // Supplementary AC: (ca, sa) = cos, sin of its phase at the start of the current step.
+  const aux = st.aux;
+  const kA = aux ? (c.q * aux.amplitude) / (2 * st.z0 * c.m) : 0;
+  const wA = aux ? 2 * Math.PI * aux.frequency : 0;
+  const cd = Math.cos(0.5 * wA * h), sd = Math.sin(0.5 * wA * h);
+  let ca = aux ? Math.cos(wA * tEntry + aux.phase) : 0, sa = aux ? Math.sin(wA * tEntry + aux.phase) : 0;
+  let f0 = 0, f1 = 0, f2 = 0;
   let span0 = stepsToWatch(c, ctx, h);
   let watchIn = span0;
   for (;;) {
@@ -75,6 +86,17 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
       g1 = kU + vAt(t0 + 0.5 * h) * (cosT[j + 1] * cp - sinT[j + 1] * sp);
       g2 = kU + vAt(t0 + h) * (cosT[j + 2] * cp - sinT[j + 2] * sp);
     }
+    if (aux) {
+      if (last) {
+        const ph = wA * t0 + aux.phase;
+        f0 = kA * Math.cos(ph); f1 = kA * Math.cos(ph + 0.5 * wA * hs); f2 = kA * Math.cos(ph + wA * hs);
+      } else {
+        const c1 = ca * cd - sa * sd, s1 = sa * cd + ca * sd;
+        const c2 = c1 * cd - s1 * sd, s2 = s1 * cd + c1 * sd;
+        f0 = kA * ca; f1 = kA * c1; f2 = kA * c2;
+        ca = c2; sa = s2;
+      }
+    }
     const hh = 0.5 * hs, h6 = hs / 6;
     const ax1 = -g0 * x;
     const x2 = x + hh * vx, vx2 = vx + hh * ax1, ax2 = -g1 * x2;
@@ -88,10 +110,10 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
     const y4 = y + hs * vy3, vy4 = vy + hs * ay3, ay4 = -g2 * y4;
     y += h6 * (vy + 2 * vy2 + 2 * vy3 + vy4);
     vy += h6 * (ay1 + 2 * ay2 + 2 * ay3 + ay4);
-    const az1 = 2 * g0 * z;
-    const z2 = z + hh * vz, vz2 = vz + hh * az1, az2 = 2 * g1 * z2;
-    const z3 = z + hh * vz2, vz3 = vz + hh * az2, az3 = 2 * g1 * z3;
-    const z4 = z + hs * vz3, vz4 = vz + hs * az3, az4 = 2 * g2 * z4;
+    const az1 = 2 * g0 * z + f0;
+    const z2 = z + hh * vz, vz2 = vz + hh * az1, az2 = 2 * g1 * z2 + f1;
+    const z3 = z + hh * vz2, vz3 = vz + hh * az2, az3 = 2 * g1 * z3 + f1;
+    const z4 = z + hs * vz3, vz4 = vz + hs * az3, az4 = 2 * g2 * z4 + f2;
     z += h6 * (vz + 2 * vz2 + 2 * vz3 + vz4);
     vz += h6 * (az1 + 2 * az2 + 2 * az3 + az4);
     const t1 = t0 + hs;

@@ -1,0 +1,253 @@
+// The exact fast path for linear scenes (ideal quadrupoles and field-free drifts, no gas, no
+// space charge, no RF ramp): each ion's fate from its start state without stepping the RF.
+//
+// Same ions as the engine: every start state comes from startIon (counter-based streams), and
+// drift stages run the engine's own closed-form kernel. In a quadrupole the x and y motions are
+// linear (transfer-matrix.ts), so with c = F(ψ)⁻¹·w(entry) in phase-0 coordinates the state at
+// check n = k·M + m after entry is F(ψ + mΔ)·M0^k·c. The checks are the direct kernel's: every
+// step end t_entry + n·T/M (n = 1..floor(span/h)) and the stage exit, loss when x² + y² ≥ r0².
+// Three tiers keep it cheap:
+//  1. both axes stable and the Courant–Snyder envelope √(I·Wmax) per axis keeps x² + y² below
+//     r0² at every phase: the ion survives the stage whatever its length (no period is visited);
+//  2. otherwise period by period: d_k = M0^k c by one 2×2 product per axis; the checks of period
+//     k are skipped while rowMax·|d_k|² summed over the axes stays below r0² (Cauchy–Schwarz);
+//  3. else the M checks of that period from the ion's own rows of F (computed on first use).
+// The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
+
+import type { DriftStage, QuadrupoleStage, Scene } from '../scene/types.js';
+import { allocateBatch, Fate } from '../engine/batch.js';
+import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../engine/context.js';
+import { populationOffsets, startIon } from '../engine/start.js';
+import { trackUniform } from '../engine/kernels/uniform.js';
+import { fAt, fAtGrid, mat2, periodTable, powerApply, rowAt, type PeriodTable } from './transfer-matrix.js';
+
+/**
+ * Safety margin of tier 1: Wmax is the largest W on the grid (2π/(M·S) apart); between grid points
+ * W can exceed it by about W''·δθ²/8 ≲ 10·(2π/640)²/8 ≈ 1.2e-4 of W (W'' / W is of order
+ * |w0| + |w1| + 1 ≲ 10 in phase units). 1e-3 covers that eightfold; ions inside the margin take
+ * the exact tiers.
+ */
+const ENVELOPE_MARGIN = 1e-3;
+
+const STAGE_KEYS: Record<string, ReadonlySet<string>> = {
+  quadrupole: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
+  drift: new Set(['type', 'length', 'aperture', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
+};
+const RF_KEYS = new Set(['amplitude', 'frequency', 'phase']);
+
+/**
+ * Why the scene is not linear (the fast path does not apply), or null when it is: only ideal
+ * quadrupole and drift stages, no gas, no space charge, no RF ramp. Any setting this module does
+ * not know makes the scene non-linear, so new features default to direct integration.
+ */
+export function nonLinearReason(scene: Scene): string | null {
+  if (scene.gas) return 'buffer gas';
+  if (scene.spaceCharge) return 'space charge';
+  for (let i = 0; i < scene.stages.length; i++) {
+    const st = scene.stages[i] as unknown as Record<string, unknown>;
+    const keys = STAGE_KEYS[st.type as string];
+    if (!keys) return `stage ${i} is a ${String(st.type)} stage`;
+    if (st.gas) return `gas in stage ${i}`;
+    for (const k of Object.keys(st)) if (!keys.has(k) && st[k] !== undefined) return `stage ${i} sets ${k}`;
+    if (st.type === 'quadrupole') {
+      const rf = st.rf as Record<string, unknown>;
+      if (rf.ramp) return `RF ramp in stage ${i}`;
+      for (const k of Object.keys(rf)) if (!RF_KEYS.has(k) && rf[k] !== undefined) return `stage ${i} rf sets ${k}`;
+    }
+  }
+  return null;
+}
+
+export interface LinearOptions {
+  /**
+   * Loss radius as a multiple of r0 (default 1). Diagnostics only: the tests run 0.98 and 1.02 to
+   * find ions whose fate does not hinge on the exact loss radius.
+   */
+  radiusScale?: number;
+}
+
+interface AxisPair { x: PeriodTable; y: PeriodTable }
+
+/** Fates of ions by the transfer-matrix path; one tracker serves one scene. */
+export class LinearTracker {
+  private readonly tables = new Map<number, AxisPair>();
+  private readonly r2: number;
+  private readonly offsets: number[];
+  private readonly b = allocateBatch(1);
+  private readonly ctx: StepContext;
+  private readonly c: IonCursor = { ion: 0, slot: 0, m: 0, q: 0, tau: 0, t: 0, x: 0, y: 0, z: 0, vx: 0, vy: 0, vz: 0, steps: 0, sinceRecord: 0, nextHist: 0 };
+  // Scratch, allocated once: the ion's sampled first rows of F per axis, a matrix, a vector.
+  private rx1 = new Float64Array(0); private rx2 = new Float64Array(0);
+  private ry1 = new Float64Array(0); private ry2 = new Float64Array(0);
+  private rowStamp = new Float64Array(0);
+  private stamp = 0;
+  private readonly row = new Float64Array(2);
+  private readonly fm = mat2();
+  private readonly v = new Float64Array(2);
+  /** Ions decided by tier 1 / tier 2-3 in quadrupole stages (for the benchmark's breakdown). */
+  envelopeCleared = 0;
+  periodLoops = 0;
+
+  constructor(private readonly scene: Scene, opts: LinearOptions = {}) {
+    const why = nonLinearReason(scene);
+    if (why !== null) throw new Error(`transfer-matrix path needs a linear scene (${why})`);
+    const s = opts.radiusScale ?? 1;
+    this.r2 = s * s;
+    this.offsets = populationOffsets(scene);
+    this.ctx = { batch: this.b, maxTime: scene.run.maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null };
+  }
+
+  /** Fate codes (Fate.detected / hit / alive) of global ions start..start+count−1 into `fate`. */
+  track(start: number, count: number, fate: Int8Array, endTime?: Float64Array): void {
+    const scene = this.scene, b = this.b, c = this.c;
+    let pop = 0;
+    while (start >= this.offsets[pop + 1]) pop++;
+    for (let k = 0; k < count; k++) {
+      const ion = start + k;
+      while (ion >= this.offsets[pop + 1]) pop++;
+      c.tau = startIon(scene, b, 0, ion, pop, scene.ions[pop]);
+      c.ion = ion; c.slot = 0; c.m = b.mass[0]; c.q = b.charge[0];
+      c.t = 0; c.x = b.x[0]; c.y = b.y[0]; c.z = b.z[0]; c.vx = b.vx[0]; c.vy = b.vy[0]; c.vz = b.vz[0];
+      c.steps = 0;
+      let s = b.stage[0];
+      let f: number = Fate.alive;
+      // Stage to stage exactly as the engine's trackBatch does.
+      for (;;) {
+        const st = scene.stages[s];
+        const code = st.type === 'quadrupole'
+          ? this.quadrupole(s, pop, st, c)
+          : trackUniform(st as DriftStage, c, this.ctx, scene.run.stepNoRf);
+        if (code === Exit.hit) { f = Fate.hit; break; }
+        if (code === Exit.time) { f = Fate.alive; break; }
+        if (code === Exit.forward) {
+          if (s === scene.stages.length - 1) { f = Fate.detected; break; }
+          s++;
+        } else {
+          if (s === 0) { f = Fate.hit; break; }
+          s--;
+        }
+      }
+      fate[k] = f;
+      if (endTime) endTime[k] = c.t;
+    }
+  }
+
+  private pair(s: number, pop: number, st: QuadrupoleStage, m: number, q: number): AxisPair {
+    const key = s * this.scene.ions.length + pop;
+    let t = this.tables.get(key);
+    if (!t) {
+      // Mathieu a, q of the x axis for this ion (DESIGN.md; q carries the charge's sign).
+      const omega = 2 * Math.PI * st.rf.frequency;
+      const k = q / (m * st.r0 * st.r0 * omega * omega);
+      const a = 8 * k * st.dc, qq = 4 * k * st.rf.amplitude;
+      const M = this.scene.run.stepsPerCycle;
+      t = { x: periodTable(a, qq, M), y: periodTable(-a, -qq, M) };
+      this.tables.set(key, t);
+      if (this.rx1.length < M + 1) {
+        this.rx1 = new Float64Array(M + 1); this.rx2 = new Float64Array(M + 1);
+        this.ry1 = new Float64Array(M + 1); this.ry2 = new Float64Array(M + 1);
+        this.rowStamp = new Float64Array(M + 1);
+      }
+    }
+    return t;
+  }
+
+  /** Check row m of both axes for the current ion (grid point i0 + m·S, offset eps). */
+  private fillRow(tx: PeriodTable, ty: PeriodTable, m: number, i0: number, eps: number, stamp: number): void {
+    let i = i0 + m * tx.sub;
+    const wrap = i >= tx.n;
+    if (wrap) i -= tx.n;
+    const r = this.row;
+    rowAt(tx, i, eps, r);
+    let u1 = r[0], u2 = r[1];
+    if (wrap) { const w1 = u1 * tx.m11 + u2 * tx.m21; u2 = u1 * tx.m12 + u2 * tx.m22; u1 = w1; }
+    this.rx1[m] = u1; this.rx2[m] = u2;
+    rowAt(ty, i, eps, r);
+    u1 = r[0]; u2 = r[1];
+    if (wrap) { const w1 = u1 * ty.m11 + u2 * ty.m21; u2 = u1 * ty.m12 + u2 * ty.m22; u1 = w1; }
+    this.ry1[m] = u1; this.ry2[m] = u2;
+    this.rowStamp[m] = stamp;
+  }
+
+  private quadrupole(s: number, pop: number, st: QuadrupoleStage, c: IonCursor): ExitCode {
+    const { x: tx, y: ty } = this.pair(s, pop, st, c.m, c.q);
+    const M = tx.checks;
+    const omega = 2 * Math.PI * st.rf.frequency;
+    const h = 1 / st.rf.frequency / M; // the direct kernel's step, so the check times coincide
+    const r0 = st.r0, toP = 1 / (r0 * omega);
+    const tEntry = c.t, z = c.z, vz = c.vz;
+    const TWO_PI = 2 * Math.PI;
+    let psi = (omega * (tEntry + c.tau) + st.rf.phase) % TWO_PI;
+    if (psi < 0) psi += TWO_PI;
+    const tExit = vz > 0 ? (st.zEnd - z) / vz : vz < 0 ? (st.zStart - z) / vz : Infinity;
+    const tLeft = this.ctx.maxTime - tEntry;
+    const leaves = tExit <= tLeft;
+    const span = leaves ? tExit : tLeft;
+    const full = Math.floor(span / h);
+    const R2 = this.r2;
+
+    // c = F(ψ)⁻¹ w per axis (det F = 1 up to rounding; the adjugate over det keeps it exact).
+    const i0 = Math.min(tx.n - 1, Math.floor(psi / tx.dTheta));
+    const eps = psi - i0 * tx.dTheta;
+    const ch = Math.cos(0.5 * eps), sh = Math.sin(0.5 * eps), ce = Math.cos(eps), se = Math.sin(eps);
+    const F = this.fm;
+    const X0 = c.x / r0, PX0 = c.vx * toP, Y0 = c.y / r0, PY0 = c.vy * toP;
+    fAtGrid(tx, i0, eps, ch, sh, ce, se, F);
+    let det = F.a11 * F.a22 - F.a12 * F.a21;
+    let cx1 = (F.a22 * X0 - F.a12 * PX0) / det, cx2 = (-F.a21 * X0 + F.a11 * PX0) / det;
+    fAtGrid(ty, i0, eps, ch, sh, ce, se, F);
+    det = F.a11 * F.a22 - F.a12 * F.a21;
+    let cy1 = (F.a22 * Y0 - F.a12 * PY0) / det, cy2 = (-F.a21 * Y0 + F.a11 * PY0) / det;
+
+    let safe = false;
+    if (tx.stable && ty.stable) {
+      const ix = tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2;
+      const iy = ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2;
+      safe = ix * tx.wMax + iy * ty.wMax < R2 * (1 - ENVELOPE_MARGIN);
+    }
+    if (safe) this.envelopeCleared++;
+    else {
+      this.periodLoops++;
+      // Period by period. Bound: U² ≤ rowMax·|d|² per axis; the ion's own check rows (first row
+      // of F(ψ + mΔ), m = 1..M; past 2π, F(θ) = F(θ − 2π)·M0) are computed only when needed.
+      const bx = tx.rowMax * (1 + ENVELOPE_MARGIN), by = ty.rowMax * (1 + ENVELOPE_MARGIN);
+      const stamp = ++this.stamp;
+      let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
+      for (let base = 0; base < full; base += M) {
+        if (bx * (dx1 * dx1 + dx2 * dx2) + by * (dy1 * dy1 + dy2 * dy2) >= R2) {
+          const mmax = Math.min(M, full - base);
+          for (let m = 1; m <= mmax; m++) {
+            if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+            const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+            if (X * X + Y * Y >= R2) {
+              const n = base + m;
+              storeCursor(c, tEntry + n * h, X * r0, Y * r0, z + n * h * vz, c.vx, c.vy, vz, n);
+              return Exit.hit;
+            }
+          }
+        }
+        let w = tx.m11 * dx1 + tx.m12 * dx2; dx2 = tx.m21 * dx1 + tx.m22 * dx2; dx1 = w;
+        w = ty.m11 * dy1 + ty.m12 * dy2; dy2 = ty.m21 * dy1 + ty.m22 * dy2; dy1 = w;
+      }
+    }
+
+    // State at the end of the span: F(θr)·M0^K·c with θ_end = ψ + Ω·span = θr + 2πK.
+    const thEnd = psi + omega * span;
+    let K = Math.floor(thEnd / TWO_PI);
+    let thr = thEnd - K * TWO_PI;
+    if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
+    if (thr < 0) thr = 0;
+    const v = this.v;
+    powerApply(tx, K, cx1, cx2, v); cx1 = v[0]; cx2 = v[1];
+    fAt(tx, thr, F);
+    const X = F.a11 * cx1 + F.a12 * cx2, PX = F.a21 * cx1 + F.a22 * cx2;
+    powerApply(ty, K, cy1, cy2, v); cy1 = v[0]; cy2 = v[1];
+    fAt(ty, thr, F);
+    const Y = F.a11 * cy1 + F.a12 * cy2, PY = F.a21 * cy1 + F.a22 * cy2;
+    const zEnd = leaves ? (vz > 0 ? st.zEnd : st.zStart) : z + span * vz;
+    storeCursor(c, tEntry + span, X * r0, Y * r0, zEnd, PX / toP, PY / toP, vz, full);
+    if (X * X + Y * Y >= R2) return Exit.hit;
+    if (!leaves) return Exit.time;
+    return vz > 0 ? Exit.forward : Exit.backward;
+  }
+}
