@@ -1,9 +1,9 @@
 // 2D figures from synthetic run folders: structural checks (size, ink in the plot area, the series
 // colours present), every kind, PNG and SVG, and the bad-input rules (one-line error, exit 2, no file).
 
-import { existsSync, readdirSync, readFileSync, statSync, truncateSync, mkdirSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, rmSync, statSync, truncateSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import { KINDS, plotRun } from '../../render/plot/index.js';
 import { REGION_FILL, seriesColor } from '../../render/common/palette.js';
 import { main } from '../../cli/main.js';
@@ -21,6 +21,7 @@ beforeAll(async () => {
   await writeSyntheticRun(filterRun, { mz: [502, 219, 1000], perPopulation: 4, pointsPerIon: 1500 });
   await writeSyntheticRun(trapRun, { mz: [502, 219], perPopulation: 3, pointsPerIon: 300, history: true, trap: true });
 });
+afterAll(() => rmSync(root, { recursive: true, force: true }));
 
 async function png(dir: string, kind: string, extra: Record<string, string> = {}, switches: string[] = [], size = { width: 900, height: 600 }) {
   const out = join(root, `${kind}-${Object.values(extra).join('_')}-${switches.join('_')}.png`);
