@@ -46,7 +46,8 @@ function triad(ctx: SKRSContext2D, camera: THREE.Camera, ox: number, oy: number,
   ctx.beginPath(); ctx.arc(ox, oy, 2.5, 0, 2 * Math.PI); ctx.fill();
 }
 
-function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): void {
+/** Draws the legend right-aligned at `right`; returns its width in pixels. */
+function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): number {
   ctx.textBaseline = 'middle';
   ctx.textAlign = 'left';
   ctx.font = `12px ${FONT}`;
@@ -65,12 +66,13 @@ function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): voi
     ctx.fillText(fmt(lg.min), x, y + h + 4);
     ctx.textAlign = 'right';
     ctx.fillText(fmt(lg.max), x + w, y + h + 4);
-    return;
+    return w;
   }
   // Swatches in one row, right-aligned; measured first so nothing overlaps.
   const items = lg.entries.map((e) => ({ e, text: `${e.label} (${e.count})` }));
   const widths = items.map((it) => ctx.measureText(it.text).width + 28);
-  let x = right - widths.reduce((a, b) => a + b, 0);
+  const total = widths.reduce((a, b) => a + b, 0);
+  let x = right - total;
   ctx.fillStyle = cssColor(INK);
   ctx.font = `bold 12px ${FONT}`;
   ctx.fillText(lg.title === 'fate' ? 'ion fate' : lg.title, x, top + 6);
@@ -84,6 +86,18 @@ function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): voi
     ctx.fillText(it.text, x + 21, y);
     x += widths[i];
   });
+  return total;
+}
+
+/** Set the largest font size ≤ px (down to 8) at which `text` fits in `room` pixels; returns it. */
+function fitFont(ctx: SKRSContext2D, text: string, room: number, px: number, weight = ''): number {
+  let size = px;
+  ctx.font = `${weight}${size}px ${FONT}`;
+  while (size > 8 && ctx.measureText(text).width > room) {
+    size -= 0.5;
+    ctx.font = `${weight}${size}px ${FONT}`;
+  }
+  return size;
 }
 
 function fmt(v: number): string {
@@ -99,12 +113,15 @@ export function drawLabels(rgba: Uint8ClampedArray, width: number, height: numbe
   ctx.fillStyle = cssColor(INK);
   ctx.textBaseline = 'alphabetic';
   ctx.textAlign = 'left';
-  ctx.font = `bold 22px ${FONT}`;
+  const legendW = legend(ctx, c.legend, width - 24, 18);
+  ctx.fillStyle = cssColor(INK);
+  ctx.textAlign = 'left';
+  ctx.textBaseline = 'alphabetic';
+  fitFont(ctx, c.title, width - 48 - legendW - 24, 22, 'bold ');
   ctx.fillText(c.title, 24, 36);
   ctx.fillStyle = cssColor(INK_SOFT);
-  ctx.font = `13px ${FONT}`;
+  fitFont(ctx, c.subtitle, width - 48, 13);
   ctx.fillText(c.subtitle, 24, 58);
-  legend(ctx, c.legend, width - 24, 18);
 
   // Scale bar label under the bar's midpoint.
   const [x0, y0, x1, y1] = c.scaleBarPx;
@@ -120,11 +137,16 @@ export function drawLabels(rgba: Uint8ClampedArray, width: number, height: numbe
   ctx.lineWidth = 1;
   ctx.beginPath(); ctx.moveTo(24, height - 34.5); ctx.lineTo(width - 24, height - 34.5); ctx.stroke();
   ctx.fillStyle = cssColor(INK_SOFT);
-  ctx.font = `11px ${FONT}`;
   ctx.textBaseline = 'alphabetic';
+  const room = width - 48;
+  const leftPx = fitFont(ctx, c.footerLeft, room, 11);
   ctx.textAlign = 'left';
   ctx.fillText(c.footerLeft, 24, height - 15);
+  ctx.font = `11px ${FONT}`;
+  const together = ctx.measureText(c.footerLeft).width + ctx.measureText(c.footerRight).width + 24 <= room && leftPx === 11;
+  // Footer notes go on their own line above the rule when they would run into the provenance.
+  fitFont(ctx, c.footerRight, together ? room : room - 120, 11);
   ctx.textAlign = 'right';
-  ctx.fillText(c.footerRight, width - 24, height - 15);
+  ctx.fillText(c.footerRight, width - 24, together ? height - 15 : height - 42);
   return canvas.toBuffer('image/png');
 }

@@ -7,7 +7,7 @@ import { MM, type RodShape } from './electrodes.js';
 import { drawLabels } from './labels.js';
 import { composite } from './raster/composite.js';
 import { Layers } from './raster/layers.js';
-import { rasteriseBatch, rasteriseLineObjects, rasteriseMeshes } from './raster/sceneRaster.js';
+import { markEnds, rasteriseBatch, rasteriseLineObjects, rasteriseMeshes } from './raster/sceneRaster.js';
 import type { RunView } from './runInput.js';
 import { buildScene } from './sceneGraph.js';
 import type { ColorBy } from './trajectoryColors.js';
@@ -46,8 +46,8 @@ function describeStages(run: RunView): string {
   }).join('  →  ');
 }
 
-function openingNote(run: RunView, opened: boolean): string {
-  const notes = ['electrodes semi-transparent over hidden ions'];
+function openingNote(run: RunView, opened: boolean, marked: boolean): string {
+  const notes = marked ? ['dot: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
   if (opened && run.stages.some((s) => s.type === 'quadrupole')) notes.push('rod nearest the viewer drawn as outline');
   if (opened && run.stages.some((s) => s.type === 'trap')) notes.push('trap cut open toward the viewer');
   return notes.join('; ');
@@ -74,6 +74,8 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
   // Dense ensembles are drawn thinner and lighter so the envelope, not single ions, reads.
   const style = nTraj > 300 ? { width: 1.0, opacity: 0.35 } : nTraj > 60 ? { width: 1.3, opacity: 0.6 } : { width: 1.7, opacity: 0.9 };
   const pointsDrawn = rasteriseBatch(built.batch, camera, L, style, scratch);
+  const struck = Uint8Array.from(run.traj.ionRow, (row) => (run.fate[row] === 'hit' ? 1 : 0));
+  const marked = markEnds(built.batch, struck, camera, L, nTraj > 300 ? 1.6 : 2.4, 0.9);
 
   const rgba = new Uint8ClampedArray(4 * width * height);
   composite(L, rgba);
@@ -91,7 +93,7 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
     scaleBarPx: [ax, ay, bx, by],
     camera,
     footerLeft: `iontrail ${run.toolVersion} · seed ${run.seed}${run.sceneFile ? ` · scene ${run.sceneFile}` : ''} · run ${run.dir}`,
-    footerRight: openingNote(run, cutAzimuth !== undefined),
+    footerRight: openingNote(run, cutAzimuth !== undefined, marked > 0),
   });
   return { png, triangles, pointsDrawn, width, height };
 }

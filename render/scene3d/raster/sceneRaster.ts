@@ -134,3 +134,22 @@ export function rasteriseBatch(batch: PolylineBatch, camera: THREE.Camera, L: La
   }
   return drawn;
 }
+
+/** A round dot of radius `r` px at the last point of each trajectory k with mark[k] set (struck ions). */
+export function markEnds(batch: PolylineBatch, mark: Uint8Array, camera: THREE.Camera, L: Layers, r: number, opacity: number): number {
+  const vp = new THREE.Matrix4().multiplyMatrices(camera.projectionMatrix, camera.matrixWorldInverse);
+  const m = vp.elements;
+  const painter = new PolylinePainter(L);
+  const s = new Float64Array(3);
+  const { positions: P, start, rgb } = batch;
+  let n = 0;
+  for (let k = 0; k + 1 < start.length; k++) {
+    if (!mark[k] || start[k + 1] <= start[k]) continue;
+    const i = start[k + 1] - 1;
+    if (!toScreen(m, L.width, L.height, P[3 * i], P[3 * i + 1], P[3 * i + 2], s, 0)) continue;
+    painter.segment(s[0], s[1], s[2], s[0], s[1], s[2], r);
+    painter.flush(rgb[3 * k], rgb[3 * k + 1], rgb[3 * k + 2], opacity);
+    n++;
+  }
+  return n;
+}
