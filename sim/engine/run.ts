@@ -18,6 +18,7 @@ import { fitCooling } from '../analysis/cooling.js';
 import { isTimeOfFlight, tofSummary } from '../analysis/tof-summary.js';
 import { scanSummary, scanTrap } from '../analysis/trap-scan.js';
 import { SceneError } from '../scene/schema.js';
+import { checkCoupledScene, runCoupled } from './run-coupled.js';
 
 export interface RunOptions {
   out: string;
@@ -39,7 +40,7 @@ export function sceneWarnings(scene: Scene): string[] {
   if (hasRf && scene.run.stepsPerCycle < 20) {
     w.push(`run.steps_per_cycle = ${scene.run.stepsPerCycle} is below 20: RK4 phase error grows; results may be inaccurate`);
   }
-  if (scene.spaceCharge) w.push('space_charge is not applied by the per-ion engine in this version; ions move independently');
+  if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');
   if (scene.run.integrator === 'dopri5') w.push('integrator dopri5: the fixed-step RK4 kernels are used with steps_per_cycle; the adaptive path is not wired into the run engine yet');
   return w;
 }
@@ -55,6 +56,7 @@ export function checkStartsInside(scene: Scene): void {
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
   checkStartsInside(scene);
+  if (scene.spaceCharge) checkCoupledScene(scene);
   const started = new Date();
   const t0 = performance.now();
   const plan = planBatches(scene);
@@ -74,11 +76,8 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const arrivalKe: number[][] = scene.ions.map(() => []);
   const onSigint = () => { stop = true; };
   if (opts.handleSigint) process.on('SIGINT', onSigint);
-  try {
-    await runBatches(scene, plan, {
-      workers,
-      stopped: () => stop,
-      onResult: (r: BatchResult) => {
+  let spaceCharge: Record<string, unknown> | undefined;
+  const onResult = (r: BatchResult) => {
         writer.appendIons(r);
         if (r.trajectory && r.trajectory.length > 0) writer.appendTrajectory(splitPoints(r.trajectory));
         hist.merge(r.history);
@@ -97,8 +96,15 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
         }
         done += r.count;
         opts.progress?.(done, plan.total);
-      },
-    });
+  };
+  try {
+    if (scene.spaceCharge) {
+      const c = await runCoupled(scene, workers);
+      spaceCharge = c.figures;
+      onResult(c.result);
+    } else {
+      await runBatches(scene, plan, { workers, stopped: () => stop, onResult });
+    }
   } catch (e) {
     await writer.abort();
     throw e;
@@ -111,7 +117,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
     warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
   }
   const histCols = hist.table();
-  writer.writeHistory(histCols);
+  if (!scene.spaceCharge) writer.writeHistory(histCols);
   const species: SpeciesSummary[] = pops.map((p) => ({
     population: p.population, mz: p.mz, charge: p.charge, total: p.total, detected: p.detected, hit: p.hit, alive: p.alive,
     transmission: p.total > 0 ? p.detected / p.total : 0,
@@ -132,7 +138,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       scene_file: opts.sceneFile ?? null,
       seed: scene.seed,
       command_line: opts.commandLine ?? '',
-      integrator: { method: 'rk4', steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
+      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : 'rk4', steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
       workers,
       started_at: started.toISOString(),
       batch_size: plan.size,
@@ -148,10 +154,12 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       final_rms_radius_m: histCols.rms_radius_m[lastK],
       final_rms_z_m: histCols.rms_z_m[lastK],
       initial_mean_ke_ev: fit.initial_mean_ke_ev,
+      plateau_mean_ke_ev: fit.plateau_mean_ke_ev,
       collisions_per_ion: totals.total > 0 ? pops.reduce((a, p) => a + p.collisions, 0) / totals.total : 0,
     };
     if (fit.tau_s === null && !scan) warnings.push('cooling: mean kinetic energy does not fall over the run; no time constant fitted');
   }
+  if (spaceCharge) summary.space_charge = spaceCharge;
   if (tof) summary.tof = tofSummary(scene, arrivals, arrivalKe);
   if (scan) summary.scan = scanSummary(scene, arrivals);
   await writer.finish(summary);
