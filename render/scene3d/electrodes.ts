@@ -223,6 +223,39 @@ function gridLines(a: number, z: number, color: Rgb, name: string): THREE.LineSe
   return line;
 }
 
+/** Ring circles of radius a at z (mm). */
+function rings(a: number, zs: readonly number[], color: Rgb, name: string): THREE.LineSegments {
+  const pts: number[] = [];
+  const N = 72;
+  for (const z of zs) {
+    for (let i = 0; i < N; i++) {
+      const p = (2 * Math.PI * i) / N, q = (2 * Math.PI * (i + 1)) / N;
+      pts.push(a * Math.cos(p), a * Math.sin(p), z, a * Math.cos(q), a * Math.sin(q), z);
+    }
+  }
+  const geo = new THREE.BufferGeometry();
+  geo.setAttribute('position', new THREE.Float32BufferAttribute(pts, 3));
+  const line = new THREE.LineSegments(geo, new THREE.LineBasicMaterial({ color: new THREE.Color(...color), transparent: true, opacity: 0.85 }));
+  line.name = name;
+  return line;
+}
+
+/**
+ * Reflectron: a stack of guard rings setting the retarding field, an entrance grid and, when the
+ * stage is closed, a back plate (drawn as a grid). Ring pitch about a tenth of the length.
+ */
+function reflectron(s: PlacedStage, a: number, i: number): THREE.Group {
+  const z0 = s.zStart * MM, z1 = s.zEnd * MM;
+  const n = 12;
+  const grp = new THREE.Group();
+  grp.name = `reflectron ${i}`;
+  grp.add(gridLines(a, z0, ELECTRODE_COLORS.grid, `reflectron entrance grid ${i}`));
+  grp.add(rings(a, Array.from({ length: n - 1 }, (_, k) => z0 + ((k + 1) * (z1 - z0)) / n), ELECTRODE_COLORS.ring, `reflectron rings ${i}`));
+  if (s.closed) grp.add(gridLines(a, z1, ELECTRODE_COLORS.cap, `reflectron back plate ${i}`));
+  grp.add(tubeOutline(a, z0, z1, ELECTRODE_COLORS.outline, `reflectron outline ${i}`));
+  return grp;
+}
+
 /** Outline of a tube of radius a between z0 and z1 (mm): end circles and four lengthwise lines. */
 function tubeOutline(a: number, z0: number, z1: number, color: Rgb, name: string): THREE.LineSegments {
   const pts: number[] = [];
@@ -244,10 +277,13 @@ function tubeOutline(a: number, z0: number, z1: number, color: Rgb, name: string
   return line;
 }
 
-/** Radius (mm) used to outline stages whose aperture is infinite: the widest electrode radius seen. */
+/** Radius (mm) to outline stages whose aperture is infinite: the widest aperture or electrode radius seen. */
 export function defaultTubeRadius(stages: readonly PlacedStage[]): number {
   let r = 0;
-  for (const s of stages) if (s.r0) r = Math.max(r, s.r0 * MM * (s.type === 'trap' ? 1 : 1.5));
+  for (const s of stages) {
+    if (s.r0) r = Math.max(r, s.r0 * MM * (s.type === 'trap' ? 1 : 1.5));
+    if (s.aperture) r = Math.max(r, s.aperture * MM);
+  }
   return r > 0 ? r : 5;
 }
 
@@ -260,6 +296,7 @@ export function buildElectrodes(stages: readonly PlacedStage[], opts: ElectrodeO
     if (s.type === 'quadrupole') root.add(quadrupole(s, opts));
     else if (s.type === 'trap') root.add(trap(s, opts));
     else if (s.type === 'drift') root.add(tubeOutline(s.aperture ? s.aperture * MM : tubeR, z0, z1, ELECTRODE_COLORS.outline, `drift tube ${i}`));
+    else if (s.role === 'reflectron') root.add(reflectron(s, s.aperture ? s.aperture * MM : tubeR, i));
     else {
       const a = s.aperture ? s.aperture * MM : tubeR;
       const grp = new THREE.Group();

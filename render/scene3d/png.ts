@@ -34,6 +34,8 @@ export interface PngResult {
 
 export const MARGINS = { top: 96, right: 40, bottom: 64, left: 40 };
 
+const volts = (v: number) => (Math.abs(v) >= 1000 ? `${(v / 1000).toPrecision(3)} kV` : `${v.toPrecision(3)} V`);
+
 function describeStages(run: RunView): string {
   return run.stages.map((s) => {
     const L = ((s.zEnd - s.zStart) * MM).toFixed(1);
@@ -41,7 +43,7 @@ function describeStages(run: RunView): string {
       case 'quadrupole': return `quadrupole ${L} mm, r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm`;
       case 'trap': return `RF trap r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm, z0 ${((s.z0 ?? 0) * MM).toFixed(2)} mm`;
       case 'drift': return `drift ${L} mm`;
-      case 'accelerate': return `acceleration ${L} mm${s.voltage !== undefined ? `, ${s.voltage.toFixed(0)} V` : ''}`;
+      case 'accelerate': return `${s.role === 'reflectron' ? 'reflectron' : 'acceleration'} ${L} mm${s.voltage !== undefined ? `, ${volts(s.voltage)}` : ''}`;
     }
   }).join('  →  ');
 }

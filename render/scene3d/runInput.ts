@@ -18,6 +18,9 @@ export interface PlacedStage {
   /** Tube or cap-hole radius, m; undefined when the scene gives none (infinite). */
   aperture?: number;
   voltage?: number;
+  /** For 'accelerate': 'gap' (two grids) or 'reflectron' (ring stack, closed end when `closed`). */
+  role?: string;
+  closed?: boolean;
 }
 
 export interface TrajectorySet {
@@ -75,6 +78,8 @@ export function placeStages(raw: unknown, where: string): PlacedStage[] {
       r0: finiteOrUndefined(s.r0), z0,
       aperture: finiteOrUndefined(s.aperture),
       voltage: typeof s.voltage === 'number' ? s.voltage : undefined,
+      role: typeof s.role === 'string' ? s.role : undefined,
+      closed: s.closed === true ? true : undefined,
     });
     z = zEnd;
   });
