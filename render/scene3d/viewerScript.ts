@@ -89,7 +89,8 @@ function showTime(f) {
     heads[3 * k] = P[3 * h]; heads[3 * k + 1] = P[3 * h + 1]; heads[3 * k + 2] = P[3 * h + 2];
   }
   headGeo.attributes.position.needsUpdate = true;
-  label.textContent = 't = ' + (t * 1e6).toFixed(t * 1e6 < 10 ? 3 : 2) + ' µs';
+  const [k, unit] = tMax >= 1e-3 ? [1e3, 'ms'] : tMax >= 1e-6 ? [1e6, 'µs'] : [1e9, 'ns'];
+  label.textContent = 't = ' + (t * k).toFixed(3) + ' ' + unit;
 }
 slider.addEventListener('input', () => showTime(slider.value / 1000));
 
@@ -101,8 +102,22 @@ controls.target.copy(center);
 const presets = { iso: [-0.78, 0.52, -0.5], axial: [0, 0, 1], side: [-1, 0, 0] };
 function preset(name) {
   const d = new THREE.Vector3(...presets[name]).normalize();
-  camera.position.copy(center).addScaledVector(d, 0.6 * radius / Math.tan(THREE.MathUtils.degToRad(15)));
   camera.up.set(0, 1, 0);
+  // Start from the bounding-sphere distance, then pull in until the box corners fill 90 % of the view.
+  let dist = radius / Math.sin(THREE.MathUtils.degToRad(15));
+  const p = new THREE.Vector3();
+  for (let it = 0; it < 4; it++) {
+    camera.position.copy(center).addScaledVector(d, dist);
+    camera.lookAt(center);
+    camera.updateMatrixWorld(true);
+    let ext = 0;
+    for (let i = 0; i < 8; i++) {
+      p.set(i & 1 ? box[3] : box[0], i & 2 ? box[4] : box[1], i & 4 ? box[5] : box[2]).project(camera);
+      ext = Math.max(ext, Math.abs(p.x), Math.abs(p.y));
+    }
+    dist *= Math.max(0.2, ext / 0.9);
+  }
+  camera.position.copy(center).addScaledVector(d, dist);
   controls.update();
 }
 for (const b of document.querySelectorAll('[data-camera]')) b.addEventListener('click', () => preset(b.dataset.camera));
