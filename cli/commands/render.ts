@@ -22,7 +22,8 @@ const HELP = `usage: iontrail render RUN_DIR -o FILE.png|.glb|.html [options]
   --rods SHAPE       hyperbolic (default) or cylindrical
   --size WxH         PNG size in pixels (default 1600x900)
   --ions LIST        ions to draw, e.g. 0-99,250 (default all)
-  --every N          keep every N-th recorded point of each ion (default 1)
+  --every N          keep every N-th recorded point of each ion and its last (default 1,
+                     or thinned to about 4e6 points when more were recorded)
   --json             print what was written as JSON on stdout
 `;
 
@@ -69,8 +70,8 @@ export async function run(argv: string[]): Promise<number> {
     width = +m[1]; height = +m[2];
   }
   const everyText = flag(args, 'every');
-  const every = everyText === undefined ? 1 : Number(everyText);
-  if (!Number.isInteger(every) || every < 1) throw new UsageError(`--every '${everyText}' must be a whole number ≥ 1`);
+  const every = everyText === undefined ? undefined : Number(everyText);
+  if (every !== undefined && (!Number.isInteger(every) || every < 1)) throw new UsageError(`--every '${everyText}' must be a whole number ≥ 1`);
   const ionsText = flag(args, 'ions');
   const ions = ionsText !== undefined ? parseIonList(ionsText) : undefined;
   // Fail on a missing output folder before the (possibly long) read and render.

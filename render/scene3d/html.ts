@@ -73,7 +73,7 @@ footer{padding:4px 18px 8px;color:#6b6e75;font-size:11px}
 .ramp{display:inline-block;width:140px;height:9px;vertical-align:middle;margin:0 6px}
 .lt{font-weight:bold}
 </style></head><body>
-<header><div><h1>${esc(run.sceneName)}</h1><div class="sub">${nIons} ions, ${t.length.toLocaleString('en-US')} points · units mm · scale bar ${built.scaleBarMm} mm · axes x red, y green, z blue</div></div>
+<header><div><h1>${esc(run.sceneName)}</h1><div class="sub">${nIons} ions, ${t.length.toLocaleString('en-US')} points${run.every > 1 ? ` (every ${run.every}th)` : ''} · units mm · scale bar ${built.scaleBarMm} mm · axes x red, y green, z blue</div></div>
 <div>${legendHtml(built.legend)}</div></header>
 <div id="view"></div>
 <div class="bar"><button id="play">play</button><input id="time" type="range" min="0" max="1000" value="1000" aria-label="time"><span id="time-label"></span>

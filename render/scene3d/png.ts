@@ -89,7 +89,7 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
   const nPoints = run.traj.t.length;
   const png = drawLabels(rgba, width, height, {
     title: run.sceneName,
-    subtitle: `${describeStages(run)}   ·   ${nTraj} ion${nTraj === 1 ? '' : 's'}, ${nPoints.toLocaleString('en-US')} points   ·   camera ${opts.camera}${run.stages.some((s) => s.type === 'quadrupole') ? `, ${opts.rods} rods` : ''}`,
+    subtitle: `${describeStages(run)}   ·   ${nTraj} ion${nTraj === 1 ? '' : 's'}, ${nPoints.toLocaleString('en-US')} points${run.every > 1 ? ` (every ${run.every}th${run.autoThinned ? ', thinned automatically' : ''})` : ''}   ·   camera ${opts.camera}${run.stages.some((s) => s.type === 'quadrupole') ? `, ${opts.rods} rods` : ''}`,
     legend: built.legend,
     scaleBarText: `${built.scaleBarMm} mm${opts.camera === 'iso' ? ' (at bar depth)' : ''}`,
     scaleBarPx: [ax, ay, bx, by],

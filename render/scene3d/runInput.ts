@@ -3,7 +3,7 @@
 // here; conversion to scene millimetres happens where geometry is built.
 
 import { join } from 'node:path';
-import { ionSegments, readRunFolder, readTrajectories, type RunSummary } from '../../sim/runfolder/index.js';
+import { estimateTrajectoryRows, readRunFolder, trajectoryBatches, type RunSummary } from '../../sim/runfolder/index.js';
 import { RenderError } from './errors.js';
 
 export type StageKind = 'quadrupole' | 'drift' | 'accelerate' | 'trap';
@@ -45,7 +45,14 @@ export interface RunView {
   mz: Float64Array;
   fate: string[];
   traj: TrajectorySet;
+  /** Every n-th recorded point was kept (plus each ion's last). */
+  every: number;
+  /** True when `every` was chosen here to stay under MAX_3D_POINTS, not asked for. */
+  autoThinned: boolean;
 }
+
+/** Points the 3D outputs read at most before thinning on their own (a PNG of 4e6 points takes seconds). */
+export const MAX_3D_POINTS = 4_000_000;
 
 export interface RunViewOptions {
   /** Ion ids to keep (default all). */
@@ -98,33 +105,13 @@ export async function readRunView(dir: string, opts: RunViewOptions = {}): Promi
   const rowOf = new Map<number, number>();
   ionId.forEach((id, row) => rowOf.set(id, row));
 
-  const every = Math.max(1, Math.floor(opts.everyNth ?? 1));
-  const cols = await readTrajectories(dir, { ions: opts.ions });
-  const segs = ionSegments(cols.ion);
-  // Keep every n-th point and always the last one, so a struck ion still ends on the electrode.
-  let points = 0;
-  for (const s of segs) {
-    const len = s.end - s.start;
-    points += Math.ceil(len / every) + ((len - 1) % every !== 0 ? 1 : 0);
-  }
-  const traj: TrajectorySet = {
-    ionRow: new Int32Array(segs.length), start: new Int32Array(segs.length + 1),
-    t: new Float64Array(points), x: new Float64Array(points), y: new Float64Array(points), z: new Float64Array(points),
-  };
-  let p = 0;
-  segs.forEach((s, k) => {
-    const row = rowOf.get(s.ion);
-    if (row === undefined) throw new RenderError(`${join(dir, 'trajectories.arrow')}: ion ${s.ion} is not in ions.arrow`);
-    traj.ionRow[k] = row;
-    traj.start[k] = p;
-    for (let q = s.start; q < s.end; q++) {
-      if ((q - s.start) % every !== 0 && q !== s.end - 1) continue;
-      traj.t[p] = cols.t[q]; traj.x[p] = cols.x[q]; traj.y[p] = cols.y[q]; traj.z[p] = cols.z[q];
-      p++;
-    }
-  });
-  traj.start[segs.length] = p;
-
+  // Thin automatically only when no --every was given and the selection would exceed the cap.
+  const nIons = Math.max(1, ionId.length);
+  const share = opts.ions ? Math.min(1, new Set(opts.ions).size / nIons) : 1;
+  const estimate = estimateTrajectoryRows(dir) * share;
+  const every = opts.everyNth !== undefined ? Math.max(1, Math.floor(opts.everyNth))
+    : estimate > MAX_3D_POINTS ? Math.ceil(estimate / MAX_3D_POINTS) : 1;
+  const traj = await readThinned(dir, opts.ions ? new Set(opts.ions) : null, every, rowOf);
   return {
     dir,
     sceneName: String(summary.scene_name ?? scene.name ?? 'unnamed scene'),
@@ -132,5 +119,57 @@ export async function readRunView(dir: string, opts: RunViewOptions = {}): Promi
     seed: String(prov.seed ?? scene.seed ?? '?'),
     toolVersion: String(prov.tool_version ?? (summary as Record<string, unknown>).tool_version ?? '?'),
     stages, ionId, mz, fate, traj,
+    every, autoThinned: opts.everyNth === undefined && every > 1,
   };
+}
+
+/** Growable Float64 column (amortised doubling), so a streamed read never holds the whole file. */
+class Column {
+  a = new Float64Array(1 << 14);
+  n = 0;
+  push(v: number): void {
+    if (this.n === this.a.length) { const b = new Float64Array(2 * this.a.length); b.set(this.a); this.a = b; }
+    this.a[this.n++] = v;
+  }
+  done(): Float64Array { return this.a.slice(0, this.n); }
+}
+
+/**
+ * Stream trajectories.arrow batch by batch, keeping the chosen ions, every n-th point of each and
+ * always its last point (so a struck ion still ends on the electrode).
+ */
+async function readThinned(dir: string, keep: Set<number> | null, every: number, rowOf: Map<number, number>): Promise<TrajectorySet> {
+  const t = new Column(), x = new Column(), y = new Column(), z = new Column();
+  const rows: number[] = [], starts: number[] = [];
+  let cur = -1, k = 0, wanted = false;
+  // The newest point of the current ion that was skipped; written if it turns out to be its last.
+  let pend = false, pt = 0, px = 0, py = 0, pz = 0;
+  const closeIon = () => { if (pend) { t.push(pt); x.push(px); y.push(py); z.push(pz); pend = false; } };
+  for await (const b of trajectoryBatches(dir)) {
+    const n = b.ion.length;
+    for (let r = 0; r < n; r++) {
+      const id = b.ion[r];
+      if (id !== cur) {
+        if (wanted) closeIon();
+        cur = id; k = 0;
+        wanted = keep === null || keep.has(id);
+        if (wanted) {
+          const row = rowOf.get(id);
+          if (row === undefined) throw new RenderError(`${join(dir, 'trajectories.arrow')}: ion ${id} is not in ions.arrow`);
+          rows.push(row);
+          starts.push(t.n);
+        }
+      }
+      if (!wanted) continue;
+      if (k++ % every === 0) {
+        t.push(b.t[r]); x.push(b.x[r]); y.push(b.y[r]); z.push(b.z[r]);
+        pend = false;
+      } else {
+        pend = true; pt = b.t[r]; px = b.x[r]; py = b.y[r]; pz = b.z[r];
+      }
+    }
+  }
+  if (wanted) closeIon();
+  starts.push(t.n);
+  return { ionRow: Int32Array.from(rows), start: Int32Array.from(starts), t: t.done(), x: x.done(), y: y.done(), z: z.done() };
 }
