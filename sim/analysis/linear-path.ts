@@ -10,16 +10,17 @@
 //  1. both axes stable and the Courant–Snyder envelope √(I·Wmax) per axis keeps x² + y² below
 //     r0² at every phase: the ion survives the stage whatever its length (no period is visited);
 //  2. otherwise period by period: d_k = M0^k c by one 2×2 product per axis; the checks of period
-//     k are skipped while rowMax·|d_k|² summed over the axes stays below r0² (Cauchy–Schwarz);
+//     k are skipped while the ellipse bound d·E·d summed over the axes stays below r0²;
 //  3. else the M checks of that period from the ion's own rows of F (computed on first use).
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
 
 import type { DriftStage, QuadrupoleStage, Scene } from '../scene/types.js';
 import { allocateBatch, Fate } from '../engine/batch.js';
 import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../engine/context.js';
-import { populationOffsets, startIon } from '../engine/start.js';
+import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
+import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
 import { trackUniform } from '../engine/kernels/uniform.js';
-import { fAt, fAtGrid, mat2, periodTable, powerApply, rowAt, type PeriodTable } from './transfer-matrix.js';
+import { fAt, fAtGrid, mat2, periodTable, powerApply, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
 
 /**
  * Safety margin of tier 1: Wmax is the largest W on the grid (2π/(M·S) apart); between grid points
@@ -68,10 +69,65 @@ export interface LinearOptions {
 
 interface AxisPair { x: PeriodTable; y: PeriodTable }
 
+/**
+ * Every ion's start state as startIon gives it, kept so that later points of a sweep can reuse
+ * the draws. startIon reads the seed, the populations, the stage z ranges and the reference RF
+ * frequency (for the start offset τ); when those agree a point reuses the states, and when only
+ * a population's m/z differs its velocities scale by √(m_cached/m) (same kinetic energy and
+ * direction draws: ½mv² fixed). test/sweep checks the reuse against fresh startIon calls.
+ */
+export class StartStates {
+  readonly signature: string;
+  readonly count: number;
+  readonly x: Float64Array; readonly y: Float64Array; readonly z: Float64Array;
+  readonly vx: Float64Array; readonly vy: Float64Array; readonly vz: Float64Array;
+  readonly tau: Float64Array; readonly stage: Int32Array;
+  /** Mass per population when the states were drawn, kg. */
+  readonly mass: number[];
+
+  constructor(scene: Scene) {
+    this.signature = startSignature(scene);
+    const off = populationOffsets(scene);
+    const n = off[off.length - 1];
+    this.count = n;
+    const f = () => new Float64Array(n);
+    this.x = f(); this.y = f(); this.z = f(); this.vx = f(); this.vy = f(); this.vz = f(); this.tau = f();
+    this.stage = new Int32Array(n);
+    this.mass = scene.ions.map((p) => ionMassKg(p.mz, p.charge));
+    const b = allocateBatch(1);
+    let pop = 0;
+    for (let ion = 0; ion < n; ion++) {
+      while (ion >= off[pop + 1]) pop++;
+      this.tau[ion] = startIon(scene, b, 0, ion, pop, scene.ions[pop]);
+      this.x[ion] = b.x[0]; this.y[ion] = b.y[0]; this.z[ion] = b.z[0];
+      this.vx[ion] = b.vx[0]; this.vy[ion] = b.vy[0]; this.vz[ion] = b.vz[0];
+      this.stage[ion] = b.stage[0];
+    }
+  }
+
+  /** Whether these states serve `scene` (up to the m/z of its populations). */
+  serves(scene: Scene): boolean {
+    return startSignature(scene) === this.signature;
+  }
+}
+
+/** What startIon reads, except the populations' m/z. */
+function startSignature(scene: Scene): string {
+  return JSON.stringify({
+    seed: scene.seed,
+    ions: scene.ions.map((p) => ({ ...p, mz: 0 })),
+    stages: scene.stages.map((s) => [s.zStart, s.zEnd]),
+    omega: referenceOmega(scene),
+  });
+}
+
 /** Fates of ions by the transfer-matrix path; one tracker serves one scene. */
 export class LinearTracker {
   private readonly tables = new Map<number, AxisPair>();
   private readonly r2: number;
+  /** Whether a stage after (before) stage s looks at the transverse state. */
+  private readonly needAfter: boolean[];
+  private readonly needBefore: boolean[];
   private readonly offsets: number[];
   private readonly b = allocateBatch(1);
   private readonly ctx: StepContext;
@@ -94,22 +150,40 @@ export class LinearTracker {
     const s = opts.radiusScale ?? 1;
     this.r2 = s * s;
     this.offsets = populationOffsets(scene);
+    const looks = scene.stages.map((st) => st.type === 'quadrupole' || Number.isFinite((st as DriftStage).aperture));
+    this.needAfter = looks.map((_, s) => looks.slice(s + 1).some(Boolean));
+    this.needBefore = looks.map((_, s) => looks.slice(0, s).some(Boolean));
     this.ctx = { batch: this.b, maxTime: scene.run.maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null };
   }
 
-  /** Fate codes (Fate.detected / hit / alive) of global ions start..start+count−1 into `fate`. */
-  track(start: number, count: number, fate: Int8Array, endTime?: Float64Array): void {
+  /**
+   * Fate codes (Fate.detected / hit / alive) of global ions start..start+count−1 into `fate`.
+   * With `starts` (drawn for this scene or one it serves, see StartStates) the draws are reused.
+   */
+  track(start: number, count: number, fate: Int8Array, endTime?: Float64Array, starts?: StartStates): void {
     const scene = this.scene, b = this.b, c = this.c;
+    const cached = starts !== undefined && starts.serves(scene) ? starts : null;
+    const scale = cached ? scene.ions.map((p, k) => Math.sqrt(cached.mass[k] / ionMassKg(p.mz, p.charge))) : [];
     let pop = 0;
     while (start >= this.offsets[pop + 1]) pop++;
     for (let k = 0; k < count; k++) {
       const ion = start + k;
       while (ion >= this.offsets[pop + 1]) pop++;
-      c.tau = startIon(scene, b, 0, ion, pop, scene.ions[pop]);
-      c.ion = ion; c.slot = 0; c.m = b.mass[0]; c.q = b.charge[0];
-      c.t = 0; c.x = b.x[0]; c.y = b.y[0]; c.z = b.z[0]; c.vx = b.vx[0]; c.vy = b.vy[0]; c.vz = b.vz[0];
-      c.steps = 0;
-      let s = b.stage[0];
+      let s: number;
+      if (cached) {
+        const p = scene.ions[pop], f = scale[pop];
+        c.tau = cached.tau[ion];
+        c.m = ionMassKg(p.mz, p.charge); c.q = p.charge * ELEMENTARY_CHARGE;
+        c.x = cached.x[ion]; c.y = cached.y[ion]; c.z = cached.z[ion];
+        c.vx = cached.vx[ion] * f; c.vy = cached.vy[ion] * f; c.vz = cached.vz[ion] * f;
+        s = cached.stage[ion];
+      } else {
+        c.tau = startIon(scene, b, 0, ion, pop, scene.ions[pop]);
+        c.m = b.mass[0]; c.q = b.charge[0];
+        c.x = b.x[0]; c.y = b.y[0]; c.z = b.z[0]; c.vx = b.vx[0]; c.vy = b.vy[0]; c.vz = b.vz[0];
+        s = b.stage[0];
+      }
+      c.ion = ion; c.slot = 0; c.t = 0; c.steps = 0;
       let f: number = Fate.alive;
       // Stage to stage exactly as the engine's trackBatch does.
       for (;;) {
@@ -189,7 +263,7 @@ export class LinearTracker {
     // c = F(ψ)⁻¹ w per axis (det F = 1 up to rounding; the adjugate over det keeps it exact).
     const i0 = Math.min(tx.n - 1, Math.floor(psi / tx.dTheta));
     const eps = psi - i0 * tx.dTheta;
-    const ch = Math.cos(0.5 * eps), sh = Math.sin(0.5 * eps), ce = Math.cos(eps), se = Math.sin(eps);
+    const { ch, sh, ce, se } = smallAngle(eps);
     const F = this.fm;
     const X0 = c.x / r0, PX0 = c.vx * toP, Y0 = c.y / r0, PY0 = c.vy * toP;
     fAtGrid(tx, i0, eps, ch, sh, ce, se, F);
@@ -208,13 +282,23 @@ export class LinearTracker {
     if (safe) this.envelopeCleared++;
     else {
       this.periodLoops++;
-      // Period by period. Bound: U² ≤ rowMax·|d|² per axis; the ion's own check rows (first row
-      // of F(ψ + mΔ), m = 1..M; past 2π, F(θ) = F(θ − 2π)·M0) are computed only when needed.
-      const bx = tx.rowMax * (1 + ENVELOPE_MARGIN), by = ty.rowMax * (1 + ENVELOPE_MARGIN);
+      // Period by period. Bound per axis: U² ≤ d·E·d (the row curve's ellipse, transfer-matrix.ts);
+      // the ion's own check rows (first row of F(ψ + mΔ), m = 1..M; past 2π, F(θ) = F(θ − 2π)·M0)
+      // are computed only when a period's bound reaches r0².
+      const g = 1 + ENVELOPE_MARGIN;
+      const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
+      const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
       const stamp = ++this.stamp;
+      // Checks past 2π within period k use the rows times M0, i.e. d_{k+1}: bound with both.
       let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
+      let nx = ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2;
+      let ny = ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2;
       for (let base = 0; base < full; base += M) {
-        if (bx * (dx1 * dx1 + dx2 * dx2) + by * (dy1 * dy1 + dy2 * dy2) >= R2) {
+        const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
+        const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
+        const nxn = ax11 * ex1 * ex1 + ax12 * ex1 * ex2 + ax22 * ex2 * ex2;
+        const nyn = ay11 * ey1 * ey1 + ay12 * ey1 * ey2 + ay22 * ey2 * ey2;
+        if ((nx > nxn ? nx : nxn) + (ny > nyn ? ny : nyn) >= R2) {
           const mmax = Math.min(M, full - base);
           for (let m = 1; m <= mmax; m++) {
             if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
@@ -226,11 +310,17 @@ export class LinearTracker {
             }
           }
         }
-        let w = tx.m11 * dx1 + tx.m12 * dx2; dx2 = tx.m21 * dx1 + tx.m22 * dx2; dx1 = w;
-        w = ty.m11 * dy1 + ty.m12 * dy2; dy2 = ty.m21 * dy1 + ty.m22 * dy2; dy1 = w;
+        dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
       }
     }
 
+    const zEnd = leaves ? (vz > 0 ? st.zEnd : st.zStart) : z + span * vz;
+    // Tier 1 cannot hit at the exit either; when no later stage looks at x, y (no RF stage, no
+    // finite aperture downstream; vz is constant in a linear scene) the exit state is not needed.
+    if (safe && leaves && !(vz > 0 ? this.needAfter[s] : this.needBefore[s])) {
+      storeCursor(c, tEntry + span, c.x, c.y, zEnd, c.vx, c.vy, vz, full);
+      return vz > 0 ? Exit.forward : Exit.backward;
+    }
     // State at the end of the span: F(θr)·M0^K·c with θ_end = ψ + Ω·span = θr + 2πK.
     const thEnd = psi + omega * span;
     let K = Math.floor(thEnd / TWO_PI);
@@ -244,7 +334,6 @@ export class LinearTracker {
     powerApply(ty, K, cy1, cy2, v); cy1 = v[0]; cy2 = v[1];
     fAt(ty, thr, F);
     const Y = F.a11 * cy1 + F.a12 * cy2, PY = F.a21 * cy1 + F.a22 * cy2;
-    const zEnd = leaves ? (vz > 0 ? st.zEnd : st.zStart) : z + span * vz;
     storeCursor(c, tEntry + span, X * r0, Y * r0, zEnd, PX / toP, PY / toP, vz, full);
     if (X * X + Y * Y >= R2) return Exit.hit;
     if (!leaves) return Exit.time;

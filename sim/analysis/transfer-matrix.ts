@@ -38,8 +38,15 @@ export interface PeriodTable {
   beta: number; alpha: number; gamma: number;
   /** Largest W(θ_i) over the grid (stable only; else Infinity). */
   wMax: number;
-  /** Largest F11² + F12² over the grid: bounds U² ≤ rowMax·|c|² at every phase (Cauchy–Schwarz). */
+  /** Largest F11² + F12² over the grid. */
   rowMax: number;
+  /**
+   * An ellipse holding the curve of first rows r(θ) = (F11, F12) over the period: r·E⁻¹·r ≤ 1 on
+   * the grid, E = ell·(second-moment matrix of the curve). Its support function gives, for any
+   * phase-0 state d, U(θ)² = (r·d)² ≤ d·E·d = e11 d1² + 2 e12 d1 d2 + e22 d2² (Cauchy–Schwarz in
+   * the E-metric), a bound far tighter than rowMax·|d|² when the curve is elongated.
+   */
+  e11: number; e12: number; e22: number;
 }
 
 /** RK4 sub-steps per grid interval when building the table. */
@@ -47,9 +54,11 @@ const INNER = 4;
 
 /**
  * Table of one axis. `a`, `q` are this axis's Mathieu parameters (y: −a, −q); `checks` = M.
- * Cost: M·S·INNER RK4 steps on two solutions (≈ 5k for M = 40, S = 16).
+ * The default S keeps the grid at ≥ 640 points per period (spacing ≤ 2π/640, which the error
+ * bounds of rowAt, fAtGrid and smallAngle assume). Cost: M·S·INNER RK4 steps on two solutions
+ * (≈ 2.6k for M = 40).
  */
-export function periodTable(a: number, q: number, checks: number, sub = 16): PeriodTable {
+export function periodTable(a: number, q: number, checks: number, sub = Math.max(16, Math.ceil(640 / checks))): PeriodTable {
   const n = checks * sub;
   const dTheta = (2 * Math.PI) / n;
   const w0 = a / 4, w1 = q / 2;
@@ -75,7 +84,19 @@ export function periodTable(a: number, q: number, checks: number, sub = 16): Per
   const half = 0.5 * (m11 + m22);
   const stable = Math.abs(half) < 1;
   let beta = NaN, alpha = NaN, gamma = NaN, wMax = Infinity, rowMax = 0;
-  for (let i = 0; i <= n; i++) rowMax = Math.max(rowMax, f11[i] * f11[i] + f12[i] * f12[i]);
+  let s11 = 0, s12 = 0, s22 = 0;
+  for (let i = 0; i < n; i++) {
+    rowMax = Math.max(rowMax, f11[i] * f11[i] + f12[i] * f12[i]);
+    s11 += f11[i] * f11[i]; s12 += f11[i] * f12[i]; s22 += f12[i] * f12[i];
+  }
+  // Scale the moment ellipse until it holds every grid point: ell = max r·S⁻¹·r.
+  const sd = s11 * s22 - s12 * s12;
+  let ell = 0;
+  for (let i = 0; i <= n; i++) {
+    const v = (s22 * f11[i] * f11[i] - 2 * s12 * f11[i] * f12[i] + s11 * f12[i] * f12[i]) / sd;
+    if (v > ell) ell = v;
+  }
+  const e11 = ell * s11, e12 = ell * s12, e22 = ell * s22;
   if (stable) {
     // M0 = I cos μ + J sin μ, J = [[α, β], [−γ, −α]]; the sign of sin μ makes β > 0.
     const sinMu = Math.sign(m12) * Math.sqrt(Math.max(0, 1 - half * half));
@@ -88,7 +109,7 @@ export function periodTable(a: number, q: number, checks: number, sub = 16): Per
       if (w > wMax) wMax = w;
     }
   }
-  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax, rowMax };
+  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax, rowMax, e11, e12, e22 };
 }
 
 // The position result of rk4Step (the slope is returned): avoids allocating a pair per call.
@@ -152,7 +173,23 @@ export function fAt(t: PeriodTable, theta: number, out: Mat2): Mat2 {
   if (i >= t.n) i = t.n - 1;
   if (i < 0) i = 0;
   const eps = theta - i * t.dTheta;
-  return fAtGrid(t, i, eps, Math.cos(0.5 * eps), Math.sin(0.5 * eps), Math.cos(eps), Math.sin(eps), out);
+  const e = smallAngle(eps);
+  return fAtGrid(t, i, eps, e.ch, e.sh, e.ce, e.se, out);
+}
+
+const SA = { ch: 1, sh: 0, ce: 1, se: 0 };
+
+/**
+ * cos and sin of ε and ε/2 for 0 ≤ ε ≤ 2π/640 by their Taylor series to ε⁴ and ε⁵: the first
+ * omitted terms, ε⁶/720 and ε⁷/5040, are below 1.3e-15 and 2e-18 (double rounding level).
+ */
+export function smallAngle(eps: number): { ch: number; sh: number; ce: number; se: number } {
+  const e2 = eps * eps, h = 0.5 * eps, h2 = h * h;
+  SA.ce = 1 - 0.5 * e2 * (1 - e2 / 12);
+  SA.se = eps * (1 - (e2 / 6) * (1 - e2 / 20));
+  SA.ch = 1 - 0.5 * h2 * (1 - h2 / 12);
+  SA.sh = h * (1 - (h2 / 6) * (1 - h2 / 20));
+  return SA;
 }
 
 /** M0^k applied to the vector (v1, v2) by repeated squaring (O(log k) products); result in out[0..1]. */

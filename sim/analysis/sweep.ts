@@ -1,0 +1,409 @@
+// Sweeps: transmission of a scene over one or two varied keys (m/z, DC, RF amplitude, energy, ...),
+// the peak figures of m/z sweeps, and resolution against U/V along a family of scan lines
+// (the resolution–transmission trade-off of a filter; Dawson 1976, ch. 2 and 6).
+//
+// Each point is the scene with the varied keys set (as --set overrides, validated by the scene
+// loader). A linear point (ideal quadrupoles and drifts only) runs on the transfer-matrix path
+// (linear-path.ts) unless direct integration is asked for; anything else runs the engine's
+// integrator. Both use the same ions (startIon, same seed), so the methods are comparable ion by
+// ion; the counts of a point are integers, independent of the number of workers.
+
+import { availableParallelism } from 'node:os';
+import { parse as parseYaml } from 'yaml';
+import { parseScene } from '../scene/load.js';
+import { SceneError } from '../scene/schema.js';
+import type { QuadrupoleStage, Scene } from '../scene/types.js';
+import { checkStartsInside, sceneForJson, sceneWarnings } from '../engine/run.js';
+import { Fate } from '../engine/batch.js';
+import { mzWindow } from '../mathieu/operating-point.js';
+import { TOOL_VERSION } from '../version.js';
+import { grid, parseVary, SweepError, MAX_POINTS, type SweepAxis } from './vary.js';
+import { peakFigures, type PeakFigures } from './peak.js';
+import { LinearTracker, nonLinearReason, StartStates } from './linear-path.js';
+import { DirectPool, sweepRunSettings } from './direct-path.js';
+
+export { SweepError } from './vary.js';
+export type { PeakFigures } from './peak.js';
+
+export type SweepMethod = 'auto' | 'direct' | 'matrix';
+export type PointMethod = 'direct' | 'matrix';
+
+export interface SweepRequest {
+  /** Scene file text and its name (for messages and provenance). */
+  sceneText: string;
+  sceneFile: string;
+  /** --set overrides applied to every point before the varied keys. */
+  set?: string[];
+  seed?: number;
+  /** One or two "KEY=A..B:N" specs; two give a map (first key outer, second inner). */
+  vary: string[];
+  /** "A..B:N" U/V ratios of the first quadrupole stage (needs one --vary mz). */
+  scanLines?: string;
+  method?: SweepMethod;
+  /** Threads for direct integration (default: all cores). The matrix path runs in this thread. */
+  workers?: number;
+  progress?: (done: number, total: number) => void;
+}
+
+export interface SweepPoint {
+  /** Values of the varied keys, in the order of the request (SI; m/z in Th). */
+  values: number[];
+  total: number;
+  detected: number;
+  transmission: number;
+  method: PointMethod;
+}
+
+export interface ScanLine {
+  u_over_v: number;
+  /** DC of the stage on this line, V. */
+  dc_v: number;
+  peak: PeakFigures | null;
+  /** Window of the first stability region along a/q = 2U/V at the peak (sim/mathieu), m/z. */
+  mathieu_window: { low: number; high: number | null; resolution: number | null } | null;
+  points: SweepPoint[];
+}
+
+export interface SweepResult {
+  axes: { key: string; unit: string; values: number[] }[];
+  points: SweepPoint[];
+  /** One m/z axis: figures of the transmission peak (null when nothing is transmitted). */
+  peak: PeakFigures | null;
+  /** An m/z axis and one other key: the peak at each value of the other key. */
+  peaks: { key: string; value: number; peak: PeakFigures | null }[] | null;
+  scanLines: { stage: number; rf_amplitude_v: number; lines: ScanLine[] } | null;
+  method: { requested: SweepMethod; used: PointMethod | 'mixed'; direct_because: string | null };
+  /** The scene as resolved at the first point (varied keys at their first values). */
+  scene: Scene;
+  sceneFile: string;
+  seed: number;
+  ionsPerPoint: number;
+  workers: number;
+  startedAt: string;
+  wallSeconds: number;
+  warnings: string[];
+}
+
+/** Run a sweep. Validates every request detail before the first point runs. */
+export async function runSweep(req: SweepRequest): Promise<SweepResult> {
+  const started = new Date();
+  const t0 = performance.now();
+  const requested = req.method ?? 'auto';
+  if (!['auto', 'direct', 'matrix'].includes(requested)) throw new SweepError(`--method expects auto, direct or matrix, got '${requested}'`);
+  if (req.vary.length < 1 || req.vary.length > 2) throw new SweepError(`give one or two --vary KEY=A..B:N (got ${req.vary.length})`);
+  const axes = req.vary.map((v) => parseVary(v, req.sceneText, req.sceneFile));
+  if (axes.length === 2 && axes[0].key === axes[1].key) throw new SweepError(`--vary ${axes[0].key} given twice`);
+  const nPoints = axes.reduce((a, x) => a * x.values.length, 1);
+  if (nPoints > MAX_POINTS) throw new SweepError(`the sweep has ${nPoints} points; at most ${MAX_POINTS}`);
+
+  const points = new PointScenes(req);
+  // Validate the corners (units, ranges, keys) and the method before any work.
+  const corners = cornerIndices(axes);
+  for (const idx of corners) pointMethod(points.scene(axes, idx, []), requested);
+  const base = points.scene(axes, axes.map(() => 0), []);
+
+  let scan: { stage: number; fileIndex: number; rf: number; ratios: number[] } | null = null;
+  if (req.scanLines !== undefined) {
+    if (axes.length !== 1 || axes[0].key !== 'mz') throw new SweepError('--scan-lines needs exactly one --vary mz=A..B:N (the m/z range of each line)');
+    const ratios = parseRatios(req.scanLines);
+    const fileIndex = firstQuadrupoleInFile(req.sceneText);
+    const stage = base.stages.findIndex((s) => s.type === 'quadrupole');
+    if (fileIndex < 0 || stage < 0) throw new SweepError(`--scan-lines: ${req.sceneFile} has no quadrupole stage`);
+    const rf = (base.stages[stage] as QuadrupoleStage).rf.amplitude;
+    if (!(rf > 0)) throw new SweepError(`--scan-lines: stage ${fileIndex} has no RF amplitude`);
+    scan = { stage: fileIndex, fileIndex, rf, ratios };
+    for (const r of [ratios[0], ratios[ratios.length - 1]]) pointMethod(points.scene(axes, [0], scanSet(scan.fileIndex, r, rf)), requested);
+  }
+
+  const workers = Math.max(1, req.workers ?? availableParallelism());
+  const runner = new PointRunner(requested, workers);
+  const totalWork = nPoints * (1 + (scan ? scan.ratios.length : 0));
+  let done = 0;
+  const warnings = new Set<string>(sceneWarnings(base).filter((w) => !w.startsWith('space_charge')));
+  try {
+    const main = await runGrid(axes, points, runner, [], () => req.progress?.(++done, totalWork));
+    let lines: ScanLine[] | null = null;
+    if (scan) {
+      lines = [];
+      for (const ratio of scan.ratios) {
+        const extra = scanSet(scan.fileIndex, ratio, scan.rf);
+        const pts = await runGrid(axes, points, runner, extra, () => req.progress?.(++done, totalWork));
+        const peak = peakOf(axes[0].values, pts);
+        const st = base.stages[scan.stage] as QuadrupoleStage;
+        const win = mzWindow({ analyzer: 'quadrupole', r0: st.r0, freq: st.rf.frequency, rf: scan.rf, dc: ratio * scan.rf, mz: peak?.mz ?? axes[0].values[0], charge: base.ions[0].charge });
+        lines.push({ u_over_v: ratio, dc_v: ratio * scan.rf, peak, mathieu_window: win, points: pts });
+        if (peak && peak.fwhm_mz === null) warnings.add(`scan line U/V = ${ratio}: the peak is wider than the m/z range; widen --vary mz`);
+      }
+    }
+    const peak = axes.length === 1 && axes[0].key === 'mz' ? peakOf(axes[0].values, main) : null;
+    if (peak && peak.fwhm_mz === null) warnings.add('the peak is not bounded at half height inside the m/z range; widen --vary mz');
+    if (axes.length === 1 && axes[0].key === 'mz' && peak === null) warnings.add('no ion is transmitted at any m/z of the sweep');
+    let peaks: SweepResult['peaks'] = null;
+    if (axes.length === 2 && (axes[0].key === 'mz' || axes[1].key === 'mz')) {
+      const mzAxis = axes[0].key === 'mz' ? 0 : 1, other = 1 - mzAxis;
+      peaks = axes[other].values.map((value, j) => {
+        const row = main.filter((_, k) => (other === 0 ? Math.floor(k / axes[1].values.length) : k % axes[1].values.length) === j);
+        return { key: axes[other].key, value, peak: peakOf(axes[mzAxis].values, row) };
+      });
+    }
+    const all = [...main, ...(lines ?? []).flatMap((l) => l.points)];
+    const used = new Set(all.map((p) => p.method));
+    return {
+      axes: axes.map((a) => ({ key: a.key, unit: a.unit, values: a.values })),
+      points: main,
+      peak, peaks,
+      scanLines: scan && lines ? { stage: scan.fileIndex, rf_amplitude_v: scan.rf, lines } : null,
+      method: { requested, used: used.size === 1 ? [...used][0] : 'mixed', direct_because: used.has('direct') ? runner.directBecause : null },
+      scene: base,
+      sceneFile: req.sceneFile,
+      seed: base.seed,
+      ionsPerPoint: base.ions.reduce((a, p) => a + p.count, 0),
+      workers,
+      startedAt: started.toISOString(),
+      wallSeconds: (performance.now() - t0) / 1000,
+      warnings: [...warnings],
+    };
+  } finally {
+    await runner.close();
+  }
+}
+
+function peakOf(x: number[], pts: SweepPoint[]): PeakFigures | null {
+  return peakFigures(x, pts.map((p) => p.transmission));
+}
+
+async function runGrid(axes: SweepAxis[], scenes: PointScenes, runner: PointRunner, extra: string[], tick: () => void): Promise<SweepPoint[]> {
+  const out: SweepPoint[] = [];
+  const n0 = axes[0].values.length, n1 = axes.length > 1 ? axes[1].values.length : 1;
+  for (let i = 0; i < n0; i++) {
+    for (let j = 0; j < n1; j++) {
+      const idx = axes.length > 1 ? [i, j] : [i];
+      const scene = scenes.scene(axes, idx, extra);
+      const r = await runner.run(scene);
+      out.push({ values: idx.map((k, a) => axes[a].values[k]), ...r });
+      tick();
+    }
+  }
+  return out;
+}
+
+/** The method of a point, or a SweepError when --method matrix meets a non-linear scene. */
+function pointMethod(scene: Scene, requested: SweepMethod): { method: PointMethod; reason: string | null } {
+  checkStartsInside(scene);
+  const reason = nonLinearReason(scene);
+  if (requested === 'matrix' && reason !== null) {
+    throw new SweepError(`--method matrix needs a linear scene (ideal quadrupole and drift stages, no gas, no space charge, no RF ramp); this one has ${reason}`);
+  }
+  if (requested === 'direct') return { method: 'direct', reason: 'asked for (--method direct)' };
+  return reason === null ? { method: 'matrix', reason: null } : { method: 'direct', reason };
+}
+
+/** Runs one point by either method; keeps the start-state draws for reuse by the matrix path. */
+class PointRunner {
+  private pool: DirectPool | null = null;
+  private starts: StartStates | null = null;
+  directBecause: string | null = null;
+
+  constructor(private readonly requested: SweepMethod, private readonly workers: number) {}
+
+  async run(scene: Scene): Promise<{ total: number; detected: number; transmission: number; method: PointMethod }> {
+    const { method, reason } = pointMethod(scene, this.requested);
+    const total = scene.ions.reduce((a, p) => a + p.count, 0);
+    let detected: number;
+    if (method === 'matrix') {
+      detected = this.matrix(scene, total);
+    } else {
+      this.directBecause ??= reason;
+      this.pool ??= new DirectPool(this.workers);
+      detected = await this.pool.count(sweepRunSettings(scene));
+    }
+    return { total, detected, transmission: total > 0 ? detected / total : 0, method };
+  }
+
+  private matrix(scene: Scene, total: number): number {
+    // Reuse the start draws while they serve the point (at most 4 million ions kept).
+    if (total <= 4_000_000 && (this.starts === null || !this.starts.serves(scene))) this.starts = new StartStates(scene);
+    const tracker = new LinearTracker(scene);
+    const fate = new Int8Array(Math.min(total, 65536));
+    let d = 0;
+    for (let start = 0; start < total; start += fate.length) {
+      const n = Math.min(fate.length, total - start);
+      tracker.track(start, n, fate, undefined, total <= 4_000_000 ? this.starts! : undefined);
+      for (let i = 0; i < n; i++) if (fate[i] === Fate.detected) d++;
+    }
+    return d;
+  }
+
+  async close(): Promise<void> {
+    await this.pool?.close();
+  }
+}
+
+/**
+ * Scenes of the points. Keys other than m/z go through the scene loader (validation, units); m/z
+ * only changes each population's m/z, so those points reuse a parsed scene.
+ */
+class PointScenes {
+  private cache = new Map<string, Scene>();
+  constructor(private readonly req: SweepRequest) {}
+
+  scene(axes: SweepAxis[], idx: number[], extra: string[]): Scene {
+    const sets: string[] = [...extra];
+    let mz: number | null = null;
+    axes.forEach((a, k) => {
+      const v = a.values[idx[k]];
+      if (a.key === 'mz') mz = v; else sets.push(...a.overrides(v));
+    });
+    const key = sets.join('\n');
+    let s = this.cache.get(key);
+    if (!s) {
+      s = this.parse(sets, axes);
+      if (this.cache.size > 64) this.cache.clear();
+      this.cache.set(key, s);
+    }
+    if (mz === null) return s;
+    const m: number = mz;
+    return { ...s, ions: s.ions.map((p) => ({ ...p, mz: m })) };
+  }
+
+  private parse(sets: string[], axes: SweepAxis[]): Scene {
+    try {
+      return parseScene(this.req.sceneText, this.req.sceneFile, { set: [...(this.req.set ?? []), ...sets], seed: this.req.seed });
+    } catch (e) {
+      // A varied key's problem reads as --vary, not as the --set it became.
+      if (e instanceof SceneError) {
+        let msg = e.message;
+        for (const a of axes) msg = msg.split(`--set ${a.key}`).join(`--vary ${a.key}`);
+        throw new SceneError(msg);
+      }
+      throw e;
+    }
+  }
+}
+
+function cornerIndices(axes: SweepAxis[]): number[][] {
+  const ends = (a: SweepAxis) => [0, a.values.length - 1];
+  if (axes.length === 1) return ends(axes[0]).map((i) => [i]);
+  return ends(axes[0]).flatMap((i) => ends(axes[1]).map((j) => [i, j]));
+}
+
+const RATIOS = /^(.+?)\.\.(.+?):(\d+)$/;
+
+/** "0.160..0.167:8" → 8 U/V ratios. */
+export function parseRatios(spec: string): number[] {
+  const m = RATIOS.exec(spec.trim());
+  if (!m) throw new SweepError(`--scan-lines expects A..B:N of U/V ratios such as 0.160..0.167:8, got '${spec}'`);
+  const a = Number(m[1]), b = Number(m[2]), n = Number(m[3]);
+  if (!Number.isFinite(a) || !Number.isFinite(b) || m[1].trim() === '' || m[2].trim() === '') {
+    throw new SweepError(`--scan-lines expects plain numbers (U/V ratios) such as 0.160..0.167:8, got '${spec}'`);
+  }
+  if (n < 2) throw new SweepError(`--scan-lines: N must be at least 2, got ${n}`);
+  if (n > 1000) throw new SweepError(`--scan-lines: at most 1000 lines, got ${n}`);
+  if (a < 0 || b < 0 || a >= 0.5 || b >= 0.5) throw new SweepError(`--scan-lines: U/V ratios lie in [0, 0.5) (the first region ends near 0.168), got '${spec}'`);
+  return grid(a, b, n);
+}
+
+function scanSet(fileIndex: number, ratio: number, rf: number): string[] {
+  return [`stages.${fileIndex}.dc=${Number((ratio * rf).toPrecision(15))} V`];
+}
+
+function firstQuadrupoleInFile(text: string): number {
+  try {
+    const raw = parseYaml(text) as { stages?: { type?: string }[] };
+    return Array.isArray(raw?.stages) ? raw.stages.findIndex((s) => s?.type === 'quadrupole') : -1;
+  } catch {
+    return -1;
+  }
+}
+
+// ---- Output folder ---------------------------------------------------------------------------
+
+export const SWEEP_FILES = { csv: 'sweep.csv', summary: 'summary.json', scanLines: 'scan-lines.csv', scanLinePoints: 'scan-line-points.csv' } as const;
+
+export const CAUTIONS = [
+  'Ideal fields: no fringe fields, no rod misalignment, no space charge; verify every operating point on the bench before relying on it.',
+  'RF and DC supplies of a mass filter carry lethal voltages: follow local electrical-safety codes and let qualified staff work on live hardware.',
+];
+
+function num(v: number | null): string {
+  return v === null ? '' : String(v);
+}
+
+/** sweep.csv: one column per varied key (named as given), then total, detected, transmission. */
+export function sweepCsv(r: SweepResult): string {
+  const lines = [[...r.axes.map((a) => a.key), 'total', 'detected', 'transmission'].join(',')];
+  for (const p of r.points) lines.push([...p.values.map(String), p.total, p.detected, p.transmission].join(','));
+  return lines.join('\n') + '\n';
+}
+
+export function scanLinesCsv(r: SweepResult): string | null {
+  if (!r.scanLines) return null;
+  const lines = ['u_over_v,dc_v,mz,fwhm_mz,resolution_50,resolution_10,transmission,mathieu_low_mz,mathieu_high_mz,mathieu_resolution'];
+  for (const l of r.scanLines.lines) {
+    const p = l.peak, w = l.mathieu_window;
+    lines.push([l.u_over_v, l.dc_v, num(p?.mz ?? null), num(p?.fwhm_mz ?? null), num(p?.resolution_50 ?? null), num(p?.resolution_10 ?? null),
+      num(p?.transmission ?? 0), num(w?.low ?? null), num(w?.high ?? null), num(w?.resolution ?? null)].join(','));
+  }
+  return lines.join('\n') + '\n';
+}
+
+export function scanLinePointsCsv(r: SweepResult): string | null {
+  if (!r.scanLines) return null;
+  const lines = ['u_over_v,mz,total,detected,transmission'];
+  for (const l of r.scanLines.lines) for (const p of l.points) lines.push([l.u_over_v, p.values[0], p.total, p.detected, p.transmission].join(','));
+  return lines.join('\n') + '\n';
+}
+
+export interface SummaryOptions { commandLine?: string }
+
+/** summary.json content (key order fixed; SI numbers, m/z in Th). */
+export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<string, unknown> {
+  const out: Record<string, unknown> = {
+    scene_name: r.scene.name,
+    sweep: {
+      keys: r.axes.map((a) => a.key),
+      units: Object.fromEntries(r.axes.map((a) => [a.key, a.unit])),
+      values: Object.fromEntries(r.axes.map((a) => [a.key, a.values.length])),
+      points: r.points.length,
+      ions_per_point: r.ionsPerPoint,
+    },
+    peak: r.peak,
+  };
+  if (r.peaks) out.peaks = r.peaks;
+  if (r.scanLines) {
+    out.scan_lines = {
+      stage: r.scanLines.stage,
+      rf_amplitude_v: r.scanLines.rf_amplitude_v,
+      // The trade-off: resolution rises and transmission falls as U/V approaches the apex.
+      tradeoff: r.scanLines.lines.map((l) => ({
+        u_over_v: l.u_over_v, dc_v: l.dc_v,
+        mz: l.peak?.mz ?? null, fwhm_mz: l.peak?.fwhm_mz ?? null,
+        resolution_50: l.peak?.resolution_50 ?? null, resolution_10: l.peak?.resolution_10 ?? null,
+        transmission: l.peak?.transmission ?? 0,
+        mathieu_window: l.mathieu_window,
+      })),
+    };
+  }
+  out.method = r.method;
+  out.warnings = r.warnings;
+  out.cautions = CAUTIONS;
+  out.provenance = {
+    tool_version: TOOL_VERSION,
+    scene: sceneForJson(r.scene),
+    scene_file: r.sceneFile,
+    seed: r.seed,
+    command_line: opts.commandLine ?? '',
+    method: r.method.used,
+    integrator: {
+      method: r.method.used === 'matrix' ? 'transfer-matrix' : 'rk4',
+      steps_per_cycle: r.scene.run.stepsPerCycle,
+      max_time_s: r.scene.run.maxTime,
+      transfer_matrix: 'one RF period per axis, checks at the rk4 step times (steps_per_cycle per period) and at the stage exit',
+    },
+    workers: r.workers,
+    started_at: r.startedAt,
+    wall_s: r.wallSeconds,
+  };
+  out.units = { mz: 'Th (u/e)', transmission: 'fraction of ions detected', voltage: 'V', length: 'm', time: 's', energy: 'eV', frequency: 'Hz' };
+  return out;
+}
