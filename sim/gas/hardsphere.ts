@@ -119,7 +119,9 @@ export function makeHardSphereKernel(gas: GasSpec, seed: number): HardSphereKern
     let rate = nSigma * speed + rateFloor;
     let left = dt;
     let hits = 0;
-    while (s <= rate * left) {
+    // A non-finite speed (an ion already lost to a diverging field) gets no collisions rather than
+    // an endless loop.
+    while (s <= rate * left && rate < Infinity) {
       left -= s / rate;
       const u0 = uniformAt(k0, k1, c);
       const u1 = uniformAt(k0, k1, c + 1);

@@ -34,7 +34,7 @@ describe('drag gas model', () => {
     const v = speeds(r.batch.vx, r.batch.vy, r.batch.vz);
     expect(ksPValue(ksStatistic(v, (s) => maxwellSpeedCdf(s, kT, m)), ions)).toBeGreaterThan(0.01);
     expect(ksPValue(ksStatistic(v, (s) => maxwellSpeedCdf(s, 1.1 * kT, m)), ions)).toBeLessThan(1e-3);
-  });
+  }, 60_000);
 
   it('velocity relaxes as v0 e^{-γt} with variance kT/m (1 − e^{-2γt}), for one step or many', () => {
     // Chandrasekhar (1943), ch. II: the OU transition density is Gaussian with these moments, so a
@@ -52,7 +52,7 @@ describe('drag gas model', () => {
       expect(Math.abs(mean(vx) - meanV)).toBeLessThan(4 * Math.sqrt(varV / ions));
       expect(Math.abs(variance(vx) / varV - 1)).toBeLessThan(4 * Math.sqrt(2 / ions));
     }
-  });
+  }, 60_000);
 
   it('drift velocity in a uniform field equals K·E (exact OU-with-force step)', () => {
     // v_d = K E by definition of the mobility; the step is exact, so any dt gives it.
@@ -70,7 +70,7 @@ describe('drag gas model', () => {
     const d = (K * kT) / q;
     expect(Math.abs(z - expected)).toBeLessThan(4 * Math.sqrt((2 * d * t) / ions));
     expect(Math.abs(z / t / vd - 1)).toBeLessThan(0.01);
-  });
+  }, 60_000);
 
   it('position spreads with the Einstein diffusion coefficient D = K kT/(ze)', () => {
     // From a thermal start, Var x(t) = (2kT/(mγ²)) (γt − 1 + e^{-γt}) (Chandrasekhar 1943, ch. II),
@@ -85,7 +85,7 @@ describe('drag gas model', () => {
       expect(Math.abs(variance(r.batch.y) / expected - 1)).toBeLessThan(0.04);
     }
     expect(expected / (2 * ((K * kT) / q) * t)).toBeCloseTo(1 - (1 - Math.exp(-5)) / 5, 12);
-  });
+  }, 60_000);
 
   it('the correlated position noise has the exact conditional variance at small and large γdt', () => {
     // 2h − 4 tanh(h/2) must equal σ_x² − σ_xv²/σ_v² from Chandrasekhar's moments (ch. II);
