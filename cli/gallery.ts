@@ -1,0 +1,41 @@
+// npm run gallery: regenerates the README figures in scenes/gallery/ from the demo scenes, with the
+// same commands a user types (iontrail run, plot, render). Run folders go to out/gallery/.
+
+import { mkdirSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { main } from './main.js';
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..').replace(/\/dist$/, '');
+// Paths relative to the repository, so the figures' provenance footers name them that way.
+process.chdir(ROOT);
+const RUNS = join('out', 'gallery');
+const FIGS = join('scenes', 'gallery');
+
+async function iontrail(...args: string[]): Promise<void> {
+  process.stdout.write(`$ iontrail ${args.join(' ')}\n`);
+  const code = await main(args);
+  if (code !== 0) throw new Error(`iontrail ${args[0]} exited ${code}`);
+}
+
+mkdirSync(RUNS, { recursive: true });
+mkdirSync(FIGS, { recursive: true });
+const run = (scene: string, name: string, ...extra: string[]) =>
+  iontrail('run', join('scenes', scene), '-o', join(RUNS, name), '--force', ...extra);
+
+await run('qf4-compact-filter.yaml', 'qf4', '--set', 'ions.0.count=300');
+await run('t7-trap-cooling.yaml', 't7');
+await run('lt1-linear-tof.yaml', 'lt1');
+await run('rt1-reflectron-tof.yaml', 'rt1');
+const fig = (name: string) => join(FIGS, name);
+await iontrail('plot', join(RUNS, 'qf4'), '--kind', 'traces', '--ions', '0-3', '-o', fig('traces.png'));
+await iontrail('plot', join(RUNS, 'qf4'), '--kind', 'stability', '-o', fig('stability.png'));
+await iontrail('plot', join(RUNS, 'qf4'), '--kind', 'phase', '-o', fig('phase.png'));
+await iontrail('plot', join(RUNS, 't7'), '--kind', 'xy', '-o', fig('xy.png'));
+await iontrail('plot', join(RUNS, 't7'), '--kind', 'cooling', '-o', fig('cooling.png'));
+await iontrail('plot', join(RUNS, 't7'), '--kind', 'stability', '-o', fig('stability-trap.png'));
+await iontrail('plot', join(RUNS, 'lt1'), '--kind', 'arrival', '-o', fig('arrival.png'));
+await iontrail('plot', join(RUNS, 'rt1'), '--kind', 'energy', '-o', fig('energy.png'));
+await iontrail('render', join(RUNS, 'qf4'), '--ions', '0-59', '-o', fig('scene3d-filter.png'));
+await iontrail('render', join(RUNS, 't7'), '--ions', '0-39', '--color', 'mz', '-o', fig('scene3d-trap.png'));
+process.stdout.write(`figures in ${FIGS}\n`);
