@@ -1,0 +1,218 @@
+// The report as a document model — sections of paragraphs, tables, lists and figures — built from
+// results.json data only. The HTML and Markdown writers both serialize this, so the two files say
+// the same thing. Strings here are plain text; the writers escape them.
+
+import type { ReportResults, FigureEntry } from '../../sim/report/results.js';
+import type { OperatingPointRow } from '../../sim/report/operating-points.js';
+import { formatSI } from '../../sim/units/quantity.js';
+
+export type Block =
+  | { kind: 'p'; text: string }
+  | { kind: 'table'; caption?: string; head: string[]; rows: string[][]; numeric?: boolean[] }
+  | { kind: 'list'; items: string[] }
+  | { kind: 'cautions'; items: string[] }
+  | { kind: 'figure'; figure: FigureEntry };
+
+export interface Section { id: string; title: string; blocks: Block[] }
+export interface ReportDoc { title: string; subtitle: string; sections: Section[] }
+
+const DASH = '—';
+
+/** Significant-figure number, or a dash for null/NaN. */
+export function num(v: unknown, digits = 4): string {
+  if (typeof v !== 'number' || !Number.isFinite(v)) return DASH;
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e6 || a < 1e-4) return v.toExponential(digits - 1).replace('e+', 'e');
+  return String(Number(v.toPrecision(digits)));
+}
+
+/** SI-prefixed value with unit, or a dash. */
+export function si(v: unknown, unit: string, digits = 4): string {
+  if (typeof v !== 'number' || !Number.isFinite(v)) return DASH;
+  return formatSI(v, unit, digits);
+}
+
+const pct = (v: unknown): string => (typeof v === 'number' && Number.isFinite(v) ? `${(100 * v).toFixed(1)} %` : DASH);
+const int = (v: unknown): string => (typeof v === 'number' && Number.isFinite(v) ? Math.round(v).toLocaleString('en-US') : DASH);
+
+const KIND_TEXT: Record<string, string> = {
+  quadrupole: 'quadrupole mass filter',
+  trap: 'RF ion trap',
+  'trap-scan': 'RF ion trap, mass-selective instability scan',
+  'tof-linear': 'linear time-of-flight analyzer',
+  'tof-reflectron': 'reflectron time-of-flight analyzer',
+  other: 'ion-optical scene',
+};
+
+function windowText(r: OperatingPointRow): string {
+  const w = r.mz_window;
+  if (r.analyzer === 'trap') return r.lmco_mz === null ? DASH : `LMCO m/z ${num(r.lmco_mz, 5)} (q_z ${num(r.q_eject, 4)})`;
+  if (!w) return 'scan line misses the first region';
+  return w.high === null ? `m/z ≥ ${num(w.low, 5)} (RF only)` : `m/z ${num(w.low, 5)} to ${num(w.high, 5)}`;
+}
+
+function operatingPointTable(rows: OperatingPointRow[]): Block[] {
+  if (rows.length === 0) return [{ kind: 'p', text: 'The scene has no RF stage: no Mathieu operating point applies.' }];
+  const blocks: Block[] = [];
+  const stages = [...new Set(rows.map((r) => r.stage))];
+  for (const st of stages) {
+    const rs = rows.filter((r) => r.stage === st);
+    const first = rs[0];
+    const body: string[][] = [];
+    for (const r of rs) {
+      r.axes.forEach((x, i) => {
+        body.push([
+          i === 0 ? `m/z ${num(r.mz, 6)}${r.charge !== 1 ? ` (z ${r.charge > 0 ? '+' : ''}${r.charge})` : ''}` : '',
+          i === 0 ? (r.at === 'fixed' ? si(r.rf_v, 'V') : `${si(r.rf_v, 'V')} (${r.at})`) : '',
+          x.axis,
+          num(x.a, 4), num(x.q, 4),
+          x.stable ? num(x.beta, 4) : 'unstable',
+          si(x.secular_frequency_hz, 'Hz'),
+          `${num(x.well_depth_v, 3)}${x.well_depth_valid ? '' : ' *'}`,
+          i === 0 ? windowText(r) : '',
+          i === 0 ? (r.first_region ? 'yes' : r.stable ? 'stable, not first region' : 'no') : '',
+        ]);
+      });
+    }
+    blocks.push({
+      kind: 'table',
+      caption: `Stage ${st}: ${first.analyzer === 'trap' ? 'RF trap' : 'quadrupole filter'}, f ${si(first.freq_hz, 'Hz')}, DC ${si(first.dc_v, 'V')}; RF zero-to-peak, electrode to ground`,
+      head: ['species', 'RF', 'axis', 'a', 'q', 'β (exact)', 'secular freq.', 'well depth (V)', first.analyzer === 'trap' ? 'low-mass cut-off' : 'm/z window', 'first region'],
+      rows: body,
+      numeric: [false, true, false, true, true, true, true, true, false, false],
+    });
+  }
+  const anyInvalid = rows.some((r) => r.axes.some((x) => !x.well_depth_valid));
+  blocks.push({ kind: 'p', text: 'β from the Floquet monodromy matrix of one RF period; secular frequency βf/2; well depth: Dehmelt pseudopotential per unit charge at the electrode distance.' + (anyInvalid ? ' * |q| ≥ 0.4: outside the range where the pseudopotential depth holds; read it as an indication only.' : '') });
+  return blocks;
+}
+
+function speciesTable(r: ReportResults): Block {
+  return {
+    kind: 'table',
+    head: ['population', 'm/z', 'z', 'ions', 'detected', 'struck', 'in flight / stored', 'transmission', 'mean KE stored (eV)'],
+    rows: r.species.map((s) => [String(s.population), num(s.mz, 6), String(s.charge), int(s.total), int(s.detected), int(s.hit), int(s.alive), pct(s.transmission), num(s.alive_mean_ke_ev, 3)]),
+    numeric: [true, true, true, true, true, true, true, true, true],
+  };
+}
+
+function coolingBlocks(c: Record<string, unknown>): Block[] {
+  return [{
+    kind: 'table',
+    head: ['figure', 'value'],
+    rows: [
+      ['cooling time constant τ', c.tau_s === null ? 'not fitted (energy does not fall over the run)' : si(c.tau_s, 's')],
+      ['initial mean kinetic energy', si(c.initial_mean_ke_ev, 'eV')],
+      ['final mean kinetic energy', si(c.final_mean_ke_ev, 'eV')],
+      ['final RMS radius', si(c.final_rms_radius_m, 'm')],
+      ['final RMS z', si(c.final_rms_z_m, 'm')],
+      ['collisions per ion', num(c.collisions_per_ion, 4)],
+    ],
+    numeric: [false, true],
+  }];
+}
+
+function scanBlocks(s: Record<string, unknown>): Block[] {
+  const sp = (Array.isArray(s.species) ? s.species : []) as Record<string, unknown>[];
+  return [
+    {
+      kind: 'table',
+      caption: `${String(s.mode ?? 'scan')} scan: ejection q_z ${num(s.ejection_qz, 5)}, calibration ${num(s.mz_per_volt, 5)} m/z per volt of RF, scan rate ${num(s.scan_rate_mz_per_s, 4)} m/z per second`,
+      head: ['m/z', 'ejected', 'apparent m/z', 'FWHM (m/z)', 'resolution m/Δm', 'mean ejection q_z', 'expected q_z'],
+      rows: sp.map((x) => [num(x.mz, 6), int(x.ejected), num(x.apparent_mz, 6), num(x.fwhm_mz, 3), num(x.resolution, 4), num(x.ejection_qz_mean, 4), num(x.ejection_qz_expected, 4)]),
+      numeric: [true, true, true, true, true, true, true],
+    },
+  ];
+}
+
+function tofBlocks(t: Record<string, unknown>): Block[] {
+  const sp = (Array.isArray(t.species) ? t.species : []) as Record<string, unknown>[];
+  const refl = sp.some((x) => 'linear_equivalent_resolution' in x);
+  const out: Block[] = [{
+    kind: 'table',
+    caption: 'Arrival-time peaks; resolution t/(2Δt) at FWHM',
+    head: ['m/z', 'detected', 'arrival time', 'FWHM', 'resolution', 'energy FWHM', ...(refl ? ['FWHM without reflectron', 'resolution without reflectron'] : [])],
+    rows: sp.map((x) => [num(x.mz, 6), int(x.detected), si(x.arrival_time_s, 's', 6), si(x.fwhm_s, 's', 3), num(x.resolution_fwhm, 4), si(x.energy_fwhm_ev, 'eV', 3),
+      ...(refl ? [si(x.linear_equivalent_fwhm_s, 's', 3), num(x.linear_equivalent_resolution, 4)] : [])]),
+    numeric: [true, true, true, true, true, true, true, true],
+  }];
+  const cal = t.calibration as Record<string, unknown> | null | undefined;
+  const rows: string[][] = [];
+  if (cal) rows.push(['mass calibration t = t0 + k·√(m/z)', `t0 = ${si(cal.t0_s, 's')}, k = ${si(cal.k_s_per_sqrt_mz, 's', 6)}`]);
+  const src = t.source as Record<string, unknown> | undefined;
+  if (src) {
+    rows.push(['source: start from back plate', si(src.start_from_back_plate_m, 'm')]);
+    rows.push(['source: extraction / acceleration field', `${si(src.extraction_field_v_per_m, 'V/m')} / ${si(src.acceleration_field_v_per_m, 'V/m')}`]);
+    rows.push(['first-order space-focus distance (Wiley–McLaren)', si(src.space_focus_distance_m, 'm')]);
+    rows.push(['field-free path to the detector', si(src.drift_to_detector_m, 'm')]);
+    rows.push(['extraction voltage for focus at the detector', si(src.extraction_voltage_for_focus_at_detector_v, 'V')]);
+    if (typeof src.reference === 'string') rows.push(['reference', src.reference]);
+  }
+  const r = t.reflectron as Record<string, unknown> | undefined;
+  if (r) {
+    rows.push(['reflectron voltage', si(r.voltage_v, 'V')]);
+    rows.push(['voltage for first-order energy focus (L = 4p)', si(r.voltage_for_energy_focus_v, 'V', 5)]);
+    rows.push(['energy per charge entering the reflectron', si(r.energy_per_charge_v, 'V', 5)]);
+    rows.push(['penetration depth p', si(r.penetration_m, 'm')]);
+    rows.push(['field-free path L', si(r.field_free_path_m, 'm')]);
+    if (typeof r.reference === 'string') rows.push(['reference', r.reference]);
+  }
+  if (rows.length > 0) out.push({ kind: 'table', head: ['figure', 'value'], rows, numeric: [false, true] });
+  return out;
+}
+
+function sweepBlocks(r: ReportResults): Block[] {
+  const s = r.sweep;
+  if (!s) return [];
+  if (s.status !== 'done') return [{ kind: 'p', text: `m/z sweep not included: ${s.reason ?? 'unavailable'}.` }];
+  const p = s.peak;
+  return [{
+    kind: 'table',
+    caption: `m/z sweep ${s.varied ?? 'mz'}: ${s.points ?? '?'} points of ${s.ions_per_point ?? '?'} ions each, ${s.method === 'matrix' ? 'exact transfer-matrix path' : `${s.method ?? '?'} path`}; resolution m/Δm at 50 % and 10 % of the peak height`,
+    head: ['peak m/z', 'FWHM (m/z)', 'resolution at 50 %', 'resolution at 10 %', 'transmission at the peak'],
+    rows: p ? [[num(p.mz, 6), num(p.fwhm_mz, 3), num(p.resolution_50, 4), num(p.resolution_10, 4), pct(p.transmission)]] : [[DASH, DASH, DASH, DASH, DASH]],
+    numeric: [true, true, true, true, true],
+  }];
+}
+
+export function reportDocument(r: ReportResults): ReportDoc {
+  const sections: Section[] = [];
+  sections.push({ id: 'safety', title: 'Safety', blocks: [{ kind: 'cautions', items: r.safety_cautions }] });
+  const res: Block[] = [speciesTable(r)];
+  if (!r.complete) res.unshift({ kind: 'p', text: 'INCOMPLETE RUN: interrupted before every ion finished; the figures cover the finished ions only.' });
+  sections.push({ id: 'results', title: 'Ions and transmission', blocks: res });
+  sections.push({ id: 'operating-points', title: 'Operating points', blocks: operatingPointTable(r.operating_points) });
+  if (r.sweep) sections.push({ id: 'peak', title: 'Peak shape and resolution', blocks: sweepBlocks(r) });
+  if (r.cooling && r.scene_kind !== 'trap-scan') sections.push({ id: 'cooling', title: 'Buffer-gas cooling', blocks: coolingBlocks(r.cooling) });
+  if (r.scan) sections.push({ id: 'scan', title: 'Mass scan', blocks: scanBlocks(r.scan) });
+  if (r.tof) sections.push({ id: 'tof', title: 'Time of flight', blocks: tofBlocks(r.tof) });
+  if (r.figures.length > 0) sections.push({ id: 'figures', title: 'Figures', blocks: r.figures.map((f) => ({ kind: 'figure', figure: f }) as Block) });
+  sections.push({ id: 'assumptions', title: 'Model assumptions and limits', blocks: [{ kind: 'list', items: r.assumptions }] });
+  if (r.warnings.length > 0) sections.push({ id: 'warnings', title: 'Warnings', blocks: [{ kind: 'list', items: r.warnings }] });
+  const p = r.provenance;
+  sections.push({
+    id: 'provenance', title: 'Provenance',
+    blocks: [{
+      kind: 'table', head: ['item', 'value'], numeric: [false, false],
+      rows: [
+        ['tool', `iontrail ${p.tool_version}`],
+        ['scene file', p.scene_file ?? '(none)'],
+        ['seed', String(p.seed)],
+        ['command line', p.command_line],
+        ['started', p.started_at],
+        ['report wall time', si(p.report_wall_time_s, 's', 3)],
+        ['run wall time', si(p.run_wall_time_s, 's', 3)],
+        ['integrator', Object.entries(p.integrator).map(([k, v]) => `${k} ${typeof v === 'number' ? num(v, 6) : String(v)}`).join(', ')],
+        ['workers', String(p.workers)],
+        ['run folder', `${p.run_folder}/ (summary.json, ions.arrow, history.arrow${p.trajectory_sample ? '' : ', trajectories.arrow when recorded'})`],
+        ...(p.trajectory_sample ? [['trajectory sample', `${p.trajectory_sample.folder}/: ${p.trajectory_sample.ions_per_population} ions per species from the same start distributions, recorded every ${p.trajectory_sample.record_every} steps (the scene records none)`]] : []),
+      ],
+    }],
+  });
+  return {
+    title: r.scene_name,
+    subtitle: `Design review: ${KIND_TEXT[r.scene_kind] ?? r.scene_kind} · iontrail ${p.tool_version} · seed ${p.seed}`,
+    sections,
+  };
+}
