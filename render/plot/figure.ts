@@ -268,9 +268,11 @@ function drawPanel(ctx: Ctx, p: PanelSpec, g: PanelGeom, showX: boolean): void {
     ctx.beginPath(); ctx.moveTo(Math.round(X) + 0.5, top + height); ctx.lineTo(Math.round(X) + 0.5, top + height + (t.major ? 5 : 3)); ctx.stroke();
     if (!showX || !t.text) continue;
     const w = ctx.measureText(t.text).width;
-    if (X - w / 2 < lastRight + 6) continue;
-    ctx.fillText(t.text, X, top + height + 7 + TICK_PX);
-    lastRight = X + w / 2;
+    // Keep the label on the canvas: an end tick's label is shifted inwards rather than clipped.
+    const cx = Math.min(Math.max(X, w / 2 + 2), ctx.canvas.width - w / 2 - 2);
+    if (cx - w / 2 < lastRight + 6) continue;
+    ctx.fillText(t.text, cx, top + height + 7 + TICK_PX);
+    lastRight = cx + w / 2;
   }
   ctx.font = font(LABEL_PX);
   if (showX) ctx.fillText(g.x.title, left + width / 2, top + height + 12 + TICK_PX + LABEL_PX);

@@ -55,69 +55,92 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
   let lo = Infinity, hi = -Infinity;
   for (const v of all) { if (v < lo) lo = v; if (v > hi) hi = v; }
   if (!(hi > lo)) { const pad = Math.abs(lo) * 0.01 || 1e-12; lo -= pad; hi += pad; }
-  const nBins = opt.values.has('bins') ? intFlag(opt, 'bins', 40, 1, 2000) : freedmanDiaconisBins(all, lo, hi);
-  const width = (hi - lo) / nBins;
   const pops = [...byPop.keys()].sort((a, b) => a - b);
   const unit = what === 'arrival' ? 's' : 'eV';
+  const overlay = opt.switches.has('overlay');
+  // Well separated species (a TOF spectrum: ns-wide peaks µs apart) get one zoomed panel each;
+  // a shared axis would squeeze every peak into a pixel.
+  const spans = pops.map((p) => { const v = Float64Array.from(byPop.get(p)!).sort(); return { lo: v[0], hi: v[v.length - 1] }; });
+  const widest = Math.max(...spans.map((r) => r.hi - r.lo));
+  const separate = !overlay && pops.length > 1 && widest > 0 && (hi - lo) > 8 * widest;
   const legend: LegendEntry[] = [];
-  const hists = pops.map((p, i) => {
+  const mzOf = (p: number) => { const r = I.population.indexOf(p); return r >= 0 ? Number(I.mz[r].toPrecision(6)) : NaN; };
+  pops.forEach((p, i) => {
     const v = byPop.get(p)!;
-    const counts = new Float64Array(nBins);
-    for (const x of v) counts[Math.min(nBins - 1, Math.floor((x - lo) / width))]++;
-    const r = I.population.indexOf(p);
-    const mz = r >= 0 ? Number(I.mz[r].toPrecision(6)) : NaN;
     const { mean, sd } = meanSd(v);
     // Mass resolving power of a TOF from the arrival spread: t ∝ √m ⇒ m/Δm = t/(2Δt), with the
     // FWHM of a Gaussian, Δt = 2.355σ (standard kinematics; Wiley & McLaren, Rev. Sci. Instrum. 26, 1955).
     const res = what === 'arrival' && sd > 0 ? `, m/Δm ≈ ${Math.round(mean / (2 * 2.355 * sd))}` : '';
     legend.push({
-      label: `m/z ${mz}: n = ${v.length}, mean ${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
+      label: `m/z ${mzOf(p)}: n = ${v.length}, mean ${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
       color: seriesColor(i), mark: 'box',
     });
-    return { counts, color: seriesColor(i) };
   });
-  const overlay = opt.switches.has('overlay');
-  // Stacked by default: species that arrive together stay visible, and the top is the total.
-  const base = hists.map(() => new Float64Array(nBins));
-  if (!overlay) for (let i = 1; i < hists.length; i++) for (let b = 0; b < nBins; b++) base[i][b] = base[i - 1][b] + hists[i - 1].counts[b];
-  let cmax = 0;
-  hists.forEach((h, i) => { for (let b = 0; b < nBins; b++) cmax = Math.max(cmax, base[i][b] + h.counts[b]); });
   const label = what === 'arrival' ? 'arrival time' : 'final kinetic energy';
+  const fixedBins = opt.values.has('bins') ? intFlag(opt, 'bins', 40, 1, 2000) : 0;
+  const groups = separate ? pops.map((p, i) => ({ pops: [p], colors: [i] })) : [{ pops, colors: pops.map((_, i) => i) }];
+  const panels = groups.map((gr) => {
+    const vals = Float64Array.from(gr.pops.flatMap((p) => byPop.get(p)!));
+    let plo = Infinity, phi = -Infinity;
+    for (const v of vals) { if (v < plo) plo = v; if (v > phi) phi = v; }
+    if (!(phi > plo)) { const pad = Math.abs(plo) * 0.01 || 1e-12; plo -= pad; phi += pad; }
+    const pad = 0.08 * (phi - plo);
+    if (separate) { plo -= pad; phi += pad; }
+    const nBins = fixedBins || freedmanDiaconisBins(vals, plo, phi);
+    const width = (phi - plo) / nBins;
+    const hists = gr.pops.map((p, k) => {
+      const counts = new Float64Array(nBins);
+      for (const x of byPop.get(p)!) counts[Math.min(nBins - 1, Math.floor((x - plo) / width))]++;
+      return { counts, color: seriesColor(gr.colors[k]) };
+    });
+    // Stacked by default: species that arrive together stay visible, and the top is the total.
+    const base = hists.map(() => new Float64Array(nBins));
+    if (!overlay) for (let i = 1; i < hists.length; i++) for (let b = 0; b < nBins; b++) base[i][b] = base[i - 1][b] + hists[i - 1].counts[b];
+    let cmax = 0;
+    hists.forEach((h, i) => { for (let b = 0; b < nBins; b++) cmax = Math.max(cmax, base[i][b] + h.counts[b]); });
+    return {
+      nBins, width,
+      spec: {
+        x: { label: separate ? `${label}, m/z ${mzOf(gr.pops[0])}` : label, unit, min: plo, max: phi },
+        y: { label: 'ions per bin', unit: '', min: 0, max: cmax * 1.08, integer: true },
+        draw: (ctx: Parameters<FigureSpec['panels'][number]['draw']>[0], g: Parameters<FigureSpec['panels'][number]['draw']>[1]) => {
+          hists.forEach((h, i) => {
+            if (overlay) {
+              ctx.beginPath();
+              ctx.moveTo(g.px(plo), g.py(0));
+              for (let b = 0; b < nBins; b++) {
+                ctx.lineTo(g.px(plo + b * width), g.py(h.counts[b]));
+                ctx.lineTo(g.px(plo + (b + 1) * width), g.py(h.counts[b]));
+              }
+              ctx.lineTo(g.px(phi), g.py(0));
+              ctx.closePath();
+              ctx.globalAlpha = 0.25;
+              ctx.fillStyle = h.color; ctx.fill();
+              ctx.globalAlpha = 1;
+              ctx.strokeStyle = h.color; ctx.lineWidth = 1.5; ctx.stroke();
+              return;
+            }
+            ctx.fillStyle = h.color;
+            for (let b = 0; b < nBins; b++) {
+              if (h.counts[b] === 0) continue;
+              const x0 = g.px(plo + b * width), x1 = g.px(plo + (b + 1) * width);
+              const y0 = g.py(base[i][b]), y1 = g.py(base[i][b] + h.counts[b]);
+              ctx.fillRect(x0, y1, Math.max(1, x1 - x0 - (x1 - x0 > 4 ? 1 : 0)), y0 - y1);
+            }
+          });
+        },
+      },
+    };
+  });
+  const binText = separate
+    ? `one panel per species (${panels.map((p) => formatWithUnit(p.width, unit, 2)).join(', ')} bins)`
+    : `${panels[0].nBins} bins of ${formatWithUnit(panels[0].width, unit, 3)}`;
   return {
     title: figureTitle(run.summary, what === 'arrival' ? 'arrival-time histogram' : 'final-energy histogram'),
-    subtitle: `${all.length.toLocaleString('en-US')} ${fate === 'all' ? '' : fate + ' '}ions, ${nBins} bins of ${formatWithUnit(width, unit, 3)}${opt.values.has('bins') ? '' : ' (Freedman–Diaconis)'}, ${overlay ? 'overlaid' : 'stacked'}${what === 'arrival' ? '; m/Δm from t/(2·FWHM), FWHM = 2.355σ' : ''}`,
+    subtitle: `${all.length.toLocaleString('en-US')} ${fate === 'all' ? '' : fate + ' '}ions, ${binText}${fixedBins ? '' : ' (Freedman–Diaconis)'}, ${overlay ? 'overlaid' : 'stacked'}${what === 'arrival' ? '; m/Δm from t/(2·FWHM), FWHM = 2.355σ' : ''}`,
     legend,
-    rows: 1, cols: 1,
-    panels: [{
-      x: { label, unit, min: lo, max: hi },
-      y: { label: 'ions per bin', unit: '', min: 0, max: cmax * 1.08, integer: true },
-      draw: (ctx, g) => {
-        hists.forEach((h, i) => {
-          if (overlay) {
-            ctx.beginPath();
-            ctx.moveTo(g.px(lo), g.py(0));
-            for (let b = 0; b < nBins; b++) {
-              ctx.lineTo(g.px(lo + b * width), g.py(h.counts[b]));
-              ctx.lineTo(g.px(lo + (b + 1) * width), g.py(h.counts[b]));
-            }
-            ctx.lineTo(g.px(hi), g.py(0));
-            ctx.closePath();
-            ctx.globalAlpha = 0.25;
-            ctx.fillStyle = h.color; ctx.fill();
-            ctx.globalAlpha = 1;
-            ctx.strokeStyle = h.color; ctx.lineWidth = 1.5; ctx.stroke();
-            return;
-          }
-          ctx.fillStyle = h.color;
-          for (let b = 0; b < nBins; b++) {
-            if (h.counts[b] === 0) continue;
-            const x0 = g.px(lo + b * width), x1 = g.px(lo + (b + 1) * width);
-            const y0 = g.py(base[i][b]), y1 = g.py(base[i][b] + h.counts[b]);
-            ctx.fillRect(x0, y1, Math.max(1, x1 - x0 - (x1 - x0 > 4 ? 1 : 0)), y0 - y1);
-          }
-        });
-      },
-    }],
+    rows: panels.length, cols: 1,
+    panels: panels.map((p) => p.spec),
     footer: footerText(run.summary, run.dir),
   };
 }
