@@ -10,8 +10,12 @@
 //  1. both axes stable and the Courant–Snyder envelope √(I·Wmax) per axis keeps x² + y² below
 //     r0² at every phase: the ion survives the stage whatever its length (no period is visited);
 //  2. otherwise period by period: d_k = M0^k c by one 2×2 product per axis; the checks of period
-//     k are skipped while the ellipse bound d·E·d summed over the axes stays below r0²;
-//  3. else the M checks of that period from the ion's own rows of F (computed on first use).
+//     k are skipped while the bound min(d·E·d, envelope) summed over the axes stays below r0²;
+//  3. else four probe checks of that period (a sample past the electrodes decides a loss), and
+//     only for ions that no probe catches, every check of the flagged periods (rows of F from
+//     the ion's own phase, computed on first use).
+// A loss is decided by a check sample at or past r0 (the same samples as the direct kernel); the
+// hit time reported is that sample's, which for probe-caught ions may be a little after the first.
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
 
 import type { DriftStage, QuadrupoleStage, Scene } from '../scene/types.js';
@@ -226,6 +230,55 @@ export class LinearTracker {
     return t;
   }
 
+  /**
+   * Number of leading periods (at most kMax) in which no check can reach r0² by the eigen-bound of
+   * each unstable axis and the envelope of a stable one (see quadrupole()).
+   */
+  private quietPeriods(tx: PeriodTable, cx1: number, cx2: number, envX: number, ty: PeriodTable, cy1: number, cy2: number, envY: number, kMax: number, R2: number): number {
+    const g = 1 + ENVELOPE_MARGIN;
+    let gx = 0, sx = 0, lx = 1, fx = 0;
+    if (tx.stable) fx = envX;
+    else {
+      const l = Math.abs(tx.lambda);
+      gx = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * l;
+      sx = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2;
+      lx = l;
+    }
+    let gy = 0, sy = 0, ly = 1, fy = 0;
+    if (ty.stable) fy = envY;
+    else {
+      const l = Math.abs(ty.lambda);
+      gy = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * l;
+      sy = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2;
+      ly = l;
+    }
+    const ix = 1 / lx, iy = 1 / ly;
+    let k = 0;
+    for (; k < kMax; k++) {
+      const bx = tx.stable ? fx : (gx + sx) * (gx + sx);
+      const by = ty.stable ? fy : (gy + sy) * (gy + sy);
+      if (!(bx + by < R2)) break;
+      gx *= lx; sx *= ix; gy *= ly; sy *= iy;
+    }
+    return k;
+  }
+
+  private probeList: number[] = [];
+  /** Probe checks of a period: its end (m = M), then M/2, M/4, 3M/4. */
+  private probes(M: number): number[] {
+    if (this.probeList[0] !== M) {
+      const set = [M, Math.round(M / 2), Math.round(M / 4), Math.round((3 * M) / 4)].filter((m) => m >= 1 && m <= M);
+      this.probeList = [...new Set(set)];
+    }
+    return this.probeList;
+  }
+
+  /** A loss at check n: position from the check; the velocity is not needed for the fate. */
+  private hitAt(c: IonCursor, tEntry: number, n: number, h: number, x: number, y: number, z: number, vz: number): ExitCode {
+    storeCursor(c, tEntry + n * h, x, y, z + n * h * vz, c.vx, c.vy, vz, n);
+    return Exit.hit;
+  }
+
   /** Check row m of both axes for the current ion (grid point i0 + m·S, offset eps). */
   private fillRow(tx: PeriodTable, ty: PeriodTable, m: number, i0: number, eps: number, stamp: number): void {
     let i = i0 + m * tx.sub;
@@ -273,44 +326,73 @@ export class LinearTracker {
     det = F.a11 * F.a22 - F.a12 * F.a21;
     let cy1 = (F.a22 * Y0 - F.a12 * PY0) / det, cy2 = (-F.a21 * Y0 + F.a11 * PY0) / det;
 
-    let safe = false;
-    if (tx.stable && ty.stable) {
-      const ix = tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2;
-      const iy = ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2;
-      safe = ix * tx.wMax + iy * ty.wMax < R2 * (1 - ENVELOPE_MARGIN);
-    }
+    // Tier 1: all-time envelope per stable axis, U² ≤ I·Wmax (with the grid margin).
+    const g = 1 + ENVELOPE_MARGIN;
+    const envX = tx.stable ? g * tx.wMax * (tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2) : Infinity;
+    const envY = ty.stable ? g * ty.wMax * (ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2) : Infinity;
+    const safe = envX + envY < R2;
     if (safe) this.envelopeCleared++;
-    else {
+    else if (full > 0) {
       this.periodLoops++;
-      // Period by period. Bound per axis: U² ≤ d·E·d (the row curve's ellipse, transfer-matrix.ts);
-      // the ion's own check rows (first row of F(ψ + mΔ), m = 1..M; past 2π, F(θ) = F(θ − 2π)·M0)
-      // are computed only when a period's bound reaches r0².
-      const g = 1 + ENVELOPE_MARGIN;
+      // Tiers 2–3, period by period. Upper bound per axis: U² ≤ min(d·E·d, envelope) (the row
+      // curve's ellipse, transfer-matrix.ts). Where it reaches r0², four probe checks (m = M, M/2,
+      // M/4, 3M/4) look for a sample at or past the electrodes: any check sample ≥ r0² decides a
+      // loss, so a growing ion is caught without scanning. The full scan of every check of the
+      // flagged periods runs only if no probe hits (ions that come close and pass).
       const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
       const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
       const stamp = ++this.stamp;
-      // Checks past 2π within period k use the rows times M0, i.e. d_{k+1}: bound with both.
+      const probes = this.probes(M);
       let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
-      let nx = ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2;
-      let ny = ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2;
-      for (let base = 0; base < full; base += M) {
-        const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
-        const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
-        const nxn = ax11 * ex1 * ex1 + ax12 * ex1 * ex2 + ax22 * ex2 * ex2;
-        const nyn = ay11 * ey1 * ey1 + ay12 * ey1 * ey2 + ay22 * ey2 * ey2;
-        if ((nx > nxn ? nx : nxn) + (ny > nyn ? ny : nyn) >= R2) {
-          const mmax = Math.min(M, full - base);
-          for (let m = 1; m <= mmax; m++) {
-            if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
-            const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
-            if (X * X + Y * Y >= R2) {
-              const n = base + m;
-              storeCursor(c, tEntry + n * h, X * r0, Y * r0, z + n * h * vz, c.vx, c.vy, vz, n);
-              return Exit.hit;
+      // With an unstable axis, skip the periods in which even the eigen-bound
+      // |U| ≤ |A|h1|λ|^(k+1) + |B|h2|λ|^−k (stable axis: its envelope) stays below r0: a scalar
+      // recursion, then one jump d ← M0^k c by repeated squaring.
+      let base0 = 0;
+      if (!tx.stable || !ty.stable) {
+        const k = this.quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, Math.ceil(full / M), R2);
+        if (k > 0) {
+          base0 = k * M;
+          const v = this.v;
+          powerApply(tx, k, cx1, cx2, v); dx1 = v[0]; dx2 = v[1];
+          powerApply(ty, k, cy1, cy2, v); dy1 = v[0]; dy2 = v[1];
+        }
+      }
+      let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
+      let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
+      let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
+      for (let pass = 0; pass < 2; pass++) {
+        for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
+          // Checks past 2π within period k use rows times M0, i.e. d_{k+1}: bound with both.
+          const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
+          const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
+          const nxn = Math.min(envX, ax11 * ex1 * ex1 + ax12 * ex1 * ex2 + ax22 * ex2 * ex2);
+          const nyn = Math.min(envY, ay11 * ey1 * ey1 + ay12 * ey1 * ey2 + ay22 * ey2 * ey2);
+          if ((nx > nxn ? nx : nxn) + (ny > nyn ? ny : nyn) >= R2) {
+            const mmax = Math.min(M, full - base);
+            if (pass === 0) {
+              for (let j = 0; j < probes.length; j++) {
+                const m = probes[j];
+                if (m > mmax) continue;
+                if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+                const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+                if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
+              }
+              if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
+            } else {
+              for (let m = 1; m <= mmax; m++) {
+                if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+                const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+                if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
+              }
             }
           }
+          dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
         }
-        dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
+        if (pend < 0) break;
+        // Second pass: from the first flagged period, every check of each flagged period.
+        dx1 = px1; dx2 = px2; dy1 = py1; dy2 = py2;
+        nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
+        ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
       }
     }
 

@@ -47,16 +47,40 @@ export interface PeriodTable {
    * the E-metric), a bound far tighter than rowMax·|d|² when the curve is elongated.
    */
   e11: number; e12: number; e22: number;
+  /**
+   * Unstable only (else NaN): eigenvalues λ (|λ| > 1) and 1/λ of M0 with eigenvectors v1, v2;
+   * (A, B) = V⁻¹·c are the coordinates of a state c, so d_k = Aλ^k v1 + Bλ^−k v2; h1, h2 bound
+   * |r(θ)·v1|, |r(θ)·v2| over the grid (Magnus & Winkler §1.2: hyperbolic monodromy).
+   */
+  lambda: number;
+  vi11: number; vi12: number; vi21: number; vi22: number;
+  h1: number; h2: number;
 }
 
-/** RK4 sub-steps per grid interval when building the table. */
-const INNER = 4;
+/**
+ * RK4 sub-steps per grid interval when building the table: step 2π/(2n) ≤ 2π/1280, so with
+ * ω ≲ 1 (phase units) the global error over a period is ≈ n·(ωh)⁵/120 < 1e-11 (Hairer, Nørsett &
+ * Wanner, §II.3), and test/sweep checks tr M0 against sim/mathieu's monodromy and odex 2.0.4.
+ */
+const INNER = 2;
+
+/** cos and sin on a grid (cached per size: shared by every table of a sweep). */
+const trig = new Map<number, { cos: Float64Array; sin: Float64Array }>();
+function trigTable(n: number): { cos: Float64Array; sin: Float64Array } {
+  let t = trig.get(n);
+  if (!t) {
+    const cos = new Float64Array(n + 1), sin = new Float64Array(n + 1);
+    for (let i = 0; i <= n; i++) { cos[i] = Math.cos((2 * Math.PI * i) / n); sin[i] = Math.sin((2 * Math.PI * i) / n); }
+    t = { cos, sin };
+    trig.set(n, t);
+  }
+  return t;
+}
 
 /**
  * Table of one axis. `a`, `q` are this axis's Mathieu parameters (y: −a, −q); `checks` = M.
  * The default S keeps the grid at ≥ 640 points per period (spacing ≤ 2π/640, which the error
- * bounds of rowAt, fAtGrid and smallAngle assume). Cost: M·S·INNER RK4 steps on two solutions
- * (≈ 2.6k for M = 40).
+ * bounds of rowAt, fAtGrid and smallAngle assume). Cost: n·INNER RK4 steps on two solutions.
  */
 export function periodTable(a: number, q: number, checks: number, sub = Math.max(16, Math.ceil(640 / checks))): PeriodTable {
   const n = checks * sub;
@@ -64,16 +88,17 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
   const w0 = a / 4, w1 = q / 2;
   const f11 = new Float64Array(n + 1), f12 = new Float64Array(n + 1);
   const f21 = new Float64Array(n + 1), f22 = new Float64Array(n + 1);
-  const cos = new Float64Array(n + 1), sin = new Float64Array(n + 1);
-  for (let i = 0; i <= n; i++) { cos[i] = Math.cos(i * dTheta); sin[i] = Math.sin(i * dTheta); }
+  const { cos, sin } = trigTable(n);
+  // cos at the RK4 stage points: grid/(2·INNER) spacing.
+  const fine = trigTable(2 * INNER * n).cos;
   // Columns: solution 1 (U = 1, U' = 0) and solution 2 (U = 0, U' = 1).
   let u1 = 1, p1 = 0, u2 = 0, p2 = 1;
   f11[0] = 1; f12[0] = 0; f21[0] = 0; f22[0] = 1;
   const h = dTheta / INNER;
   for (let i = 0; i < n; i++) {
     for (let s = 0; s < INNER; s++) {
-      const th = i * dTheta + s * h;
-      const g0 = w0 + w1 * Math.cos(th), g1 = w0 + w1 * Math.cos(th + 0.5 * h), g2 = w0 + w1 * Math.cos(th + h);
+      const j = 2 * (INNER * i + s);
+      const g0 = w0 + w1 * fine[j], g1 = w0 + w1 * fine[j + 1], g2 = w0 + w1 * fine[j + 2];
       let r = rk4Step(u1, p1, g0, g1, g2, h); u1 = r0u; p1 = r;
       r = rk4Step(u2, p2, g0, g1, g2, h); u2 = r0u; p2 = r;
     }
@@ -109,7 +134,31 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
       if (w > wMax) wMax = w;
     }
   }
-  return { checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable, beta, alpha, gamma, wMax, rowMax, e11, e12, e22 };
+  let lambda = NaN, vi11 = NaN, vi12 = NaN, vi21 = NaN, vi22 = NaN, h1 = NaN, h2 = NaN;
+  if (!stable && Number.isFinite(half)) {
+    const root = Math.sqrt(half * half - 1);
+    lambda = half + Math.sign(half) * root;
+    const mu = 1 / lambda;
+    // Eigenvector of λ: (m12, λ − m11) or (λ − m22, m21), whichever is larger (conditioning).
+    const ev = (l: number): [number, number] => {
+      const a1 = m12, a2 = l - m11, b1 = l - m22, b2 = m21;
+      const v = Math.hypot(a1, a2) >= Math.hypot(b1, b2) ? [a1, a2] : [b1, b2];
+      const nv = Math.hypot(v[0], v[1]);
+      return [v[0] / nv, v[1] / nv];
+    };
+    const [p1, p2] = ev(lambda), [q1, q2] = ev(mu);
+    const det = p1 * q2 - q1 * p2;
+    vi11 = q2 / det; vi12 = -q1 / det; vi21 = -p2 / det; vi22 = p1 / det;
+    h1 = 0; h2 = 0;
+    for (let i = 0; i <= n; i++) {
+      h1 = Math.max(h1, Math.abs(f11[i] * p1 + f12[i] * p2));
+      h2 = Math.max(h2, Math.abs(f11[i] * q1 + f12[i] * q2));
+    }
+  }
+  return {
+    checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable,
+    beta, alpha, gamma, wMax, rowMax, e11, e12, e22, lambda, vi11, vi12, vi21, vi22, h1, h2,
+  };
 }
 
 // The position result of rk4Step (the slope is returned): avoids allocating a pair per call.

@@ -37,12 +37,17 @@ export interface RunOptions {
 export function sceneWarnings(scene: Scene): string[] {
   const w: string[] = [];
   const hasRf = scene.stages.some((s) => s.type === 'quadrupole' || s.type === 'trap');
-  if (hasRf && scene.run.stepsPerCycle < 20) {
+  if (hasRf && scene.run.integrator === 'rk4' && scene.run.stepsPerCycle < 20) {
     w.push(`run.steps_per_cycle = ${scene.run.stepsPerCycle} is below 20: RK4 phase error grows; results may be inaccurate`);
   }
   if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');
-  if (scene.run.integrator === 'dopri5') w.push('integrator dopri5: the fixed-step RK4 kernels are used with steps_per_cycle; the adaptive path is not wired into the run engine yet');
   return w;
+}
+
+export function checkIntegrator(scene: Scene): void {
+  if (scene.run.integrator === 'dopri5' && (scene.gas || scene.stages.some((s) => s.gas))) {
+    throw new SceneError('run.integrator: dopri5 does not combine with buffer gas (collisions need the fixed step); use rk4');
+  }
 }
 
 export function checkStartsInside(scene: Scene): void {
@@ -56,6 +61,7 @@ export function checkStartsInside(scene: Scene): void {
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
   checkStartsInside(scene);
+  checkIntegrator(scene);
   if (scene.spaceCharge) checkCoupledScene(scene);
   const started = new Date();
   const t0 = performance.now();
@@ -138,7 +144,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       scene_file: opts.sceneFile ?? null,
       seed: scene.seed,
       command_line: opts.commandLine ?? '',
-      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : 'rk4', steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
+      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, tolerance: scene.run.integrator === 'dopri5' ? scene.run.tolerance : undefined, steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
       workers,
       started_at: started.toISOString(),
       batch_size: plan.size,

@@ -11,6 +11,7 @@ import { populationOffsets, startIon } from './start.js';
 import { trackQuadrupole } from './kernels/quadrupole.js';
 import { trackTrap } from './kernels/trap.js';
 import { trackUniform } from './kernels/uniform.js';
+import { trackAdaptive } from './kernels/adaptive.js';
 import { dcPotential, isElectrostatic, stageBasePotentials } from './potential.js';
 import { ELECTRONVOLT } from '../units/constants.js';
 
@@ -75,8 +76,12 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       ctx.gasField = gasSteps[s].field;
       let code;
       switch (st.type) {
-        case 'quadrupole': code = trackQuadrupole(st, c, ctx, run.stepsPerCycle); break;
-        case 'trap': code = trackTrap(st, c, ctx, run.stepsPerCycle); break;
+        case 'quadrupole':
+          code = run.integrator === 'dopri5' ? trackAdaptive(st, c, ctx, run.tolerance) : trackQuadrupole(st, c, ctx, run.stepsPerCycle);
+          break;
+        case 'trap':
+          code = run.integrator === 'dopri5' ? trackAdaptive(st, c, ctx, run.tolerance) : trackTrap(st, c, ctx, run.stepsPerCycle);
+          break;
         default: code = trackUniform(st, c, ctx, run.stepNoRf); break;
       }
       if (code === Exit.hit) { fate = Fate.hit; break; }

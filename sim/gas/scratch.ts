@@ -1,6 +1,6 @@
 // Per-batch scratch the gas kernels keep beside an IonBatch: each ion's gas-stream key (computed
-// once, not per step) and one number of per-ion state (the hard-sphere model's remaining optical
-// depth). Keyed by the batch object; a slot is valid while it holds the same global ion index, so a
+// once, not per step) and a few numbers of per-ion state, interleaved (the hard-sphere model keeps
+// its remaining optical depth, speed bound and majorant rate there). Keyed by the batch object; a slot is valid while it holds the same global ion index, so a
 // batch refilled with other ions re-initialises those slots instead of inheriting state.
 
 import type { IonBatch } from '../engine/batch.js';
@@ -12,20 +12,20 @@ export interface GasScratch {
   /** Key words of streamKey(seed, index, Purpose.gas). */
   k0: Uint32Array;
   k1: Uint32Array;
-  /** Kernel-specific per-ion state. */
+  /** Kernel-specific per-ion state: `stride` numbers per ion, ion i at [stride·i, stride·i + stride). */
   state: Float64Array;
 }
 
 export class GasScratchTable {
   private readonly table = new WeakMap<IonBatch, GasScratch>();
-  constructor(private readonly seed: number) {}
+  constructor(private readonly seed: number, private readonly stride = 1) {}
 
   /** The scratch of `batch`, allocated on first use (once per batch, never per step). */
   of(batch: IonBatch): GasScratch {
     let s = this.table.get(batch);
     if (s === undefined || s.owner.length < batch.n) {
       const n = batch.index.length;
-      s = { owner: new Float64Array(n).fill(-1), k0: new Uint32Array(n), k1: new Uint32Array(n), state: new Float64Array(n) };
+      s = { owner: new Float64Array(n).fill(-1), k0: new Uint32Array(n), k1: new Uint32Array(n), state: new Float64Array(n * this.stride) };
       this.table.set(batch, s);
     }
     return s;

@@ -15,7 +15,8 @@ export function assumptions(scene: Scene, t: SceneTraits): string[] {
   const out: string[] = [];
   if (t.rf) {
     out.push('Ideal quadrupolar fields: exact hyperbolic electrodes of infinite extent; no rod-shape (round-rod) higher multipoles, no machining or alignment errors.');
-    out.push('No fringe fields: an ion meets the full RF and DC the moment it crosses a stage boundary.');
+    if (scene.stages.some((s) => s.type === 'quadrupole')) out.push('No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.');
+    if (scene.stages.some((s) => s.type === 'trap')) out.push('No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.');
     out.push('RF is a pure cosine at one frequency; no supply ripple, amplitude noise or detuning.');
   }
   if (scene.stages.some((s) => s.type === 'accelerate')) {

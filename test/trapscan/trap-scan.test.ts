@@ -15,7 +15,7 @@ import { runScene } from '../../sim/engine/run.js';
 import { floquet } from '../../sim/mathieu/floquet.js';
 import { tempDir } from '../helpers/cli.js';
 
-const scene = (aux: string) => `
+const scene = (aux: string, runKeys = 'steps_per_cycle: 40') => `
 seed: 4
 stages:
   - type: trap
@@ -30,17 +30,17 @@ ions:
     position: { z: 5 mm, spread: 0.05 mm, spread_z: 0.05 mm }
     energy: 0.01 eV
     direction: isotropic
-run: { steps_per_cycle: 40, max_time: 2 ms, record_every: 0 }
+run: { ${runKeys}, max_time: 2 ms, record_every: 0 }
 `;
 
-async function scan(aux: string) {
-  const s = await runScene(parseScene(scene(aux), 'scan.yaml'), { out: join(tempDir(), 'run'), workers: 1 });
+async function scan(aux: string, runKeys?: string) {
+  const s = await runScene(parseScene(scene(aux, runKeys), 'scan.yaml'), { out: join(tempDir(), 'run'), workers: 1 });
   return s.scan as { mode: string; species: { ejected: number; ejection_qz_mean: number; ejection_qz_expected: number; apparent_mz: number }[] };
 }
 
 describe('RF trap mass scans', () => {
-  it('instability scan ejects at the β_z = 1 edge, q_z ≈ 0.908', async () => {
-    const r = await scan('');
+  it.each([['rk4', undefined], ['dopri5', 'integrator: dopri5, tolerance: 1e-8']])('instability scan ejects at the β_z = 1 edge, q_z ≈ 0.908 (%s)', async (_n, keys) => {
+    const r = await scan('', keys);
     expect(r.mode).toBe('instability');
     const sp = r.species[0];
     expect(sp.ejected).toBeGreaterThan(10);
