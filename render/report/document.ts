@@ -53,7 +53,6 @@ function windowText(r: OperatingPointRow): string {
 }
 
 function operatingPointTable(rows: OperatingPointRow[]): Block[] {
-  if (rows.length === 0) return [{ kind: 'p', text: 'The scene has no RF stage: no Mathieu operating point applies.' }];
   const blocks: Block[] = [];
   const stages = [...new Set(rows.map((r) => r.stage))];
   for (const st of stages) {
@@ -182,7 +181,7 @@ export function reportDocument(r: ReportResults): ReportDoc {
   const res: Block[] = [speciesTable(r)];
   if (!r.complete) res.unshift({ kind: 'p', text: 'INCOMPLETE RUN: interrupted before every ion finished; the figures cover the finished ions only.' });
   sections.push({ id: 'results', title: 'Ions and transmission', blocks: res });
-  sections.push({ id: 'operating-points', title: 'Operating points', blocks: operatingPointTable(r.operating_points) });
+  if (r.operating_points.length > 0) sections.push({ id: 'operating-points', title: 'Operating points', blocks: operatingPointTable(r.operating_points) });
   if (r.sweep) sections.push({ id: 'peak', title: 'Peak shape and resolution', blocks: sweepBlocks(r) });
   if (r.cooling && r.scene_kind !== 'trap-scan') sections.push({ id: 'cooling', title: 'Buffer-gas cooling', blocks: coolingBlocks(r.cooling) });
   if (r.scan) sections.push({ id: 'scan', title: 'Mass scan', blocks: scanBlocks(r.scan) });
