@@ -11,7 +11,8 @@ export interface BatchPlan {
 
 export function planBatches(scene: Scene): BatchPlan {
   const total = scene.ions.reduce((a, p) => a + p.count, 0);
-  let size = 256;
+  // At least ~32 batches when the run allows it, so two or more workers share the load evenly.
+  let size = Math.min(256, Math.max(8, Math.ceil(total / 32)));
   if (scene.run.recordEvery > 0) {
     // Keep one batch's recorded points to about 2 million (128 MB) so output streams.
     const firstRf = scene.stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: { frequency: number } } | undefined;
