@@ -140,14 +140,16 @@ describe('hard-sphere gas', () => {
         step(a, i, h);
       }
       let x = b.x[i], vx = b.vx[i], vy = b.vy[i], vz = b.vz[i];
-      let s = k.enter(b, i);
+      k.enter(b, i);
+      let s = k.depth, lim = k.limit2, rate = k.rate;
       for (let n = 0; n < steps; n++) {
         vx -= w2 * x * h; x += vx * h;
-        const d = s - (k.rateSlope * Math.sqrt(vx * vx + vy * vy + vz * vz) + k.rateFloor) * h;
-        if (d > 0) s = d;
+        const v2 = vx * vx + vy * vy + vz * vz, d = s - rate * h;
+        if (v2 <= lim && d > 0) s = d;
         else {
           b.vx[i] = vx; b.vy[i] = vy; b.vz[i] = vz;
-          s = k.collide(b, i, h, s);
+          k.collide(b, i, h, s);
+          s = k.depth; lim = k.limit2; rate = k.rate;
           vx = b.vx[i]; vy = b.vy[i]; vz = b.vz[i];
         }
       }
