@@ -1,17 +1,17 @@
 // iontrail demo [-o DIR]: the built-in demo of the fictional Skerry instrument family — operating
-// point checks, then each demo scene run into DIR (default out/demo), with figures where the
-// renderer is present. This is what `npm start` runs.
+// point checks, then a design-review bundle of each demo scene in DIR/<scene>/ (default out/demo):
+// report.html, report.md with its figures, results.json and the run folder under run/.
+// This is what `npm start` runs.
 
 import { existsSync, mkdirSync } from 'node:fs';
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs, flag } from '../args.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
-import { progressBar } from '../progress.js';
 import { parseCount } from './run.js';
+import { writeReportBundle } from './report.js';
 
-export const describe = 'run the built-in demo (Skerry filter, trap and TOF scenes) into out/demo';
+export const describe = 'run the built-in demo (Skerry filter, trap and TOF scenes): a review bundle per scene in out/demo';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replace(/\/dist$/, '');
 
@@ -38,23 +38,28 @@ export async function run(argv: string[]): Promise<number> {
   for (const file of DEMO_SCENES) {
     const path = join(ROOT, 'scenes', file);
     if (!existsSync(path)) continue;
-    const { scene } = loadSceneFile(path);
+    const { scene, text } = loadSceneFile(path);
     const dir = join(out, file.replace(/\.ya?ml$/, ''));
-    process.stdout.write(`\n$ iontrail run scenes/${file} -o ${dir} --force\n`);
-    const bar = progressBar(file);
-    const s = await runScene(scene, { out: dir, force: true, workers, sceneFile: `scenes/${file}`, commandLine: `iontrail demo`, progress: bar.update, handleSigint: true });
-    bar.end();
-    for (const w of s.warnings) process.stderr.write(`warning: ${w}\n`);
-    for (const sp of s.species) {
+    process.stdout.write(`\n$ iontrail report scenes/${file} -o ${dir} --force\n`);
+    const r = await writeReportBundle(scene, {
+      out: dir, force: true, workers, sceneFile: `scenes/${file}`, sceneText: text, commandLine: 'iontrail demo',
+      progressLabel: file, handleSigint: true,
+    });
+    if (!r.complete) return 130;
+    const res = r.results;
+    for (const w of res.warnings) process.stderr.write(`warning: ${w}\n`);
+    for (const sp of res.species) {
       process.stdout.write(`  m/z ${sp.mz}: ${sp.detected} detected, ${sp.hit} hit, ${sp.alive} alive of ${sp.total} (transmission ${(100 * sp.transmission).toFixed(1)} %)\n`);
     }
-    if (s.cooling) {
-      const c = s.cooling as Record<string, number | null>;
-      process.stdout.write(`  cooling: tau ${c.tau_s === null ? 'n/a' : `${((c.tau_s as number) * 1e3).toPrecision(3)} ms`}, final mean KE ${(c.final_mean_ke_ev as number).toPrecision(3)} eV, rms radius ${((c.final_rms_radius_m as number) * 1e3).toPrecision(3)} mm\n`);
+    if (res.cooling) {
+      const c = res.cooling as Record<string, number | null>;
+      // No ion left at the end (a scan ejects them all) leaves the final cloud size undefined.
+      const milli = (v: number | null, unit: string) => (typeof v === 'number' && Number.isFinite(v) ? `${(v * 1e3).toPrecision(3)} ${unit}` : 'n/a');
+      process.stdout.write(`  cooling: tau ${milli(c.tau_s, 'ms')}, final mean KE ${(c.final_mean_ke_ev as number).toPrecision(3)} eV, rms radius ${milli(c.final_rms_radius_m, 'mm')}\n`);
     }
-    if (!s.complete) return 130;
+    process.stdout.write(`  report: ${join(dir, 'report.html')} (${res.figures.length} figures)\n`);
   }
-  process.stdout.write(`\nrun folders in ${out}\n`);
+  process.stdout.write(`\nreview bundles in ${out} (open <scene>/report.html; run folders in <scene>/run)\n`);
   process.stdout.write('Simulated operating points must be verified on the bench before use. RF and DC supplies of these instruments are lethal: follow local electrical-safety codes and leave high-voltage work to qualified staff.\n');
   return 0;
 }

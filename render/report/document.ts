@@ -180,7 +180,8 @@ export function reportDocument(r: ReportResults): ReportDoc {
   sections.push({ id: 'safety', title: 'Safety', blocks: [{ kind: 'cautions', items: r.safety_cautions }] });
   const res: Block[] = [speciesTable(r)];
   if (!r.complete) res.unshift({ kind: 'p', text: 'INCOMPLETE RUN: interrupted before every ion finished; the figures cover the finished ions only.' });
-  sections.push({ id: 'results', title: 'Ions and transmission', blocks: res });
+  const ionsTitle = r.scene_kind === 'trap' ? 'Ions stored and lost' : r.scene_kind === 'trap-scan' ? 'Ions ejected and lost' : 'Ions and transmission';
+  sections.push({ id: 'results', title: ionsTitle, blocks: res });
   if (r.operating_points.length > 0) sections.push({ id: 'operating-points', title: 'Operating points', blocks: operatingPointTable(r.operating_points) });
   if (r.sweep) sections.push({ id: 'peak', title: 'Peak shape and resolution', blocks: sweepBlocks(r) });
   if (r.cooling && r.scene_kind !== 'trap-scan') sections.push({ id: 'cooling', title: 'Buffer-gas cooling', blocks: coolingBlocks(r.cooling) });
