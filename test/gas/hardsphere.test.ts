@@ -10,7 +10,7 @@ import type { GasSpec } from '../../sim/gas/model.js';
 import { makeGasStep } from '../../sim/gas/step.js';
 import { makeHardSphereKernel } from '../../sim/gas/hardsphere.js';
 import { meanKineticEnergy, relax, startBatch } from '../../sim/gas/relax.js';
-import { ksPValue, ksStatistic, maxwellSpeedCdf, speeds } from './stats.js';
+import { erfc, ksPValue, ksStatistic, maxwellSpeedCdf, mean, speeds } from './stats.js';
 
 const he = findGasSpecies('He')!;
 const T = 300;
@@ -160,5 +160,46 @@ describe('hard-sphere gas', () => {
       expect(b.collisions[i]).toBe(a.collisions[i]);
     }
     expect(a.collisions.reduce((t, c) => t + c, 0)).toBeGreaterThan(40 * 50);
+  });
+
+  it('collision rate of an ion at fixed speed v follows n σ ⟨|v − V|⟩ over the Maxwellian, slow to fast', () => {
+    // ⟨g⟩(v) = a [(s + 1/(2s)) erf(s) + e^{−s²}/√π], s = v/a, a = (2kT/M)^½: the mean relative
+    // speed of a particle of speed v in a Maxwellian gas (G. A. Bird, Molecular Gas Dynamics and the
+    // Direct Simulation of Gas Flows, 1994, ch. 4; from memory). A 1e6 u ion keeps its speed
+    // (ΔV/V ~ M/m = 4e-6 per collision). s = 3 is far above the bound's floor, s = 0.1 below it.
+    const heavy = ionMassKg(1e6, 1);
+    const a = Math.sqrt((2 * kT) / he.massKg);
+    for (const sRatio of [0.1, 1, 3]) {
+      const v = sRatio * a;
+      const gv = a * ((sRatio + 1 / (2 * sRatio)) * (1 - erfc(sRatio)) + Math.exp(-sRatio * sRatio) / Math.sqrt(Math.PI));
+      const rate = n * gas.crossSectionM2! * gv;
+      const ions = 2000;
+      const duration = 100 / rate;
+      const r = relax({ gas, seed: 17, ions, ionMassKg: heavy, chargeC: q, durationS: duration, stepS: duration / 20,
+        startVelocityMS: [v, 0, 0] });
+      let hits = 0;
+      for (let i = 0; i < ions; i++) hits += r.batch.collisions[i];
+      // 2e5 collisions: Poisson relative error 0.22 %; 1.5 % is ~7 σ and far above erfc's 1e-7.
+      expect(Math.abs(hits / (ions * duration) / rate - 1)).toBeLessThan(0.015);
+    }
+  });
+
+  it('a slow heavy ion feels the Epstein drag (4/3) σ n M c̄ v (specular spheres)', () => {
+    // P. S. Epstein, Phys. Rev. 23, 710 (1924): drag on a sphere moving slowly through a gas,
+    // F = δ (4π/3) R² n M c̄ v with δ = 1 for specular reflection; isotropic hard-sphere scattering
+    // in the centre-of-mass frame is specular reflection, and σ = πR². For m ≫ M this is also the
+    // Mason–Schamp friction |q|/K. Mean velocity decays as v0 e^{−γt}, γ = (4/3) σ n M c̄/m.
+    const heavy = ionMassKg(1e5, 1);
+    const cBar = Math.sqrt((8 * kT) / (Math.PI * he.massKg));
+    const gamma = ((4 / 3) * gas.crossSectionM2! * n * he.massKg * cBar) / heavy;
+    const v0 = 0.05 * cBar; // s = v/a ≈ 0.056: the linear (slow) regime to O(s²) ≈ 0.3 %
+    const ions = 4000;
+    const duration = 500 / (n * gas.crossSectionM2! * cBar); // ≈ 500 collisions per ion, γt ≈ 0.027
+    const r = relax({ gas, seed: 18, ions, ionMassKg: heavy, chargeC: q, durationS: duration, stepS: duration / 10,
+      startVelocityMS: [v0, 0, 0] });
+    const measured = -Math.log(mean(r.batch.vx) / v0) / duration;
+    // Random kicks: ≈ (M/m) c̄ per collision, so the mean of 4000 ions after 500 collisions scatters
+    // by ≈ 0.015 m/s against a decrease of γ t v0 ≈ 1.7 m/s: 0.9 %; allow 4 %.
+    expect(Math.abs(measured / gamma - 1)).toBeLessThan(0.04);
   });
 });
