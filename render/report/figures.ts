@@ -111,7 +111,9 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
   if (input.kind === 'tof-linear' || input.kind === 'tof-reflectron') {
     const detected = run.ions.fate.some((f) => f === 'detected');
     if (detected) {
-      await kindFig('arrival', 'Arrival-time spectrum', 'Histogram of the arrival times of detected ions, stacked per species.', input.runDir, 'arrival', 620);
+      // The arrival kind draws one zoomed panel per species when the peaks lie far apart: room for each.
+      const nSpecies = new Set(run.ions.population).size;
+      await kindFig('arrival', 'Arrival-time spectrum', 'Histogram of the arrival times of detected ions per species.', input.runDir, 'arrival', Math.max(620, 260 + 190 * nSpecies));
     }
     await own('calibration', 'Mass calibration', 'Peak centres against √(m/z) with the least-squares calibration line and its residuals.', calibrationFigure(run.summary, input.runDir), 700);
     await own('source-focus', 'Source space focus', 'Arrival-time offset against start position for each species: the slope shows how far the detector sits from the first-order space focus of the two-field source.', sourceFocusFigure(run));

@@ -7,7 +7,8 @@ import type { Block, ReportDoc } from './document.js';
 export function escapeMarkdown(text: string): string {
   return text
     .replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;')
-    .replace(/([\\`*_{}\[\]()#+!|~])/g, '\\$1')
+    // Emphasis, code, link brackets, table pipes and strike-through; parentheses only matter after ']'.
+    .replace(/([\\`*_\[\]|~])/g, '\\$1')
     .replace(/\n/g, ' ');
 }
 
