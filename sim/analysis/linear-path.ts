@@ -14,6 +14,8 @@
 //  3. else four probe checks of that period (a sample past the electrodes decides a loss), and
 //     only for ions that no probe catches, every check of the flagged periods (rows of F from
 //     the ion's own phase, computed on first use).
+// When both axes are stable, that last scan visits only the check phases whose per-check
+// envelope reaches r0 (see quadrupole()).
 // A loss is decided by a check sample at or past r0 (the same samples as the direct kernel); the
 // hit time reported is that sample's, which for probe-caught ions may be a little after the first.
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
@@ -141,6 +143,7 @@ export class LinearTracker {
   private ry1 = new Float64Array(0); private ry2 = new Float64Array(0);
   private rowStamp = new Float64Array(0);
   private stamp = 0;
+  private cand = new Int32Array(0);
   private readonly row = new Float64Array(2);
   private readonly fm = mat2();
   private readonly v = new Float64Array(2);
@@ -225,6 +228,7 @@ export class LinearTracker {
         this.rx1 = new Float64Array(M + 1); this.rx2 = new Float64Array(M + 1);
         this.ry1 = new Float64Array(M + 1); this.ry2 = new Float64Array(M + 1);
         this.rowStamp = new Float64Array(M + 1);
+        this.cand = new Int32Array(M + 1);
       }
     }
     return t;
@@ -360,6 +364,8 @@ export class LinearTracker {
       let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
       let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
       let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
+      const cand = this.cand;
+      let nc = 0;
       for (let pass = 0; pass < 2; pass++) {
         for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
           // Checks past 2π within period k use rows times M0, i.e. d_{k+1}: bound with both.
@@ -379,8 +385,9 @@ export class LinearTracker {
               }
               if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
             } else {
-              for (let m = 1; m <= mmax; m++) {
-                if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+              for (let j = 0; j < nc; j++) {
+                const m = cand[j];
+                if (m > mmax) break;
                 const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
                 if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
               }
@@ -389,7 +396,25 @@ export class LinearTracker {
           dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
         }
         if (pend < 0) break;
-        // Second pass: from the first flagged period, every check of each flagged period.
+        // Second pass, from the first flagged period, over the checks that can hit at all. Both
+        // axes stable: in Courant–Snyder form X_{k,m} = √Ix·ρx_m·cos(kμx + φx_m), so at check m
+        // of ANY period X² + Y² ≤ Ix·Wx_m + Iy·Wy_m, W_m = r_m·Q⁻¹·r_m for the ion's own rows;
+        // only the checks where that reaches r0² are visited. Otherwise every check.
+        nc = 0;
+        const ixx = tx.stable ? tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2 : 0;
+        const iyy = ty.stable ? ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2 : 0;
+        for (let m = 1; m <= M; m++) {
+          if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+          if (tx.stable && ty.stable) {
+            const a1 = this.rx1[m], a2 = this.rx2[m], b1 = this.ry1[m], b2 = this.ry2[m];
+            const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
+            const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
+            // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-11 per period.
+            if ((ixx * wx + iyy * wy) * (1 + 1e-6) < R2) continue;
+          }
+          cand[nc++] = m;
+        }
+        if (nc === 0) break;
         dx1 = px1; dx2 = px2; dy1 = py1; dy2 = py2;
         nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
         ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);

@@ -99,8 +99,8 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
     for (let s = 0; s < INNER; s++) {
       const j = 2 * (INNER * i + s);
       const g0 = w0 + w1 * fine[j], g1 = w0 + w1 * fine[j + 1], g2 = w0 + w1 * fine[j + 2];
-      let r = rk4Step(u1, p1, g0, g1, g2, h); u1 = r0u; p1 = r;
-      r = rk4Step(u2, p2, g0, g1, g2, h); u2 = r0u; p2 = r;
+      rk4Step(u1, p1, g0, g1, g2, h); u1 = RK[0]; p1 = RK[1];
+      rk4Step(u2, p2, g0, g1, g2, h); u2 = RK[0]; p2 = RK[1];
     }
     // Rows of F: first row = positions of the two solutions, second = their slopes.
     f11[i + 1] = u1; f12[i + 1] = u2; f21[i + 1] = p1; f22[i + 1] = p2;
@@ -161,20 +161,21 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
   };
 }
 
-// The position result of rk4Step (the slope is returned): avoids allocating a pair per call.
-let r0u = 0;
+// rk4Step's result (U, U') in a scratch array: a module-level `let` holding a double would be
+// boxed on every store; a Float64Array element is not.
+const RK = new Float64Array(2);
 
 /**
  * One classic RK4 step of U'' = −g U over h with g at the start, middle and end of the step;
- * sets r0u to the new U and returns the new U'.
+ * the new (U, U') go to RK[0], RK[1].
  */
-function rk4Step(u: number, p: number, g0: number, g1: number, g2: number, h: number): number {
+function rk4Step(u: number, p: number, g0: number, g1: number, g2: number, h: number): void {
   const a1 = -g0 * u;
   const u2 = u + 0.5 * h * p, p2 = p + 0.5 * h * a1, a2 = -g1 * u2;
   const u3 = u + 0.5 * h * p2, p3 = p + 0.5 * h * a2, a3 = -g1 * u3;
   const u4 = u + h * p3, p4 = p + h * a3, a4 = -g2 * u4;
-  r0u = u + (h / 6) * (p + 2 * p2 + 2 * p3 + p4);
-  return p + (h / 6) * (a1 + 2 * a2 + 2 * a3 + a4);
+  RK[0] = u + (h / 6) * (p + 2 * p2 + 2 * p3 + p4);
+  RK[1] = p + (h / 6) * (a1 + 2 * a2 + 2 * a3 + a4);
 }
 
 /** A 2×2 matrix in a reusable holder. */
@@ -195,10 +196,10 @@ export function fAtGrid(t: PeriodTable, i: number, eps: number, ch: number, sh: 
   const g0 = t.w0 + t.w1 * c;
   const g1 = t.w0 + t.w1 * (c * ch - s * sh);
   const g2 = t.w0 + t.w1 * (c * ce - s * se);
-  let p = rk4Step(t.f11[i], t.f21[i], g0, g1, g2, eps);
-  out.a11 = r0u; out.a21 = p;
-  p = rk4Step(t.f12[i], t.f22[i], g0, g1, g2, eps);
-  out.a12 = r0u; out.a22 = p;
+  rk4Step(t.f11[i], t.f21[i], g0, g1, g2, eps);
+  out.a11 = RK[0]; out.a21 = RK[1];
+  rk4Step(t.f12[i], t.f22[i], g0, g1, g2, eps);
+  out.a12 = RK[0]; out.a22 = RK[1];
   return out;
 }
 
