@@ -20,7 +20,7 @@ import type { IonBatch } from '../engine/batch.js';
 import { BOLTZMANN } from '../units/constants.js';
 import { uniformAt } from '../random/counter.js';
 import { checkGasSpec, GasSpecError, type GasFieldStep, type GasSpec, type GasStep } from './model.js';
-import { masonSchampMobility, mobilityFromReduced, numberDensity } from './mobility.js';
+import { masonSchampMobility, mobilityFromReduced, numberDensity, reducedMass } from './mobility.js';
 import { GasScratchTable, type GasScratch } from './scratch.js';
 
 /** Mobility K (m^2/(V s)) of an ion of this mass and charge in `gas` at its p and T. */
@@ -29,6 +29,21 @@ export function gasMobility(gas: GasSpec, ionMassKg: number, chargeC: number): n
   if (gas.crossSectionM2 === undefined) throw new GasSpecError('cross_section', 'is required to derive the mobility (or give reduced_mobility)');
   return masonSchampMobility(ionMassKg, chargeC, gas.massKg, gas.temperatureK,
     numberDensity(gas.pressurePa, gas.temperatureK), gas.crossSectionM2);
+}
+
+/**
+ * Friction coefficient ζ = m γ = |q|/K, kg/s. From Mason–Schamp it is charge-free,
+ * ζ = (16/3) N Ω (μ kT/(2π))^½, so a neutral still thermalises; with a given reduced mobility a
+ * neutral (q = 0) feels no drag.
+ */
+export function dragFriction(gas: GasSpec, ionMassKg: number, chargeC: number): number {
+  if (gas.reducedMobility !== undefined) {
+    return Math.abs(chargeC) / mobilityFromReduced(gas.reducedMobility, gas.pressurePa, gas.temperatureK);
+  }
+  if (gas.crossSectionM2 === undefined) throw new GasSpecError('cross_section', 'is required to derive the mobility (or give reduced_mobility)');
+  const mu = reducedMass(ionMassKg, gas.massKg);
+  return (16 / 3) * numberDensity(gas.pressurePa, gas.temperatureK) * gas.crossSectionM2
+    * Math.sqrt((mu * BOLTZMANN * gas.temperatureK) / (2 * Math.PI));
 }
 
 /** Standard normals from uniforms (Box & Muller, Ann. Math. Stat. 29, 610 (1958)). */
@@ -59,8 +74,14 @@ class DragCoefficients {
   update(mass: number, charge: number, dt: number): void {
     if (mass === this.mass && charge === this.charge && dt === this.dt) return;
     this.mass = mass; this.charge = charge; this.dt = dt;
-    const k = gasMobility(this.gas, mass, charge);
-    const gamma = Math.abs(charge) / (mass * k);
+    const zeta = dragFriction(this.gas, mass, charge);
+    const gamma = zeta / mass;
+    if (!(gamma > 0)) {
+      // No friction (a neutral with a given reduced mobility): free flight, no thermal kicks.
+      this.gamma = 0; this.decay = 1; this.sigmaV = 0; this.drift = 0; this.relax = dt;
+      this.xFromXi1 = 0; this.xFromXi2 = 0;
+      return;
+    }
     const h = gamma * dt;
     const thermal = Math.sqrt(this.kT / mass);
     const oneMinusE = -Math.expm1(-h);
@@ -68,7 +89,7 @@ class DragCoefficients {
     this.gamma = gamma;
     this.decay = Math.exp(-h);
     this.sigmaV = thermal * Math.sqrt(-Math.expm1(-2 * h));
-    this.drift = Math.sign(charge) * k; // w = sign(q) K E
+    this.drift = charge / zeta; // w = q E/(m γ) = sign(q) K E
     this.relax = oneMinusE / gamma;
     // σ_xv/σ_v = (kT/m)^½/γ · (1 − e^{−h})^{3/2}/(1 + e^{−h})^½
     this.xFromXi1 = (thermal / gamma) * Math.pow(oneMinusE, 1.5) / Math.sqrt(1 + e);
