@@ -26,7 +26,8 @@ table { border-collapse: collapse; margin: 8px 0 14px; font-size: 13.5px; width:
 .tablewrap { overflow-x: auto; }
 caption { text-align: left; color: var(--soft); padding: 2px 0 6px; font-size: 13px; }
 th, td { border-bottom: 1px solid var(--rule); padding: 5px 10px; text-align: left; vertical-align: top; }
-th { background: var(--band); font-weight: 600; white-space: nowrap; }
+th { background: var(--band); font-weight: 600; vertical-align: bottom; }
+th.n { text-align: right; }
 td.n { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 .cautions { background: var(--warn-bg); border-left: 5px solid var(--warn); padding: 10px 16px; margin: 6px 0; }
 .cautions p { margin: 4px 0; }
@@ -48,7 +49,7 @@ function block(b: Block, images: Map<string, string>): string {
     case 'cautions': return `<div class="cautions">${b.items.map((i, k) => `<p>${k === 0 ? '<strong>Caution.</strong> ' : ''}${escapeHtml(i)}</p>`).join('')}</div>`;
     case 'table': {
       const cls = (i: number) => (b.numeric?.[i] ? ' class="n"' : '');
-      const head = `<tr>${b.head.map((h) => `<th>${escapeHtml(h)}</th>`).join('')}</tr>`;
+      const head = `<tr>${b.head.map((h, i) => `<th${cls(i)}>${escapeHtml(h)}</th>`).join('')}</tr>`;
       const rows = b.rows.map((r) => `<tr>${r.map((c, i) => `<td${cls(i)}>${escapeHtml(c)}</td>`).join('')}</tr>`).join('\n');
       return `<div class="tablewrap"><table>${b.caption ? `<caption>${escapeHtml(b.caption)}</caption>` : ''}<thead>${head}</thead><tbody>\n${rows}\n</tbody></table></div>`;
     }
