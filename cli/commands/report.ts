@@ -27,6 +27,22 @@ export const describe = 'run a scene and write a design-review bundle (report.ht
 
 const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--force]';
 
+const HELP = `${USAGE}
+
+Runs the scene (and, for a quadrupole filter, an m/z sweep over its Mathieu window) and writes DIR:
+  report.html      self-contained page: tables, figures inline, no external files or addresses
+  report.md        the same as Markdown, with the fig-*.png beside it
+  results.json     every number of the report (SI units, energies in eV)
+  run/             the run folder (summary.json, ions.arrow, history.arrow, trajectories.arrow)
+  trajectory-sample/  a few recorded ions per species when the scene records no trajectories
+
+  -o, --out DIR      bundle folder; its parent must exist
+  --seed N           replace the scene's seed
+  --workers N        worker threads (default: all cores)
+  --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
+  --force            replace an existing DIR (the old one is removed only once the new one is complete)
+`;
+
 /** Folder names inside a bundle. */
 export const RUN_FOLDER = 'run';
 export const SAMPLE_FOLDER = 'trajectory-sample';
@@ -134,6 +150,12 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
   checkBundleTarget(out, opts.force ?? false);
   const tmp = join(dirname(out), `.${basename(out)}.report-${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
   mkdirSync(tmp);
+  // Ctrl-C between the runs (while figures are drawn) must not leave the temporary folder behind:
+  // note it and stop at the next step; during a run the engine's own handler finishes the run early.
+  let stop = false;
+  const onSigint = () => { stop = true; };
+  if (opts.handleSigint) process.on('SIGINT', onSigint);
+  const step = () => { if (stop) throw new Interrupted(); };
   try {
     const traits = sceneTraits(scene);
     const bar = opts.progressLabel !== undefined ? progressBar(opts.progressLabel) : null;
@@ -143,6 +165,7 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     });
     bar?.end();
     if (!summary.complete) throw new Interrupted();
+    step();
 
     let sample: ReportResults['provenance']['trajectory_sample'] = null;
     if (!traits.recordsTrajectories && !traits.spaceCharge) {
@@ -150,17 +173,20 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
       const sum = await runScene(s.scene, { out: join(tmp, SAMPLE_FOLDER), workers: opts.workers, sceneFile: opts.sceneFile, commandLine: `${opts.commandLine} (trajectory sample)`, handleSigint: opts.handleSigint });
       if (!sum.complete) throw new Interrupted();
       sample = { folder: SAMPLE_FOLDER, ions_per_population: SAMPLE_IONS, record_every: s.recordEvery };
+      step();
     }
 
     let sweep: SweepResult | null = null;
     let curve: SweepCurve | null = null;
     if (traits.kind === 'quadrupole') ({ result: sweep, curve } = await quadrupoleSweep(scene, opts));
+    step();
 
     const figures = await makeFigures({
       runDir: join(tmp, RUN_FOLDER), sampleDir: sample ? join(tmp, SAMPLE_FOLDER) : null, sampleName: sample ? `${SAMPLE_FOLDER}/` : undefined,
       kind: traits.kind, gas: traits.gas, sweep: curve,
       folderNames: new Map([[join(tmp, RUN_FOLDER), RUN_FOLDER], [join(tmp, SAMPLE_FOLDER), SAMPLE_FOLDER]]),
     });
+    step();
     for (const f of figures) writeFileSync(join(tmp, f.file), f.png);
     const results = buildResults({
       scene, summary, sweep, sample, runFolder: RUN_FOLDER,
@@ -187,6 +213,8 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     rmSync(tmp, { recursive: true, force: true });
     if (e instanceof Interrupted) return { dir: out, results: undefined as unknown as ReportResults, complete: false };
     throw e;
+  } finally {
+    if (opts.handleSigint) process.off('SIGINT', onSigint);
   }
 }
 
@@ -197,7 +225,7 @@ export async function run(argv: string[]): Promise<number> {
     repeatable: ['set'],
     aliases: { o: 'out', h: 'help' },
   }, 'report');
-  if (a.switches.has('help')) { process.stdout.write(USAGE + '\n'); return 0; }
+  if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`report: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
   if (!out) throw new UsageError('report: missing -o DIR (the bundle folder to write)');

@@ -10,7 +10,7 @@ import { execFileSync } from 'node:child_process';
 import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
 import { loadImage } from '@napi-rs/canvas';
-import { iontrail, tempDir, ROOT } from '../helpers/cli.js';
+import { iontrail, iontrailAsync, tempDir, ROOT } from '../helpers/cli.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 
 interface Bundle { name: string; dir: string; code: number; stderr: string }
@@ -266,6 +266,22 @@ describe('bad input: one line, exit 2, nothing left behind', () => {
     expect(leftovers(parent)).toEqual(['out']);
     rmSync(parent, { recursive: true, force: true });
   }, 60_000);
+
+  it('Ctrl-C during the run: exit 130, no DIR and no temporary folder', async () => {
+    const parent = tempDir('iontrail-report-int-');
+    const out = join(parent, 'out');
+    // A run of several seconds (trap cooling over 20 ms) so the signal lands inside it.
+    const child = iontrailAsync(['report', 'scenes/t7-trap-cooling.yaml', '-o', out, '--workers', '1', '--set', 'run.max_time=20ms']);
+    let stderr = '';
+    child.stderr!.on('data', (d) => { stderr += d; });
+    await new Promise((r) => setTimeout(r, 2500));
+    child.kill('SIGINT');
+    const code = await new Promise<number | null>((r) => child.on('exit', (c) => r(c)));
+    expect(code, stderr).toBe(130);
+    expect(stderr).toMatch(/interrupted; nothing written/);
+    expect(readdirSync(parent)).toEqual([]);
+    rmSync(parent, { recursive: true, force: true });
+  }, 90_000);
 
   it('missing parent folder of DIR', () => {
     const r = iontrail(['report', 'scenes/lt1-linear-tof.yaml', '-o', join(tmp, 'no', 'such', 'dir')]);
