@@ -192,8 +192,10 @@ export class LinearTracker {
       }
       c.ion = ion; c.slot = 0; c.t = 0; c.steps = 0;
       let f: number = Fate.alive;
-      // Stage to stage exactly as the engine's trackBatch does.
+      // Stage to stage exactly as the engine's trackBatch does. An ion drawn outside every stage
+      // (a start spread reaching past the first entrance) never enters: counted as lost.
       for (;;) {
+        if (s < 0) { f = Fate.hit; break; }
         const st = scene.stages[s];
         const code = st.type === 'quadrupole'
           ? this.quadrupole(s, pop, st, c)

@@ -1,0 +1,104 @@
+// The one-period transfer matrices of the ideal quadrupole (sim/analysis/transfer-matrix.ts)
+// against an outside reference: the Mathieu equation integrated with odex 2.0.4 (Hairer & Wanner's
+// extrapolation code, rtol = atol = 1e-13), and the textbook properties of Hill's equation.
+
+import { describe, expect, it } from 'vitest';
+import { fAt, mat2, periodTable, powerApply, rowAt } from '../../sim/analysis/transfer-matrix.js';
+import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
+
+/** F(θ) by odex: U'' = −(a/4 + (q/2) cos θ) U from 0 to θ, both fundamental solutions. */
+function odexF(a: number, q: number, theta: number): number[] {
+  const f = (t: number, y: Float64Array, d: Float64Array) => {
+    const w = a / 4 + (q / 2) * Math.cos(t);
+    d[0] = y[1]; d[1] = -w * y[0]; d[2] = y[3]; d[3] = -w * y[2];
+  };
+  if (theta === 0) return [1, 0, 0, 1];
+  const y = odexIntegrate(f, 0, [1, 0, 0, 1], theta, { rtol: 1e-13, atol: 1e-13 }).y;
+  return [y[0], y[2], y[1], y[3]]; // [[u1, u2], [u1', u2']]
+}
+
+// Operating points: Skerry QF-4 peak scan (m/z 502 near the apex, x and y), a = 0 (RF only), and
+// one outside the first region (unstable in x).
+const POINTS: [string, number, number][] = [
+  ['near the apex, x', 0.2350, 0.7046],
+  ['near the apex, y', -0.2350, -0.7046],
+  ['RF only, q = 0.5', 0, 0.5],
+  ['unstable, q = 0.95', 0, 0.95],
+];
+
+describe('one-period transfer matrix vs odex 2.0.4', () => {
+  for (const [label, a, q] of POINTS) {
+    it(`monodromy and F(θ) agree with odex (${label})`, () => {
+      const t = periodTable(a, q, 40);
+      const ref = odexF(a, q, 2 * Math.PI);
+      // Table error: RK4 with step 2π/1280, global error ≈ (ωh)⁴ ≈ 1e-12 relative; 1e-9 leaves room.
+      expect(Math.abs(t.m11 - ref[0])).toBeLessThan(1e-9);
+      expect(Math.abs(t.m12 - ref[1])).toBeLessThan(1e-9);
+      expect(Math.abs(t.m21 - ref[2])).toBeLessThan(1e-9);
+      expect(Math.abs(t.m22 - ref[3])).toBeLessThan(1e-9);
+      // Liouville: det M0 = 1 (Magnus & Winkler, Hill's Equation, 1966, §1.2).
+      expect(Math.abs(t.m11 * t.m22 - t.m12 * t.m21 - 1)).toBeLessThan(1e-10);
+      // Stability iff |tr M0| < 2 (same reference); q = 0.95 at a = 0 lies past the 0.908 edge.
+      expect(t.stable).toBe(Math.abs(ref[0] + ref[3]) < 2);
+      // Arbitrary phases: grid point plus one short RK4 step.
+      const F = mat2();
+      const row = new Float64Array(2);
+      for (const theta of [0.1234, 1.5, 2.9, 4.4, 6.2]) {
+        fAt(t, theta, F);
+        const r = odexF(a, q, theta);
+        expect(Math.abs(F.a11 - r[0])).toBeLessThan(1e-9);
+        expect(Math.abs(F.a12 - r[1])).toBeLessThan(1e-9);
+        expect(Math.abs(F.a21 - r[2])).toBeLessThan(1e-9);
+        expect(Math.abs(F.a22 - r[3])).toBeLessThan(1e-9);
+        // Third-order Taylor row: remainder ε⁴/24·|U''''| ≲ 2e-9·|F| (transfer-matrix.ts).
+        const i = Math.floor(theta / t.dTheta);
+        rowAt(t, i, theta - i * t.dTheta, row);
+        expect(Math.abs(row[0] - r[0])).toBeLessThan(1e-8);
+        expect(Math.abs(row[1] - r[1])).toBeLessThan(1e-8);
+      }
+    });
+  }
+
+  it('Courant–Snyder form is invariant under M0 (Courant & Snyder 1958, eq. 3.13)', () => {
+    const t = periodTable(0.2350, 0.7046, 40);
+    expect(t.stable).toBe(true);
+    expect(t.beta * t.gamma - t.alpha * t.alpha).toBeCloseTo(1, 9);
+    // I(M0·d) = I(d) for a few states d.
+    const inv = (d1: number, d2: number) => t.gamma * d1 * d1 + 2 * t.alpha * d1 * d2 + t.beta * d2 * d2;
+    for (const [d1, d2] of [[1, 0], [0, 1], [0.3, -0.7]]) {
+      const e1 = t.m11 * d1 + t.m12 * d2, e2 = t.m21 * d1 + t.m22 * d2;
+      expect(Math.abs(inv(e1, e2) - inv(d1, d2)) / inv(d1, d2)).toBeLessThan(1e-10);
+    }
+  });
+
+  it('matrix power by repeated squaring equals k one-period products', () => {
+    for (const [, a, q] of POINTS) {
+      const t = periodTable(a, q, 40);
+      const out = new Float64Array(2);
+      let d1 = 0.2, d2 = -0.1;
+      for (let k = 1; k <= 37; k++) {
+        const e = t.m11 * d1 + t.m12 * d2; d2 = t.m21 * d1 + t.m22 * d2; d1 = e;
+        powerApply(t, k, 0.2, -0.1, out);
+        const scale = Math.max(1, Math.hypot(d1, d2));
+        expect(Math.abs(out[0] - d1) / scale).toBeLessThan(1e-12);
+        expect(Math.abs(out[1] - d2) / scale).toBeLessThan(1e-12);
+      }
+    }
+  });
+
+  it('the unstable eigen-bound holds: |U(θ)| ≤ |A|h1|λ|^k + |B|h2|λ|^-k over 20 periods', () => {
+    const t = periodTable(0, 0.95, 40);
+    const c1 = 0.01, c2 = 0.02;
+    const A = Math.abs(t.vi11 * c1 + t.vi12 * c2), B = Math.abs(t.vi21 * c1 + t.vi22 * c2);
+    const F = mat2(), d = new Float64Array(2);
+    for (let k = 0; k < 20; k++) {
+      powerApply(t, k, c1, c2, d);
+      const bound = A * t.h1 * Math.abs(t.lambda) ** k + B * t.h2 * Math.abs(t.lambda) ** -k;
+      for (let j = 0; j < 64; j++) {
+        fAt(t, (2 * Math.PI * j) / 64, F);
+        // Grid bound plus 1e-3 (the margin the path uses between grid points).
+        expect(Math.abs(F.a11 * d[0] + F.a12 * d[1])).toBeLessThanOrEqual(bound * (1 + 1e-3));
+      }
+    }
+  });
+});
