@@ -3,6 +3,7 @@
 import type { IonBatch } from './batch.js';
 import type { TrajectoryRecorder } from './recorder.js';
 import type { EnsembleHistory } from './history.js';
+import type { HardSphereKernel } from '../gas/hardsphere.js';
 
 /** Advance ion `slot`'s velocity through gas over dt (see sim/gas); mutates the batch arrays. */
 export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
@@ -42,6 +43,8 @@ export interface StepContext {
   gas: GasStep | null;
   /** Drag model only: exact position-and-velocity step in a uniform field (uniform stages use it). */
   gasField: GasFieldStep | null;
+  /** Hard-sphere model: the same physics as `gas`, as pieces a kernel can keep in locals. */
+  hardSphere?: HardSphereKernel | null;
 }
 
 /** Steps from now until a trajectory point or a history sample is due (Infinity: neither). */

@@ -4,11 +4,13 @@
 import type { Scene } from '../scene/types.js';
 import { makeGasStep } from '../gas/step.js';
 import { makeDragFieldStep } from '../gas/drag.js';
+import { makeHardSphereKernel, type HardSphereKernel } from '../gas/hardsphere.js';
 import type { GasFieldStep, GasStep } from './context.js';
 
 export interface StageGas {
   step: GasStep | null;
   field: GasFieldStep | null;
+  hardSphere: HardSphereKernel | null;
 }
 
 export type GasFactory = (stage: number) => StageGas;
@@ -16,9 +18,14 @@ export type GasFactory = (stage: number) => StageGas;
 export function gasFactory(scene: Scene): GasFactory {
   const steps: StageGas[] = scene.stages.map((st) => {
     const g = st.gas ?? scene.gas;
-    if (!g) return { step: null, field: null };
+    if (!g) return { step: null, field: null, hardSphere: null };
     const uniform = st.type === 'drift' || st.type === 'accelerate';
-    return { step: makeGasStep(g, scene.seed), field: uniform && g.model === 'drag' ? makeDragFieldStep(g, scene.seed) : null };
+    if (g.model === 'hard-sphere') {
+      // One kernel object serves both forms, so an ion's collision state is shared between them.
+      const k = makeHardSphereKernel(g, scene.seed);
+      return { step: k.step, field: null, hardSphere: st.type === 'trap' ? k : null };
+    }
+    return { step: makeGasStep(g, scene.seed), field: uniform ? makeDragFieldStep(g, scene.seed) : null, hardSphere: null };
   });
   return (stage) => steps[stage];
 }

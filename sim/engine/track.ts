@@ -42,7 +42,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const run = scene.run;
   const rec = run.recordEvery > 0 ? new TrajectoryRecorder(Math.min(1 << 16, count * 64)) : null;
   const hist = new EnsembleHistory(run.historyEvery, run.maxTime);
-  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null, gasField: null };
+  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null, gasField: null, hardSphere: null };
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
   const electrostatic = isElectrostatic(scene);
   const base = stageBasePotentials(scene);
@@ -74,6 +74,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       const st = scene.stages[s];
       ctx.gas = gasSteps[s].step;
       ctx.gasField = gasSteps[s].field;
+      ctx.hardSphere = gasSteps[s].hardSphere;
       let code;
       switch (st.type) {
         case 'quadrupole':

@@ -50,6 +50,13 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   const psi = omega * (tEntry + c.tau) + st.rf.phase;
   const cp = Math.cos(psi), sp = Math.sin(psi);
   const gas = ctx.gas;
+  // Hard-sphere gas through its kernel pieces (sim/gas/hardsphere.ts): the ion's optical depth,
+  // speed bound and majorant rate stay in locals, and the kernel runs only when a candidate
+  // collision is due or the speed outgrows its bound — bit-identical to calling the plain step.
+  const hk = ctx.hardSphere ?? null;
+  let depth = 0, lim = 0, rate = 0;
+  if (hk !== null) { hk.enter(ctx.batch, c.slot); depth = hk.depth; lim = hk.limit2; rate = hk.rate; }
+  const leave = (code: ExitCode): ExitCode => { if (hk !== null) hk.leave(ctx.batch, c.slot, depth); return code; };
 
   let x = c.x, y = c.y, z = c.z - zc, vx = c.vx, vy = c.vy, vz = c.vz;
   const span = ctx.maxTime - tEntry;
@@ -121,27 +128,37 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
     j += 2;
     if (j === jEnd) j = 0;
     const r2 = x * x + y * y, zz2 = 2 * z * z;
-    if (r2 - zz2 >= r0sq) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return Exit.hit; }
+    if (r2 - zz2 >= r0sq) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.hit); }
     if (zz2 - r2 >= z0sq2) {
-      if (r2 >= ap2) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return Exit.hit; }
+      if (r2 >= ap2) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.hit); }
       // Through the end-cap hole: field-free from here to the stage boundary.
       const zb = vz > 0 ? st.zEnd - zc : st.zStart - zc;
       const dt = vz !== 0 ? (zb - z) / vz : Infinity;
       if (!(t1 + dt <= ctx.maxTime)) {
         const rem = ctx.maxTime - t1;
         storeCursor(c, ctx.maxTime, x + vx * rem, y + vy * rem, z + zc + vz * rem, vx, vy, vz, n);
-        return Exit.time;
+        return leave(Exit.time);
       }
       storeCursor(c, t1 + dt, x + vx * dt, y + vy * dt, zb + zc, vx, vy, vz, n);
       return vz > 0 ? Exit.forward : Exit.backward;
     }
-    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return Exit.time; }
+    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.time); }
     if (--watchIn <= 0) {
       storeCursor(c, t1, x, y, z + zc, vx, vy, vz, 0);
       observe(c, ctx, span0);
       watchIn = span0 = stepsToWatch(c, ctx, h);
     }
-    if (gas !== null) {
+    if (hk !== null) {
+      const v2 = vx * vx + vy * vy + vz * vz, d = depth - rate * h;
+      if (v2 <= lim && d > 0) depth = d;
+      else {
+        const b = ctx.batch, i = c.slot;
+        b.vx[i] = vx; b.vy[i] = vy; b.vz[i] = vz;
+        hk.collide(b, i, h, depth);
+        depth = hk.depth; lim = hk.limit2; rate = hk.rate;
+        vx = b.vx[i]; vy = b.vy[i]; vz = b.vz[i];
+      }
+    } else if (gas !== null) {
       const b = ctx.batch, i = c.slot;
       b.vx[i] = vx; b.vy[i] = vy; b.vz[i] = vz;
       gas(b, i, h);
@@ -149,7 +166,7 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
     }
   }
   storeCursor(c, tEntry + n * h, x, y, z + zc, vx, vy, vz, n);
-  return Exit.time;
+  return leave(Exit.time);
 
   function vAt(t: number): number {
     return t >= tRampEnd ? kVto : kV0 + kRate * t;
