@@ -170,7 +170,7 @@ async function engineRates(): Promise<string> {
         rmSync(dir, { recursive: true, force: true });
       }
     }
-    return `iontrail run, trap scene (plain GasStep), 1 worker: ${(out[0] / 1e6).toFixed(2)} M ion-steps/s without gas `
+    return `iontrail run, trap scene (engine trap kernel, hard-sphere kernel pieces), 1 worker: ${(out[0] / 1e6).toFixed(2)} M ion-steps/s without gas `
       + `(${stepsSeen[0]} steps), ${(out[1] / 1e6).toFixed(2)} M with (${stepsSeen[1]} steps); ratio ${(out[1] / out[0]).toFixed(2)}  (goal >= 0.67)`;
   } catch (e) {
     return `iontrail run not measured (${(e as Error).message.split('\n')[0]})`;
