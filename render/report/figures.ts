@@ -46,18 +46,30 @@ export interface FigureInput {
 
 const W = 1100;
 
-/** First `n` ion ids of each population, in ion order. */
+/**
+ * Up to `n` ion ids of each population: first the earliest ion of each fate present (detected,
+ * still stored or in flight, struck), so a few traces show what happened to the species, then the
+ * earliest remaining ions. Sorted by id.
+ */
 export function ionsPerPopulation(run: RunFolder, n: number): number[] {
-  const taken = new Map<number, number>();
-  const out: number[] = [];
+  const rowsOf = new Map<number, number[]>();
   for (let r = 0; r < run.ions.ion.length; r++) {
     const p = run.ions.population[r];
-    const k = taken.get(p) ?? 0;
-    if (k >= n) continue;
-    taken.set(p, k + 1);
-    out.push(run.ions.ion[r]);
+    const l = rowsOf.get(p) ?? [];
+    l.push(r);
+    rowsOf.set(p, l);
   }
-  return out;
+  const out: number[] = [];
+  for (const rows of rowsOf.values()) {
+    const pick = new Set<number>();
+    for (const fate of ['detected', 'alive', 'hit']) {
+      const r = rows.find((x) => run.ions.fate[x] === fate);
+      if (r !== undefined && pick.size < n) pick.add(r);
+    }
+    for (const r of rows) { if (pick.size >= n) break; pick.add(r); }
+    for (const r of pick) out.push(run.ions.ion[r]);
+  }
+  return out.sort((a, b) => a - b);
 }
 
 async function png(spec: FigureSpec, width: number, height: number): Promise<Buffer> {
@@ -127,7 +139,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
     const from = trajDir === input.runDir ? '' : ` (from the trajectory sample in ${input.sampleName ?? trajDir})`;
     const ions = ionsPerPopulation(trajRun, input.tracesPerPopulation ?? 3);
     if (ions.length > 0) {
-      await kindFig('traces', 'Time traces', `x, y, z and kinetic energy against time of the first ${input.tracesPerPopulation ?? 3} ions of each species${from}.`,
+      await kindFig('traces', 'Time traces', `x, y, z and kinetic energy against time of ${input.tracesPerPopulation ?? 3} ions of each species (one of each fate that occurs, then the first others)${from}.`,
         trajDir, 'traces', 900, { ions: ions.join(',') });
     }
     const n3 = Math.max(1, Math.ceil((input.ions3d ?? 60) / Math.max(1, new Set(trajRun.ions.population).size)));
