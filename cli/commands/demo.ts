@@ -19,7 +19,7 @@ const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replac
 export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml'];
 
 const CHECKS: string[][] = [
-  ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '600V', '--dc', '40V', '--mz', '502', '--rf-max', '5kV'],
+  ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '832V', '--dc', '138.3V', '--mz', '502', '--rf-max', '5kV'],
   ['--analyzer', 'trap', '--r0', '7.07mm', '--freq', '1.05MHz', '--rf', '400V', '--mz', '609'],
 ];
 
