@@ -4,17 +4,36 @@
 // (Dawson 1976, eq. 2.6 in the form before the Mathieu substitution). Classic RK4
 // (Hairer, Nørsett & Wanner, Solving ODEs I, Table II.1.2) on fixed steps h = T/n.
 //
-// Speed: the loop runs in scaled variables X = x/r0, P = h·vx/r0 and G = g·h², so the step is 1,
-// the electrode test is X² + Y² ≥ 1 and few values stay live (V8 keeps them in registers). G at
-// the half steps of one period is tabulated per ion (the phase table gives cos, sin; the ion's
-// phase ψ enters once), so a step reads three numbers. vz is constant, so the exit time is known
-// and the last step is shortened to land on the stage end exactly.
+// Speed: the loop runs in scaled variables X = x/r0, P = h·vx/r0 and G = g·h², so the step is 1
+// and the electrode test is X² + Y² ≥ 1. The equations are linear, so one RK4 step from phase k is
+// a fixed 2×2 map of (X, P) — its amplification matrix, the RK4 stages applied to the unit vectors
+// (Hairer, Nørsett & Wanner I, §II.1; the same arithmetic as the stage formulas, regrouped). The
+// matrices of the steps of one period are built per ion from G at the half steps (the phase table
+// gives cos, sin; the ion's phase ψ enters once), so a step costs 8 multiplications. vz is
+// constant, so the exit time is known and the last step is shortened to land on the stage end.
 
 import type { QuadrupoleStage } from '../../scene/types.js';
 import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
 import { phaseTable } from '../phase-table.js';
 
 let gTab = new Float64Array(0);
+let mTab = new Float64Array(0);
+
+/**
+ * RK4 amplification matrix of u'' = s·g(t)·u over one unit step with g = g0, g1, g2 at the start,
+ * middle and end (s = −1 for x, +1 for y), written into m[o..o+3] as [a11, a12, a21, a22].
+ */
+function rk4Matrix(m: Float64Array, o: number, sg: number, g0: number, g1: number, g2: number): void {
+  for (let col = 0; col < 2; col++) {
+    const X = col === 0 ? 1 : 0, P = col === 0 ? 0 : 1;
+    const a1 = sg * g0 * X;
+    const X2 = X + 0.5 * P, P2 = P + 0.5 * a1, a2 = sg * g1 * X2;
+    const X3 = X + 0.5 * P2, P3 = P + 0.5 * a2, a3 = sg * g1 * X3;
+    const X4 = X + P3, P4 = P + a3, a4 = sg * g2 * X4;
+    m[o + col] = X + (P + 2 * P2 + 2 * P3 + P4) * (1 / 6);
+    m[o + 2 + col] = P + (a1 + 2 * a2 + 2 * a3 + a4) * (1 / 6);
+  }
+}
 
 export function trackQuadrupole(st: QuadrupoleStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
   const omega = 2 * Math.PI * st.rf.frequency;
@@ -29,13 +48,19 @@ export function trackQuadrupole(st: QuadrupoleStage, c: IonCursor, ctx: StepCont
   if (gTab.length < jEnd + 1) gTab = new Float64Array(jEnd + 1);
   const G = gTab;
   for (let j = 0; j <= jEnd; j++) G[j] = k * (st.dc + st.rf.amplitude * (tab.cos[j] * cp - tab.sin[j] * sp));
+  if (mTab.length < 8 * stepsPerCycle) mTab = new Float64Array(8 * stepsPerCycle);
+  const M = mTab;
+  for (let p = 0; p < stepsPerCycle; p++) {
+    rk4Matrix(M, 8 * p, -1, G[2 * p], G[2 * p + 1], G[2 * p + 2]);
+    rk4Matrix(M, 8 * p + 4, 1, G[2 * p], G[2 * p + 1], G[2 * p + 2]);
+  }
   const gas = ctx.gas;
   const toP = h / r0, fromP = r0 / h;
 
   let X = c.x / r0, Y = c.y / r0, PX = c.vx * toP, PY = c.vy * toP;
   let z = c.z, vz = c.vz;
   let n = 0; // full steps taken in this stage
-  let j = 0; // half-step index into the table
+  let j = 0; // step index within the period (matrix table)
   let span0 = stepsToWatch(c, ctx, h);
   let watchIn = span0;
 
@@ -52,23 +77,11 @@ export function trackQuadrupole(st: QuadrupoleStage, c: IonCursor, ctx: StepCont
       // Steps until something must look at the ion: a record, a history sample, a gas event.
       const lim = gas !== null ? 1 : Math.min(full - n, watchIn);
       for (let s = 0; s < lim; s++) {
-        const g0 = G[j], g1 = G[j + 1], g2 = G[j + 2];
-        // x'' = -g x
-        const ax1 = -g0 * X;
-        const X2 = X + 0.5 * PX, P2 = PX + 0.5 * ax1, ax2 = -g1 * X2;
-        const X3 = X + 0.5 * P2, P3 = PX + 0.5 * ax2, ax3 = -g1 * X3;
-        const X4 = X + P3, P4 = PX + ax3, ax4 = -g2 * X4;
-        X += (PX + 2 * P2 + 2 * P3 + P4) * (1 / 6);
-        PX += (ax1 + 2 * ax2 + 2 * ax3 + ax4) * (1 / 6);
-        // y'' = +g y
-        const ay1 = g0 * Y;
-        const Y2 = Y + 0.5 * PY, Q2 = PY + 0.5 * ay1, ay2 = g1 * Y2;
-        const Y3 = Y + 0.5 * Q2, Q3 = PY + 0.5 * ay2, ay3 = g1 * Y3;
-        const Y4 = Y + Q3, Q4 = PY + ay3, ay4 = g2 * Y4;
-        Y += (PY + 2 * Q2 + 2 * Q3 + Q4) * (1 / 6);
-        PY += (ay1 + 2 * ay2 + 2 * ay3 + ay4) * (1 / 6);
-        j += 2;
-        if (j === jEnd) j = 0;
+        const o = 8 * j;
+        const nX = M[o] * X + M[o + 1] * PX, nP = M[o + 2] * X + M[o + 3] * PX;
+        const nY = M[o + 4] * Y + M[o + 5] * PY, nQ = M[o + 6] * Y + M[o + 7] * PY;
+        X = nX; PX = nP; Y = nY; PY = nQ;
+        if (++j === stepsPerCycle) j = 0;
         if (X * X + Y * Y >= 1) {
           n += s + 1;
           storeCursor(c, tEntry + n * h, X * r0, Y * r0, zFrom + (n - nFrom) * h * vz, PX * fromP, PY * fromP, vz, n);

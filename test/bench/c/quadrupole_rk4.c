@@ -1,7 +1,9 @@
-/* Reference kernel for test/bench/engine.bench.ts: the same physics and algorithm as
+/* Plain C RK4 reference for test/bench/engine.bench.ts: the same physics as
  * sim/engine/kernels/quadrupole.ts — ideal quadrupole, x'' = -g x, y'' = +g y,
  * g = 2q(U + V cos θ)/(m r0²), classic RK4 on h = T/n with a half-step cos/sin table, exact exit
- * time from the constant vz; the loop in scaled variables with a per-ion table of g·h² as there.
+ * time from the constant vz; the four RK4 stages written out per step, in scaled variables with a
+ * per-ion table of g·h² (the TypeScript kernel applies each step as its amplification matrix
+ * instead; quadrupole_rk4_matrix.c does the same in C).
  * Loss when x² + y² >= r0². Plain C, single thread, built with cc -O2.
  * usage: quadrupole_rk4 N_IONS  → prints "ion_steps seconds detected" */
 #include <math.h>
