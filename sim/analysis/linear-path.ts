@@ -16,6 +16,11 @@
 //     the ion's own phase, computed on first use).
 // When both axes are stable, that last scan visits only the check phases whose per-check
 // envelope reaches r0 (see quadrupole()).
+// The common layout (ions start in a quadrupole followed only by open drifts, start draws reused)
+// runs first as one tight loop over the batch (tier1Batch): tier 1, the same per-check scan for
+// stable ions with each check further bounded by the arc its Floquet phase sweeps in the rods, and
+// for growing ions the quiet-period jump plus period-end checks; whatever it cannot decide goes
+// through the per-ion code above. Both apply the same arithmetic to the same checks.
 // A loss is decided by a check sample at or past r0 (the same samples as the direct kernel); the
 // hit time reported is that sample's, which for probe-caught ions may be a little after the first.
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
@@ -74,6 +79,9 @@ export interface LinearOptions {
 }
 
 interface AxisPair { x: PeriodTable; y: PeriodTable }
+
+/** Tables of finished trackers, whose arrays the next point's tables reuse. */
+const spareTables: PeriodTable[] = [];
 
 /**
  * Every ion's start state as startIon gives it, kept so that later points of a sweep can reuse
@@ -134,6 +142,7 @@ export class LinearTracker {
   /** Whether a stage after (before) stage s looks at the transverse state. */
   private readonly needAfter: boolean[];
   private readonly needBefore: boolean[];
+  private readonly openTail: boolean[];
   private readonly offsets: number[];
   private readonly b = allocateBatch(1);
   private readonly ctx: StepContext;
@@ -150,6 +159,8 @@ export class LinearTracker {
   /** Ions decided by tier 1 / tier 2-3 in quadrupole stages (for the benchmark's breakdown). */
   envelopeCleared = 0;
   periodLoops = 0;
+  /** Ions left to the per-ion path by the batch pass. */
+  perIon = 0;
 
   constructor(private readonly scene: Scene, opts: LinearOptions = {}) {
     const why = nonLinearReason(scene);
@@ -160,6 +171,9 @@ export class LinearTracker {
     const looks = scene.stages.map((st) => st.type === 'quadrupole' || Number.isFinite((st as DriftStage).aperture));
     this.needAfter = looks.map((_, s) => looks.slice(s + 1).some(Boolean));
     this.needBefore = looks.map((_, s) => looks.slice(0, s).some(Boolean));
+    // Stage s is followed only by drifts without aperture or gas (vz > 0 there stays > 0).
+    this.openTail = scene.stages.map((_, s) => s < scene.stages.length - 1
+      && scene.stages.slice(s + 1).every((t) => t.type === 'drift' && !Number.isFinite(t.aperture) && !t.gas));
     this.ctx = { batch: this.b, maxTime: scene.run.maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null };
   }
 
@@ -171,16 +185,20 @@ export class LinearTracker {
     const scene = this.scene, b = this.b, c = this.c;
     const cached = starts !== undefined && starts.serves(scene) ? starts : null;
     const scale = cached ? scene.ions.map((p, k) => Math.sqrt(cached.mass[k] / ionMassKg(p.mz, p.charge))) : [];
+    const mass = scene.ions.map((p) => ionMassKg(p.mz, p.charge)), charge = scene.ions.map((p) => p.charge * ELEMENTARY_CHARGE);
+    const done = cached ? this.tier1Batch(start, count, cached, scale, mass, charge, fate, endTime) : null;
     let pop = 0;
     while (start >= this.offsets[pop + 1]) pop++;
     for (let k = 0; k < count; k++) {
       const ion = start + k;
       while (ion >= this.offsets[pop + 1]) pop++;
+      if (done !== null && done[k] === 1) continue;
+      this.perIon++;
       let s: number;
       if (cached) {
-        const p = scene.ions[pop], f = scale[pop];
+        const f = scale[pop];
         c.tau = cached.tau[ion];
-        c.m = ionMassKg(p.mz, p.charge); c.q = p.charge * ELEMENTARY_CHARGE;
+        c.m = mass[pop]; c.q = charge[pop];
         c.x = cached.x[ion]; c.y = cached.y[ion]; c.z = cached.z[ion];
         c.vx = cached.vx[ion] * f; c.vy = cached.vy[ion] * f; c.vz = cached.vz[ion] * f;
         s = cached.stage[ion];
@@ -204,6 +222,7 @@ export class LinearTracker {
         if (code === Exit.time) { f = Fate.alive; break; }
         if (code === Exit.forward) {
           if (s === scene.stages.length - 1) { f = Fate.detected; break; }
+          if (this.openTail[s]) { f = this.openDrifts(s + 1, c); break; }
           s++;
         } else {
           if (s === 0) { f = Fate.hit; break; }
@@ -224,7 +243,7 @@ export class LinearTracker {
       const k = q / (m * st.r0 * st.r0 * omega * omega);
       const a = 8 * k * st.dc, qq = 4 * k * st.rf.amplitude;
       const M = this.scene.run.stepsPerCycle;
-      t = { x: periodTable(a, qq, M), y: periodTable(-a, -qq, M) };
+      t = { x: periodTable(a, qq, M, undefined, spareTables.pop()), y: periodTable(-a, -qq, M, undefined, spareTables.pop()) };
       this.tables.set(key, t);
       if (this.rx1.length < M + 1) {
         this.rx1 = new Float64Array(M + 1); this.rx2 = new Float64Array(M + 1);
@@ -269,8 +288,23 @@ export class LinearTracker {
     return k;
   }
 
+  /**
+   * Forward through field-free drifts without apertures to the end: trackUniform's arithmetic for
+   * a = 0, R = ∞ and no gas (crossing time (zEnd − z)/vz; out of time when max_time comes first).
+   */
+  private openDrifts(from: number, c: IonCursor): number {
+    const st = this.scene.stages;
+    for (let s = from; s < st.length; s++) {
+      const tExit = (st[s].zEnd - c.z) / c.vz;
+      const tLeft = this.ctx.maxTime - c.t;
+      if (tLeft < tExit) { c.t += tLeft; c.z += tLeft * c.vz; return Fate.alive; }
+      c.t += tExit; c.z = st[s].zEnd;
+    }
+    return Fate.detected;
+  }
+
   private probeList: number[] = [];
-  /** Probe checks of a period: its end (m = M), then M/2, M/4, 3M/4. */
+  /** Probe checks of a period: its end (m = M, checked from F(ψ) directly), then M/2, M/4, 3M/4. */
   private probes(M: number): number[] {
     if (this.probeList[0] !== M) {
       const set = [M, Math.round(M / 2), Math.round(M / 4), Math.round((3 * M) / 4)].filter((m) => m >= 1 && m <= M);
@@ -283,6 +317,12 @@ export class LinearTracker {
   private hitAt(c: IonCursor, tEntry: number, n: number, h: number, x: number, y: number, z: number, vz: number): ExitCode {
     storeCursor(c, tEntry + n * h, x, y, z + n * h * vz, c.vx, c.vy, vz, n);
     return Exit.hit;
+  }
+
+  /** Hand this tracker's tables back for reuse; the tracker must not be used afterwards. */
+  release(): void {
+    for (const t of this.tables.values()) if (spareTables.length < 16) spareTables.push(t.x, t.y);
+    this.tables.clear();
   }
 
   /** Check row m of both axes for the current ion (grid point i0 + m·S, offset eps). */
@@ -302,6 +342,331 @@ export class LinearTracker {
     this.rowStamp[m] = stamp;
   }
 
+  private doneMask = new Uint8Array(0);
+
+  /**
+   * Tier 1 for a whole batch in one tight loop (the common layout: ions start in a quadrupole
+   * stage that only open drifts follow, moving forward). Same arithmetic as quadrupole() for the
+   * entry state and the envelope test; ions it cannot clear are left to the per-ion path.
+   * Returns done[k] = 1 for the ions it decided.
+   */
+  private tier1Batch(start: number, count: number, st0: StartStates, scale: number[], mass: number[], charge: number[], fate: Int8Array, endTime?: Float64Array): Uint8Array {
+    if (this.doneMask.length < count) this.doneMask = new Uint8Array(count);
+    const done = this.doneMask;
+    done.fill(0, 0, count);
+    const scene = this.scene, stages = scene.stages, maxTime = this.ctx.maxTime, R2 = this.r2;
+    const TWO_PI = 2 * Math.PI, g = 1 + ENVELOPE_MARGIN;
+    let k = 0;
+    while (k < count) {
+      // A run of ions of one population starting in one stage.
+      const ion0 = start + k;
+      let pop = 0;
+      while (ion0 >= this.offsets[pop + 1]) pop++;
+      const s0 = st0.stage[ion0];
+      let end = k + 1;
+      const popEnd = this.offsets[pop + 1] - start;
+      while (end < count && end < popEnd && st0.stage[start + end] === s0) end++;
+      const st = s0 >= 0 ? stages[s0] : null;
+      if (st === null || st.type !== 'quadrupole' || !(s0 === stages.length - 1 || this.openTail[s0])) { k = end; continue; }
+      const { x: tx, y: ty } = this.pair(s0, pop, st, mass[pop], charge[pop]);
+      const bothStable = tx.stable && ty.stable;
+      const M = tx.checks, h = 1 / st.rf.frequency / M;
+      // Unstable axes: eigen-bound terms (quietPeriods) and the monodromies for the jump.
+      const lx = tx.stable ? 1 : Math.abs(tx.lambda), ly = ty.stable ? 1 : Math.abs(ty.lambda);
+      const v = this.v;
+      const omega = 2 * Math.PI * st.rf.frequency, phase = st.rf.phase, r0 = st.r0, toP = 1 / (r0 * omega);
+      const dT = tx.dTheta, nn = tx.n, cs = tx.cos, sn = tx.sin;
+      const f11x = tx.f11, f12x = tx.f12, f21x = tx.f21, f22x = tx.f22;
+      const f11y = ty.f11, f12y = ty.f12, f21y = ty.f21, f22y = ty.f22;
+      const w0x = tx.w0, w1x = tx.w1, w0y = ty.w0, w1y = ty.w1;
+      const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = g * tx.wMax;
+      const gy = ty.gamma, ay = ty.alpha, by = ty.beta, Wy = g * ty.wMax;
+      const sc = scale[pop], zEnd = st.zEnd;
+      const X = st0.x, Y = st0.y, VX = st0.vx, VY = st0.vy, Z = st0.z, VZ = st0.vz, TAU = st0.tau;
+      for (let j = k; j < end; j++) {
+        const i = start + j;
+        const vz = VZ[i] * sc;
+        if (!(vz > 0)) continue;
+        const tExit = (zEnd - Z[i]) / vz;
+        if (!(tExit <= maxTime)) continue;
+        const th0 = omega * TAU[i] + phase;
+        let psi = th0 - TWO_PI * Math.floor(th0 / TWO_PI);
+        if (psi >= TWO_PI) psi -= TWO_PI;
+        const i0 = Math.min(nn - 1, Math.floor(psi / dT));
+        const e = psi - i0 * dT, e2 = e * e, hh = 0.5 * e, h2 = hh * hh, e6 = e / 6, eh = 0.5 * e;
+        // smallAngle(), inlined: cos and sin of ε and ε/2 by their Taylor series.
+        const ce = 1 - 0.5 * e2 * (1 - e2 / 12), se = e * (1 - (e2 / 6) * (1 - e2 / 20));
+        const ch = 1 - 0.5 * h2 * (1 - h2 / 12), sh = hh * (1 - (h2 / 6) * (1 - h2 / 20));
+        const c = cs[i0], s = sn[i0];
+        const k1 = c * ch - s * sh, k2 = c * ce - s * se;
+        // fAtGrid(), inlined: one RK4 step of ε on both columns, x then y.
+        let g0 = w0x + w1x * c, g1 = w0x + w1x * k1, g2 = w0x + w1x * k2;
+        let u = f11x[i0], p = f21x[i0];
+        let a1 = -g0 * u, u2 = u + eh * p, p2 = p + eh * a1, a2 = -g1 * u2, u3 = u + eh * p2, p3 = p + eh * a2, a3 = -g1 * u3, u4 = u + e * p3, p4 = p + e * a3, a4 = -g2 * u4;
+        const F11 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), F21 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
+        u = f12x[i0]; p = f22x[i0];
+        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
+        const F12 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), F22 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
+        const X0 = X[i] / r0, P0 = VX[i] * sc * toP;
+        let det = F11 * F22 - F12 * F21;
+        const cx1 = (F22 * X0 - F12 * P0) / det, cx2 = (-F21 * X0 + F11 * P0) / det;
+        g0 = w0y + w1y * c; g1 = w0y + w1y * k1; g2 = w0y + w1y * k2;
+        u = f11y[i0]; p = f21y[i0];
+        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
+        const G11 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), G21 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
+        u = f12y[i0]; p = f22y[i0];
+        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
+        const G12 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), G22 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
+        const Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
+        det = G11 * G22 - G12 * G21;
+        const cy1 = (G22 * Y0 - G12 * Q0) / det, cy2 = (-G21 * Y0 + G11 * Q0) / det;
+        if (!bothStable) {
+          // A growing ion: skip the quiet periods, then step period by period checking the
+          // period-end sample X = F(ψ)·d_{k+1} (a real check of the direct kernel's grid). A
+          // sample at or past r0 decides the loss; an ion not caught that way before the last
+          // full period goes to the per-ion path, which decides it exactly.
+          const full = Math.floor(tExit / h), kMax = Math.ceil(full / M);
+          const envX = tx.stable ? Wx * (gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2) : 0;
+          const envY = ty.stable ? Wy * (gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2) : 0;
+          let gxu = 0, sxu = 0, gyu = 0, syu = 0;
+          if (!tx.stable) { gxu = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * lx; sxu = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2; }
+          if (!ty.stable) { gyu = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * ly; syu = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2; }
+          const ilx = 1 / lx, ily = 1 / ly;
+          let q = 0;
+          for (; q < kMax; q++) {
+            const bxq = tx.stable ? envX : (gxu + sxu) * (gxu + sxu);
+            const byq = ty.stable ? envY : (gyu + syu) * (gyu + syu);
+            if (!(bxq + byq < R2)) break;
+            gxu *= lx; sxu *= ilx; gyu *= ly; syu *= ily;
+          }
+          if (q >= kMax) continue;
+          powerApply(tx, q, cx1, cx2, v); let dx1 = v[0], dx2 = v[1];
+          powerApply(ty, q, cy1, cy2, v); let dy1 = v[0], dy2 = v[1];
+          let hit = false;
+          for (let base = q * M; base + M <= full; base += M) {
+            const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
+            const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
+            const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
+            if (Xe * Xe + Ye * Ye >= R2) {
+              hit = true;
+              if (endTime) endTime[j] = (base + M) * h;
+              break;
+            }
+            dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2;
+          }
+          if (!hit) continue;
+          fate[j] = Fate.hit;
+          done[j] = 1;
+          this.periodLoops++;
+          continue;
+        }
+        const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
+        const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
+        if (!(Wx * ix + Wy * iy < R2)) {
+          // Tier 2 with both axes stable: the per-check envelope (Courant–Snyder form at the ion's
+          // own check phases) leaves a few checks that can hit at all; visit those in every period.
+          const full = Math.floor(tExit / h);
+          let nc = 0;
+          const cand = this.cand, rx1 = this.rx1, rx2 = this.rx2, ry1 = this.ry1, ry2 = this.ry2;
+          const S = tx.sub;
+          // Over the stage's periods k = 0..Kp the normalized state z_k turns by k·μ (mod π for
+          // U²): each check's value is confined to an arc of angles, so U² ≤ max of the arc's
+          // cos² (1 when the arc holds a multiple of π) — tighter than the all-time envelope when
+          // few turns fit in the rods (near the edges of the region, μ → 0 or π).
+          const Kp = Math.ceil(full / M);
+          const sbx = Math.sqrt(bx), sby = Math.sqrt(by);
+          const zx1 = cx1 / sbx, zx2 = (ax * cx1) / sbx + sbx * cx2;
+          const zy1 = cy1 / sby, zy2 = (ay * cy1) / sby + sby * cy2;
+          const Lx = Kp * tx.muEff, Ly = Kp * ty.muEff;
+          const wholeX = Math.abs(Lx) >= Math.PI, wholeY = Math.abs(Ly) >= Math.PI;
+          const cLx = Math.cos(Lx), sLx = Math.sin(Lx), cLy = Math.cos(Ly), sLy = Math.sin(Ly);
+          for (let m = 1; m <= M; m++) {
+            let ii = i0 + m * S;
+            const wrap = ii >= nn;
+            if (wrap) ii -= nn;
+            // rowAt(), inlined (third-order Taylor from the grid point).
+            const wxx = w0x + w1x * cs[ii], dwx = -w1x * sn[ii], wyy = w0y + w1y * cs[ii], dwy = -w1y * sn[ii];
+            const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
+            let a = f11x[ii], pa = f21x[ii], b2 = f12x[ii], pb = f22x[ii];
+            let r1 = a + e * pa - E2 * wxx * a - E3 * (dwx * a + wxx * pa);
+            let r2 = b2 + e * pb - E2 * wxx * b2 - E3 * (dwx * b2 + wxx * pb);
+            if (wrap) { const w1 = r1 * tx.m11 + r2 * tx.m21; r2 = r1 * tx.m12 + r2 * tx.m22; r1 = w1; }
+            a = f11y[ii]; pa = f21y[ii]; b2 = f12y[ii]; pb = f22y[ii];
+            let t1 = a + e * pa - E2 * wyy * a - E3 * (dwy * a + wyy * pa);
+            let t2 = b2 + e * pb - E2 * wyy * b2 - E3 * (dwy * b2 + wyy * pb);
+            if (wrap) { const w1 = t1 * ty.m11 + t2 * ty.m21; t2 = t1 * ty.m12 + t2 * ty.m22; t1 = w1; }
+            // ρ = L⁻ᵀ·row; U = ρ·z. C = |ρ||z|cos a, Sv = |ρ||z|sin a at k = 0; the arc's far end by
+            // the rotation through L; U² ≤ max(C², C_end²) unless sin changes sign on the arc.
+            const px1 = sbx * r1 - (ax * r2) / sbx, px2 = r2 / sbx;
+            let bxm: number;
+            const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1;
+            if (wholeX) bxm = (px1 * px1 + px2 * px2) * ix;
+            else {
+              const C2 = Cx * cLx - Sx * sLx, S2 = Sx * cLx + Cx * sLx;
+              bxm = (Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0 ? (px1 * px1 + px2 * px2) * ix : Math.max(Cx * Cx, C2 * C2);
+            }
+            const py1 = sby * t1 - (ay * t2) / sby, py2 = t2 / sby;
+            let bym: number;
+            const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1;
+            if (wholeY) bym = (py1 * py1 + py2 * py2) * iy;
+            else {
+              const C2 = Cy * cLy - Sy * sLy, S2 = Sy * cLy + Cy * sLy;
+              bym = (Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0 ? (py1 * py1 + py2 * py2) * iy : Math.max(Cy * Cy, C2 * C2);
+            }
+            // Margin for the invariant's drift under the (non-symplectic) RK4 table (≲ 1e-11 per
+            // period) and for rounding in the rotation: 1e-6 relative.
+            if ((bxm + bym) * (1 + 1e-6) >= R2) { cand[nc] = m; rx1[nc] = r1; rx2[nc] = r2; ry1[nc] = t1; ry2[nc] = t2; nc++; }
+          }
+          let hitAt = -1;
+          if (nc > 0) {
+            let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
+            const m11x = tx.m11, m12x = tx.m12, m21x = tx.m21, m22x = tx.m22;
+            const m11y = ty.m11, m12y = ty.m12, m21y = ty.m21, m22y = ty.m22;
+            for (let base = 0; base < full && hitAt < 0; base += M) {
+              const mmax = full - base;
+              for (let jj = 0; jj < nc; jj++) {
+                if (cand[jj] > mmax) break;
+                const Xc = rx1[jj] * dx1 + rx2[jj] * dx2, Yc = ry1[jj] * dy1 + ry2[jj] * dy2;
+                if (Xc * Xc + Yc * Yc >= R2) { hitAt = base + cand[jj]; break; }
+              }
+              let w = m11x * dx1 + m12x * dx2; dx2 = m21x * dx1 + m22x * dx2; dx1 = w;
+              w = m11y * dy1 + m12y * dy2; dy2 = m21y * dy1 + m22y * dy2; dy1 = w;
+            }
+          }
+          if (hitAt < 0) {
+            // The exit check (the shortened last step of the direct kernel): F(θr)·M0^K·c.
+            const thEnd = psi + omega * tExit;
+            let K = Math.floor(thEnd / TWO_PI);
+            let thr = thEnd - K * TWO_PI;
+            if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
+            if (thr < 0) thr = 0;
+            const Fm = this.fm;
+            powerApply(tx, K, cx1, cx2, v);
+            fAt(tx, thr, Fm);
+            const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
+            powerApply(ty, K, cy1, cy2, v);
+            fAt(ty, thr, Fm);
+            const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
+            if (Xe * Xe + Ye * Ye >= R2) hitAt = full;
+          }
+          this.periodLoops++;
+          if (hitAt >= 0) {
+            fate[j] = Fate.hit;
+            if (endTime) endTime[j] = hitAt * h;
+            done[j] = 1;
+            continue;
+          }
+        } else this.envelopeCleared++;
+        // Cleared for the whole stage: out at zEnd at tExit, then the open drifts (openDrifts()).
+        let t = tExit, z = zEnd, f: number = Fate.detected;
+        for (let q = s0 + 1; q < stages.length; q++) {
+          const te = (stages[q].zEnd - z) / vz, tl = maxTime - t;
+          if (tl < te) { t += tl; f = Fate.alive; break; }
+          t += te; z = stages[q].zEnd;
+        }
+        fate[j] = f;
+        if (endTime) endTime[j] = t;
+        done[j] = 1;
+      }
+      k = end;
+    }
+    return done;
+  }
+
+  /** Tiers 2–3 of a quadrupole stage (see the file head); Exit.hit, or 0 when no check hits. */
+  private periods(tx: PeriodTable, ty: PeriodTable, c: IonCursor, cx1: number, cx2: number, cy1: number, cy2: number,
+    envX: number, envY: number, full: number, i0: number, eps: number, qx1: number, qx2: number, qy1: number, qy2: number,
+    tEntry: number, h: number, z: number, vz: number, r0: number): ExitCode | 0 {
+    const M = tx.checks, R2 = this.r2, g = 1 + ENVELOPE_MARGIN;
+    this.periodLoops++;
+    // Tiers 2–3, period by period. Upper bound per axis: U² ≤ min(d·E·d, envelope) (the row
+    // curve's ellipse, transfer-matrix.ts). Where it reaches r0², four probe checks (m = M, M/2,
+    // M/4, 3M/4) look for a sample at or past the electrodes: any check sample ≥ r0² decides a
+    // loss, so a growing ion is caught without scanning. The full scan of every check of the
+    // flagged periods runs only if no probe hits (ions that come close and pass).
+    const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
+    const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
+    const stamp = ++this.stamp;
+    const probes = this.probes(M);
+    let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
+    // With an unstable axis, skip the periods in which even the eigen-bound
+    // |U| ≤ |A|h1|λ|^(k+1) + |B|h2|λ|^−k (stable axis: its envelope) stays below r0: a scalar
+    // recursion, then one jump d ← M0^k c by repeated squaring.
+    let base0 = 0;
+    if (!tx.stable || !ty.stable) {
+      const k = this.quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, Math.ceil(full / M), R2);
+      if (k > 0) {
+        base0 = k * M;
+        const v = this.v;
+        powerApply(tx, k, cx1, cx2, v); dx1 = v[0]; dx2 = v[1];
+        powerApply(ty, k, cy1, cy2, v); dy1 = v[0]; dy2 = v[1];
+      }
+    }
+    let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
+    let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
+    let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
+    const cand = this.cand;
+    let nc = 0;
+    for (let pass = 0; pass < 2; pass++) {
+      for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
+        // Checks past 2π within period k use rows times M0, i.e. d_{k+1}: bound with both.
+        const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
+        const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
+        const nxn = Math.min(envX, ax11 * ex1 * ex1 + ax12 * ex1 * ex2 + ax22 * ex2 * ex2);
+        const nyn = Math.min(envY, ay11 * ey1 * ey1 + ay12 * ey1 * ey2 + ay22 * ey2 * ey2);
+        if ((nx > nxn ? nx : nxn) + (ny > nyn ? ny : nyn) >= R2) {
+          const mmax = Math.min(M, full - base);
+          if (pass === 0) {
+            if (mmax === M) {
+              const X = qx1 * ex1 + qx2 * ex2, Y = qy1 * ey1 + qy2 * ey2;
+              if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + M, h, X * r0, Y * r0, z, vz);
+            }
+            for (let j = 1; j < probes.length; j++) {
+              const m = probes[j];
+              if (m > mmax) continue;
+              if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+              const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+              if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
+            }
+            if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
+          } else {
+            for (let j = 0; j < nc; j++) {
+              const m = cand[j];
+              if (m > mmax) break;
+              const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+              if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
+            }
+          }
+        }
+        dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
+      }
+      if (pend < 0) break;
+      // Second pass, from the first flagged period, over the checks that can hit at all. Both
+      // axes stable: in Courant–Snyder form X_{k,m} = √Ix·ρx_m·cos(kμx + φx_m), so at check m
+      // of ANY period X² + Y² ≤ Ix·Wx_m + Iy·Wy_m, W_m = r_m·Q⁻¹·r_m for the ion's own rows;
+      // only the checks where that reaches r0² are visited. Otherwise every check.
+      nc = 0;
+      const ixx = tx.stable ? tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2 : 0;
+      const iyy = ty.stable ? ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2 : 0;
+      for (let m = 1; m <= M; m++) {
+        if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+        if (tx.stable && ty.stable) {
+          const a1 = this.rx1[m], a2 = this.rx2[m], b1 = this.ry1[m], b2 = this.ry2[m];
+          const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
+          const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
+          // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-11 per period.
+          if ((ixx * wx + iyy * wy) * (1 + 1e-6) < R2) continue;
+        }
+        cand[nc++] = m;
+      }
+      if (nc === 0) break;
+      dx1 = px1; dx2 = px2; dy1 = py1; dy2 = py2;
+      nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
+      ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
+    }
+    return 0;
+  }
+
   private quadrupole(s: number, pop: number, st: QuadrupoleStage, c: IonCursor): ExitCode {
     const { x: tx, y: ty } = this.pair(s, pop, st, c.m, c.q);
     const M = tx.checks;
@@ -310,8 +675,9 @@ export class LinearTracker {
     const r0 = st.r0, toP = 1 / (r0 * omega);
     const tEntry = c.t, z = c.z, vz = c.vz;
     const TWO_PI = 2 * Math.PI;
-    let psi = (omega * (tEntry + c.tau) + st.rf.phase) % TWO_PI;
-    if (psi < 0) psi += TWO_PI;
+    const th0 = omega * (tEntry + c.tau) + st.rf.phase;
+    let psi = th0 - TWO_PI * Math.floor(th0 / TWO_PI);
+    if (psi >= TWO_PI) psi -= TWO_PI;
     const tExit = vz > 0 ? (st.zEnd - z) / vz : vz < 0 ? (st.zStart - z) / vz : Infinity;
     const tLeft = this.ctx.maxTime - tEntry;
     const leaves = tExit <= tLeft;
@@ -328,7 +694,10 @@ export class LinearTracker {
     fAtGrid(tx, i0, eps, ch, sh, ce, se, F);
     let det = F.a11 * F.a22 - F.a12 * F.a21;
     let cx1 = (F.a22 * X0 - F.a12 * PX0) / det, cx2 = (-F.a21 * X0 + F.a11 * PX0) / det;
+    // First rows of F(ψ): the check at the end of period k (m = M) is X = row·d_{k+1}.
+    const qx1 = F.a11, qx2 = F.a12;
     fAtGrid(ty, i0, eps, ch, sh, ce, se, F);
+    const qy1 = F.a11, qy2 = F.a12;
     det = F.a11 * F.a22 - F.a12 * F.a21;
     let cy1 = (F.a22 * Y0 - F.a12 * PY0) / det, cy2 = (-F.a21 * Y0 + F.a11 * PY0) / det;
 
@@ -339,88 +708,8 @@ export class LinearTracker {
     const safe = envX + envY < R2;
     if (safe) this.envelopeCleared++;
     else if (full > 0) {
-      this.periodLoops++;
-      // Tiers 2–3, period by period. Upper bound per axis: U² ≤ min(d·E·d, envelope) (the row
-      // curve's ellipse, transfer-matrix.ts). Where it reaches r0², four probe checks (m = M, M/2,
-      // M/4, 3M/4) look for a sample at or past the electrodes: any check sample ≥ r0² decides a
-      // loss, so a growing ion is caught without scanning. The full scan of every check of the
-      // flagged periods runs only if no probe hits (ions that come close and pass).
-      const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
-      const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
-      const stamp = ++this.stamp;
-      const probes = this.probes(M);
-      let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
-      // With an unstable axis, skip the periods in which even the eigen-bound
-      // |U| ≤ |A|h1|λ|^(k+1) + |B|h2|λ|^−k (stable axis: its envelope) stays below r0: a scalar
-      // recursion, then one jump d ← M0^k c by repeated squaring.
-      let base0 = 0;
-      if (!tx.stable || !ty.stable) {
-        const k = this.quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, Math.ceil(full / M), R2);
-        if (k > 0) {
-          base0 = k * M;
-          const v = this.v;
-          powerApply(tx, k, cx1, cx2, v); dx1 = v[0]; dx2 = v[1];
-          powerApply(ty, k, cy1, cy2, v); dy1 = v[0]; dy2 = v[1];
-        }
-      }
-      let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
-      let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
-      let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
-      const cand = this.cand;
-      let nc = 0;
-      for (let pass = 0; pass < 2; pass++) {
-        for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
-          // Checks past 2π within period k use rows times M0, i.e. d_{k+1}: bound with both.
-          const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
-          const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
-          const nxn = Math.min(envX, ax11 * ex1 * ex1 + ax12 * ex1 * ex2 + ax22 * ex2 * ex2);
-          const nyn = Math.min(envY, ay11 * ey1 * ey1 + ay12 * ey1 * ey2 + ay22 * ey2 * ey2);
-          if ((nx > nxn ? nx : nxn) + (ny > nyn ? ny : nyn) >= R2) {
-            const mmax = Math.min(M, full - base);
-            if (pass === 0) {
-              for (let j = 0; j < probes.length; j++) {
-                const m = probes[j];
-                if (m > mmax) continue;
-                if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
-                const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
-                if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
-              }
-              if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
-            } else {
-              for (let j = 0; j < nc; j++) {
-                const m = cand[j];
-                if (m > mmax) break;
-                const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
-                if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
-              }
-            }
-          }
-          dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2; nx = nxn; ny = nyn;
-        }
-        if (pend < 0) break;
-        // Second pass, from the first flagged period, over the checks that can hit at all. Both
-        // axes stable: in Courant–Snyder form X_{k,m} = √Ix·ρx_m·cos(kμx + φx_m), so at check m
-        // of ANY period X² + Y² ≤ Ix·Wx_m + Iy·Wy_m, W_m = r_m·Q⁻¹·r_m for the ion's own rows;
-        // only the checks where that reaches r0² are visited. Otherwise every check.
-        nc = 0;
-        const ixx = tx.stable ? tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2 : 0;
-        const iyy = ty.stable ? ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2 : 0;
-        for (let m = 1; m <= M; m++) {
-          if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
-          if (tx.stable && ty.stable) {
-            const a1 = this.rx1[m], a2 = this.rx2[m], b1 = this.ry1[m], b2 = this.ry2[m];
-            const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
-            const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
-            // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-11 per period.
-            if ((ixx * wx + iyy * wy) * (1 + 1e-6) < R2) continue;
-          }
-          cand[nc++] = m;
-        }
-        if (nc === 0) break;
-        dx1 = px1; dx2 = px2; dy1 = py1; dy2 = py2;
-        nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
-        ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
-      }
+      const code = this.periods(tx, ty, c, cx1, cx2, cy1, cy2, envX, envY, full, i0, eps, qx1, qx2, qy1, qy2, tEntry, h, z, vz, r0);
+      if (code !== 0) return code;
     }
 
     const zEnd = leaves ? (vz > 0 ? st.zEnd : st.zStart) : z + span * vz;

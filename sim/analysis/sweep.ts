@@ -231,6 +231,7 @@ class PointRunner {
       tracker.track(start, n, fate, undefined, total <= 4_000_000 ? this.starts! : undefined);
       for (let i = 0; i < n; i++) if (fate[i] === Fate.detected) d++;
     }
+    tracker.release();
     return d;
   }
 

@@ -52,6 +52,12 @@ export interface PeriodTable {
    * (A, B) = V⁻¹·c are the coordinates of a state c, so d_k = Aλ^k v1 + Bλ^−k v2; h1, h2 bound
    * |r(θ)·v1|, |r(θ)·v2| over the grid (Magnus & Winkler §1.2: hyperbolic monodromy).
    */
+  /**
+   * Stable only (else NaN): rotation per period in Courant–Snyder normalized coordinates
+   * z = L·d (Q = LᵀL, L = [[1/√β, 0], [α/√β, √β]]), reduced mod π to (−π/2, π/2]: the check
+   * values U = ρ·z = |ρ||z|cos(angle z − angle ρ) enter as U², which has period π in the angle.
+   */
+  muEff: number;
   lambda: number;
   vi11: number; vi12: number; vi21: number; vi22: number;
   h1: number; h2: number;
@@ -82,12 +88,14 @@ function trigTable(n: number): { cos: Float64Array; sin: Float64Array } {
  * The default S keeps the grid at ≥ 640 points per period (spacing ≤ 2π/640, which the error
  * bounds of rowAt, fAtGrid and smallAngle assume). Cost: n·INNER RK4 steps on two solutions.
  */
-export function periodTable(a: number, q: number, checks: number, sub = Math.max(16, Math.ceil(640 / checks))): PeriodTable {
+export function periodTable(a: number, q: number, checks: number, sub = Math.max(16, Math.ceil(640 / checks)), reuse?: PeriodTable): PeriodTable {
   const n = checks * sub;
   const dTheta = (2 * Math.PI) / n;
   const w0 = a / 4, w1 = q / 2;
-  const f11 = new Float64Array(n + 1), f12 = new Float64Array(n + 1);
-  const f21 = new Float64Array(n + 1), f22 = new Float64Array(n + 1);
+  // A table of the same size handed back by a finished point lends its arrays (no garbage per point).
+  const same = reuse !== undefined && reuse.n === n;
+  const f11 = same ? reuse.f11 : new Float64Array(n + 1), f12 = same ? reuse.f12 : new Float64Array(n + 1);
+  const f21 = same ? reuse.f21 : new Float64Array(n + 1), f22 = same ? reuse.f22 : new Float64Array(n + 1);
   const { cos, sin } = trigTable(n);
   // cos at the RK4 stage points: grid/(2·INNER) spacing.
   const fine = trigTable(2 * INNER * n).cos;
@@ -134,6 +142,19 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
       if (w > wMax) wMax = w;
     }
   }
+  let muEff = NaN;
+  if (stable) {
+    // N = L·M0·L⁻¹ is a rotation; its angle is the phase advance per period.
+    const sb = Math.sqrt(beta);
+    const l11 = 1 / sb, l21 = alpha / sb, l22 = sb;
+    const i11 = sb, i21 = -alpha / sb, i22 = 1 / sb;
+    // M0·L⁻¹ columns.
+    const a11 = m11 * i11 + m12 * i21, a21 = m21 * i11 + m22 * i21;
+    const n11 = l11 * a11, n21 = l21 * a11 + l22 * a21;
+    void i22;
+    const mu = Math.atan2(n21, n11);
+    muEff = mu - Math.PI * Math.round(mu / Math.PI);
+  }
   let lambda = NaN, vi11 = NaN, vi12 = NaN, vi21 = NaN, vi22 = NaN, h1 = NaN, h2 = NaN;
   if (!stable && Number.isFinite(half)) {
     const root = Math.sqrt(half * half - 1);
@@ -157,7 +178,7 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
   }
   return {
     checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable,
-    beta, alpha, gamma, wMax, rowMax, e11, e12, e22, lambda, vi11, vi12, vi21, vi22, h1, h2,
+    beta, alpha, gamma, wMax, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
   };
 }
 
