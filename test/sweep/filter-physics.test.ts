@@ -13,7 +13,10 @@ import { runSweep } from '../../sim/analysis/sweep.js';
 import { cachedQuadrupoleApex, mzWindow } from '../../sim/mathieu/operating-point.js';
 import { mzAtQ } from '../../sim/mathieu/parameters.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { ROOT } from '../helpers/cli.js';
+import { repoRoot } from '../bench/cbuild.js';
+
+// The repository root from the sources or from dist/ (vitest may collect both).
+const ROOT = repoRoot();
 
 const FILE = join(ROOT, 'scenes/qf4-peak-scan.yaml');
 const TEXT = readFileSync(FILE, 'utf8');

@@ -18,7 +18,10 @@ import { startIon } from '../../sim/engine/start.js';
 import { LinearTracker, StartStates, nonLinearReason } from '../../sim/analysis/linear-path.js';
 import { sweepRunSettings } from '../../sim/analysis/direct-path.js';
 import type { Scene } from '../../sim/scene/types.js';
-import { ROOT } from '../helpers/cli.js';
+import { repoRoot } from '../bench/cbuild.js';
+
+// The repository root from the sources or from dist/ (vitest may collect both).
+const ROOT = repoRoot();
 
 const PEAK_SCAN = readFileSync(join(ROOT, 'scenes/qf4-peak-scan.yaml'), 'utf8');
 

@@ -6,7 +6,16 @@
 import { describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { iontrail, tempDir } from '../helpers/cli.js';
+import { spawnSync } from 'node:child_process';
+import { tempDir } from '../helpers/cli.js';
+import { repoRoot } from '../bench/cbuild.js';
+
+// The repository root and its CLI, from the sources or from dist/ (vitest may collect both).
+const ROOT = repoRoot();
+function iontrail(args: string[]): { code: number; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [join(ROOT, 'cli/iontrail.js'), ...args], { cwd: ROOT, encoding: 'utf8', maxBuffer: 64 << 20 });
+  return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
+}
 
 const DEMO = 'scenes/qf4-peak-scan.yaml';
 
@@ -90,7 +99,7 @@ describe('iontrail sweep', () => {
   it('bad input: exit 2, one line, nothing written', () => {
     const base = tempDir();
     const gasScene = join(base, 'gas.yaml');
-    writeFileSync(gasScene, readFileSync(DEMO, 'utf8') + 'gas: { species: He, pressure: 1 mTorr, temperature: 300 K, model: hard-sphere, cross_section: 150 A^2 }\n');
+    writeFileSync(gasScene, readFileSync(join(ROOT, DEMO), 'utf8') + 'gas: { species: He, pressure: 1 mTorr, temperature: 300 K, model: hard-sphere, cross_section: 150 A^2 }\n');
     const cases: [string[], RegExp][] = [
       [['--vary', 'mz=480-520:201'], /KEY=A\.\.B:N/],
       [['--vary', 'mz=480..520:1'], /at least 2/],

@@ -7,7 +7,10 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseVary, grid, SweepError } from '../../sim/analysis/vary.js';
 import { parseRatios } from '../../sim/analysis/sweep.js';
-import { ROOT } from '../helpers/cli.js';
+import { repoRoot } from '../bench/cbuild.js';
+
+// The repository root from the sources or from dist/ (vitest may collect both).
+const ROOT = repoRoot();
 
 const TEXT = readFileSync(join(ROOT, 'scenes/qf4-peak-scan.yaml'), 'utf8');
 const F = 'qf4-peak-scan.yaml';
