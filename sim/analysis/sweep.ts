@@ -137,6 +137,10 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
     }
     const peak = axes.length === 1 && axes[0].key === 'mz' ? peakOf(axes[0].values, main) : null;
     if (peak && peak.fwhm_mz === null) warnings.add('the peak is not bounded at half height inside the m/z range; widen --vary mz');
+    const step = axes[0].values.length > 1 ? Math.abs(axes[0].values[1] - axes[0].values[0]) : 0;
+    if (peak && peak.fwhm_mz !== null && peak.fwhm_mz < 3 * step) {
+      warnings.add(`the FWHM (${Number(peak.fwhm_mz.toPrecision(3))}) spans fewer than 3 sweep steps of ${step}; the widths and resolutions are coarse, refine the m/z step`);
+    }
     if (axes.length === 1 && axes[0].key === 'mz' && peak === null) warnings.add('no ion is transmitted at any m/z of the sweep');
     let peaks: SweepResult['peaks'] = null;
     if (axes.length === 2 && (axes[0].key === 'mz' || axes[1].key === 'mz')) {
