@@ -400,10 +400,11 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
     command_line: opts.commandLine ?? '',
     method: r.method.used,
     integrator: {
-      method: r.method.used === 'matrix' ? 'transfer-matrix' : 'rk4',
+      method: r.method.used === 'matrix' ? 'transfer-matrix' : r.method.used === 'direct' ? r.scene.run.integrator : `transfer-matrix and ${r.scene.run.integrator}`,
       steps_per_cycle: r.scene.run.stepsPerCycle,
+      ...(r.scene.run.integrator === 'dopri5' && r.method.used !== 'matrix' ? { tolerance: r.scene.run.tolerance } : {}),
       max_time_s: r.scene.run.maxTime,
-      transfer_matrix: 'one RF period per axis, checks at the rk4 step times (steps_per_cycle per period) and at the stage exit',
+      ...(r.method.used !== 'direct' ? { transfer_matrix: 'one RF period per axis (RK4 table, 640+ grid points per period), checks at the rk4 step times (steps_per_cycle per period) and at the stage exit' } : {}),
     },
     workers: r.workers,
     started_at: r.startedAt,
