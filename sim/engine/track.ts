@@ -70,7 +70,9 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     // Sample t = 0 before the first kernel runs.
     if (hist.points > 0) { hist.add(0, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz); c.nextHist = 1; }
     let fate: number = Fate.alive;
-    for (;;) {
+    // A start drawn outside every stage (a spread reaching past the instrument) is lost at once.
+    if (s < 0) { fate = Fate.hit; s = 0; }
+    for (; fate === Fate.alive;) {
       const st = scene.stages[s];
       ctx.gas = gasSteps[s].step;
       ctx.gasField = gasSteps[s].field;

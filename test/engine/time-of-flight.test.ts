@@ -53,3 +53,21 @@ describe('time of flight through accelerate + drift', () => {
     }
   });
 });
+
+describe('starts outside every stage', () => {
+  it('counts ions drawn before the first stage as lost instead of failing', async () => {
+    // position.z = 0 with spread_z 1 mm: about half the starts fall at z < 0, outside the scene.
+    const s = await runScene(parseScene(`
+seed: 2
+stages:
+  - { type: drift, length: 10 mm }
+ions:
+  - { mz: 100, count: 200, position: { z: 0 mm, spread_z: 1 mm }, energy: 1 eV }
+run: { max_time: 100 us, record_every: 0 }
+`, 'outside.yaml'), { out: join(tempDir(), 'run'), workers: 1 });
+    expect(s.ions.total).toBe(200);
+    expect(s.ions.hit).toBeGreaterThan(60);
+    expect(s.ions.detected).toBeGreaterThan(60);
+    expect(s.ions.hit + s.ions.detected).toBe(200);
+  });
+});
