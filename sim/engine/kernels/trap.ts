@@ -12,6 +12,7 @@
 import type { TrapStage } from '../../scene/types.js';
 import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
 import { phaseTable } from '../phase-table.js';
+import type { HardSphereKernel } from '../../gas/hardsphere.js';
 
 export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
   const omega = 2 * Math.PI * st.rf.frequency;
@@ -56,7 +57,6 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   const hk = ctx.hardSphere ?? null;
   let depth = 0, lim = 0, rate = 0;
   if (hk !== null) { hk.enter(ctx.batch, c.slot); depth = hk.depth; lim = hk.limit2; rate = hk.rate; }
-  const leave = (code: ExitCode): ExitCode => { if (hk !== null) hk.leave(ctx.batch, c.slot, depth); return code; };
 
   let x = c.x, y = c.y, z = c.z - zc, vx = c.vx, vy = c.vy, vz = c.vz;
   const span = ctx.maxTime - tEntry;
@@ -128,21 +128,21 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
     j += 2;
     if (j === jEnd) j = 0;
     const r2 = x * x + y * y, zz2 = 2 * z * z;
-    if (r2 - zz2 >= r0sq) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.hit); }
+    if (r2 - zz2 >= r0sq) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.hit); }
     if (zz2 - r2 >= z0sq2) {
-      if (r2 >= ap2) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.hit); }
+      if (r2 >= ap2) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.hit); }
       // Through the end-cap hole: field-free from here to the stage boundary.
       const zb = vz > 0 ? st.zEnd - zc : st.zStart - zc;
       const dt = vz !== 0 ? (zb - z) / vz : Infinity;
       if (!(t1 + dt <= ctx.maxTime)) {
         const rem = ctx.maxTime - t1;
         storeCursor(c, ctx.maxTime, x + vx * rem, y + vy * rem, z + zc + vz * rem, vx, vy, vz, n);
-        return leave(Exit.time);
+        return leave(hk, ctx, c, depth, Exit.time);
       }
       storeCursor(c, t1 + dt, x + vx * dt, y + vy * dt, zb + zc, vx, vy, vz, n);
       return vz > 0 ? Exit.forward : Exit.backward;
     }
-    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(Exit.time); }
+    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.time); }
     if (--watchIn <= 0) {
       storeCursor(c, t1, x, y, z + zc, vx, vy, vz, 0);
       observe(c, ctx, span0);
@@ -166,10 +166,19 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
     }
   }
   storeCursor(c, tEntry + n * h, x, y, z + zc, vx, vy, vz, n);
-  return leave(Exit.time);
+  return leave(hk, ctx, c, depth, Exit.time);
 
   function vAt(t: number): number {
     return t >= tRampEnd ? kVto : kV0 + kRate * t;
   }
 }
 
+
+/**
+ * Hand the hard-sphere optical depth back to the gas kernel as the ion leaves. A plain function,
+ * not a closure: a local captured by a closure would live on the heap and slow every step.
+ */
+function leave(hk: HardSphereKernel | null, ctx: StepContext, c: IonCursor, depth: number, code: ExitCode): ExitCode {
+  if (hk !== null) hk.leave(ctx.batch, c.slot, depth);
+  return code;
+}
