@@ -45,34 +45,53 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
     return b;
   }
 
-  const n = Math.min(opts.workers, plan.count);
+  // The main thread computes too: --workers N means N computing threads, N − 1 of them workers.
+  // Each worker keeps two batches queued so it never waits for the main thread to feed it.
+  const n = Math.min(opts.workers, plan.count) - 1;
   const script = workerScript();
   const pending = new Map<number, BatchResult>();
   let next = 0;
   let emitted = 0;
-  const workers: Worker[] = [];
-  await new Promise<void>((resolve, reject) => {
-    let live = n;
-    const feed = (w: Worker) => {
-      if (next < plan.count && !opts.stopped()) w.postMessage(bounds(next++));
-      else { w.postMessage(null); }
-    };
-    for (let k = 0; k < n; k++) {
-      const w = new Worker(script, { workerData: { scene } });
-      workers.push(w);
-      w.on('message', (r: BatchResult) => {
-        pending.set(r.batch, r);
-        while (pending.has(emitted)) {
-          opts.onResult(pending.get(emitted)!);
-          pending.delete(emitted);
-          emitted++;
-        }
-        feed(w);
-      });
-      w.on('error', (e) => { for (const o of workers) void o.terminate(); reject(e); });
-      w.on('exit', () => { if (--live === 0) resolve(); });
-      feed(w);
+  const emitReady = () => {
+    while (pending.has(emitted)) {
+      opts.onResult(pending.get(emitted)!);
+      pending.delete(emitted);
+      emitted++;
     }
-  });
+  };
+  let failure: unknown = null;
+  const workers: { w: Worker; inflight: number; exited: Promise<void> }[] = [];
+  const feed = (slot: { w: Worker; inflight: number }) => {
+    while (slot.inflight < 2 && next < plan.count && !opts.stopped() && failure === null) {
+      slot.w.postMessage(bounds(next++));
+      slot.inflight++;
+    }
+  };
+  for (let k = 0; k < n; k++) {
+    const w = new Worker(script, { workerData: { scene } });
+    const slot = { w, inflight: 0, exited: new Promise<void>((r) => w.once('exit', () => r())) };
+    workers.push(slot);
+    w.on('message', (r: BatchResult) => {
+      slot.inflight--;
+      pending.set(r.batch, r);
+      try { emitReady(); } catch (e) { failure ??= e; }
+      feed(slot);
+    });
+    w.on('error', (e) => { failure ??= e; });
+    feed(slot);
+  }
+  const gas = gasFactory(scene);
+  while (failure === null && !opts.stopped() && next < plan.count) {
+    const { batch, start, count } = bounds(next++);
+    pending.set(batch, trackBatch(scene, batch, start, count, gas));
+    emitReady();
+    // Let worker results and a pending SIGINT in.
+    await new Promise((r) => setImmediate(r));
+  }
+  // Wait for the batches still queued on workers, then stop them.
+  while (failure === null && workers.some((s) => s.inflight > 0)) await new Promise((r) => setTimeout(r, 2));
+  for (const s of workers) s.w.postMessage(null);
+  await Promise.all(workers.map((s) => s.exited));
+  if (failure !== null) throw failure;
   return emitted;
 }
