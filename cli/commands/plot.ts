@@ -4,6 +4,7 @@ import { parseArgs, requireFlag, flag } from '../args.js';
 import { UsageError } from '../errors.js';
 import { KINDS, kindByName, plotRun } from '../../render/plot/index.js';
 import { closest } from '../args.js';
+import { plotSweep } from '../../render/plot/sweep-figure.js';
 
 export const describe = 'draw a 2D figure (traces, stability, phase, xy, cooling, arrival, energy) of a run folder';
 
@@ -20,6 +21,9 @@ function help(): string {
     for (const [f, h] of Object.entries(k.flags)) lines.push(`      --${f.padEnd(10)} ${h}`);
     for (const [f, h] of Object.entries(k.switches ?? {})) lines.push(`      --${f.padEnd(10)} ${h}`);
   }
+  lines.push('  sweep      columns of a sweep folder (iontrail sweep) against the first varied key');
+  lines.push('      --y         columns of sweep.csv, comma separated (default transmission)');
+  lines.push('      --x         column for the horizontal axis (default the first varied key)');
   return lines.join('\n') + '\n';
 }
 
@@ -30,6 +34,17 @@ function pixels(text: string | undefined, name: string): number | undefined {
   return v;
 }
 
+/** --kind sweep: columns of a sweep folder's sweep.csv against the first varied key. */
+async function plotSweepFolder(argv: string[]): Promise<number> {
+  const args = parseArgs(argv, { values: [...COMMON_VALUES, 'y', 'x'], aliases: { o: 'out' } }, 'plot');
+  if (args.positional.length !== 1) throw new UsageError('plot: expected one SWEEP_DIR');
+  const out = requireFlag(args, 'out', 'plot', 'figure.png');
+  const ys = (flag(args, 'y') ?? 'transmission').split(',').map((s) => s.trim()).filter((s) => s !== '');
+  const r = await plotSweep(args.positional[0], out, ys, flag(args, 'x'), pixels(flag(args, 'width'), 'width'), pixels(flag(args, 'height'), 'height'));
+  process.stderr.write(`plot: wrote ${out} (${r.bytes} bytes)\n`);
+  return 0;
+}
+
 export async function run(argv: string[]): Promise<number> {
   if (argv.includes('--help') || argv.includes('-h')) {
     process.stdout.write(help());
@@ -38,7 +53,8 @@ export async function run(argv: string[]): Promise<number> {
   // First pass finds the kind, so its own flags can be accepted and others refused by name.
   const kindIdx = argv.findIndex((a) => a === '--kind' || a.startsWith('--kind='));
   const kindName = kindIdx < 0 ? undefined : argv[kindIdx].startsWith('--kind=') ? argv[kindIdx].slice(7) : argv[kindIdx + 1];
-  if (kindName === undefined) throw new UsageError(`plot: missing --kind (one of ${KINDS.map((k) => k.name).join(', ')})`);
+  if (kindName === undefined) throw new UsageError(`plot: missing --kind (one of ${KINDS.map((k) => k.name).join(', ')}, sweep)`);
+  if (kindName === 'sweep') return plotSweepFolder(argv);
   const kind = kindByName(kindName);
   if (!kind) {
     const hint = closest(kindName, KINDS.map((k) => k.name));

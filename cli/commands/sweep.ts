@@ -12,11 +12,11 @@ import { parseCount } from './run.js';
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
 
 const USAGE = 'usage: iontrail sweep SCENE.yaml --vary KEY=A..B:N [--vary KEY=A..B:N] -o DIR [--scan-lines A..B:N] '
-  + '[--method auto|direct|matrix] [--seed N] [--workers N] [--set key=value]... [--force] [--json]';
+  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--force] [--json]';
 
 export async function run(argv: string[]): Promise<number> {
   const a = parseArgs(argv, {
-    values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines'],
+    values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect'],
     switches: ['force', 'json', 'help'],
     repeatable: ['set', 'vary'],
     aliases: { o: 'out' },
@@ -46,6 +46,7 @@ export async function run(argv: string[]): Promise<number> {
   const commandLine = ['iontrail', 'sweep', ...argv].join(' ');
   const result = await runSweep({
     sceneText: text, sceneFile: file, set: a.values.get('set') ?? [], seed, vary,
+    collect: (a.values.get('collect')?.[0] ?? '').split(',').map((x) => x.trim()).filter((x) => x !== ''),
     scanLines: flag(a, 'scan-lines'), method, workers,
     progress: (done, total) => {
       if (!tty) return;

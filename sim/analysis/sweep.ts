@@ -8,12 +8,14 @@
 // integrator. Both use the same ions (startIon, same seed), so the methods are comparable ion by
 // ion; the counts of a point are integers, independent of the number of workers.
 
-import { availableParallelism } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
 import { parse as parseYaml } from 'yaml';
 import { parseScene } from '../scene/load.js';
 import { SceneError } from '../scene/schema.js';
 import type { QuadrupoleStage, Scene } from '../scene/types.js';
-import { checkStartsInside, sceneForJson, sceneWarnings } from '../engine/run.js';
+import { checkStartsInside, runScene, sceneForJson, sceneWarnings } from '../engine/run.js';
 import { Fate } from '../engine/batch.js';
 import { mzWindow } from '../mathieu/operating-point.js';
 import { TOOL_VERSION } from '../version.js';
@@ -40,6 +42,13 @@ export interface SweepRequest {
   /** "A..B:N" U/V ratios of the first quadrupole stage (needs one --vary mz). */
   scanLines?: string;
   method?: SweepMethod;
+  /**
+   * Figures of each point's run summary to collect, as dot paths into summary.json
+   * (e.g. "space_charge.frequency_shift_z", "scan.species.0.fwhm_mz", "cooling.tau_s"). With it,
+   * every point is a full run of the engine (space charge, mass scans, gas), written to a
+   * temporary folder and read back; the columns follow `transmission` in sweep.csv.
+   */
+  collect?: string[];
   /** Threads for direct integration (default: all cores). The matrix path runs in this thread. */
   workers?: number;
   progress?: (done: number, total: number) => void;
@@ -52,6 +61,8 @@ export interface SweepPoint {
   detected: number;
   transmission: number;
   method: PointMethod;
+  /** Collected summary figures (see SweepRequest.collect), in the order asked; null where absent. */
+  figures?: (number | null)[];
 }
 
 export interface ScanLine {
@@ -72,6 +83,8 @@ export interface SweepResult {
   /** An m/z axis and one other key: the peak at each value of the other key. */
   peaks: { key: string; value: number; peak: PeakFigures | null }[] | null;
   scanLines: { stage: number; rf_amplitude_v: number; lines: ScanLine[] } | null;
+  /** Summary figures collected per point (column names of sweep.csv after transmission). */
+  collect: string[];
   method: { requested: SweepMethod; used: PointMethod | 'mixed'; direct_because: string | null };
   /** The scene as resolved at the first point (varied keys at their first values). */
   scene: Scene;
@@ -116,7 +129,11 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
   }
 
   const workers = Math.max(1, req.workers ?? availableParallelism());
-  const runner = new PointRunner(requested, workers);
+  const collect = req.collect ?? [];
+  if (collect.length > 0 && requested === 'matrix') throw new SweepError('--collect runs every point in full; it does not combine with --method matrix');
+  if (collect.length > 0 && scan) throw new SweepError('--collect does not combine with --scan-lines');
+  for (const c of collect) if (!/^[A-Za-z_][\w]*(\.[\w]+)*$/.test(c)) throw new SweepError(`--collect expects dot paths into summary.json such as space_charge.frequency_shift_z, got '${c}'`);
+  const runner = new PointRunner(collect.length > 0 ? 'direct' : requested, workers, collect);
   const totalWork = nPoints * (1 + (scan ? scan.ratios.length : 0));
   let done = 0;
   const warnings = new Set<string>(sceneWarnings(base).filter((w) => !w.startsWith('space_charge')));
@@ -157,6 +174,7 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
       points: main,
       peak, peaks,
       scanLines: scan && lines ? { stage: scan.fileIndex, rf_amplitude_v: scan.rf, lines } : null,
+      collect,
       method: { requested, used: used.size === 1 ? [...used][0] : 'mixed', direct_because: used.has('direct') ? runner.directBecause : null },
       scene: base,
       sceneFile: req.sceneFile,
@@ -208,11 +226,29 @@ class PointRunner {
   private starts: StartStates | null = null;
   directBecause: string | null = null;
 
-  constructor(private readonly requested: SweepMethod, private readonly workers: number) {}
+  constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = []) {}
 
-  async run(scene: Scene): Promise<{ total: number; detected: number; transmission: number; method: PointMethod }> {
+  /** A full engine run of the point into a temporary folder; its summary gives the figures. */
+  private async full(scene: Scene, total: number) {
+    const dir = mkdtempSync(join(tmpdir(), 'iontrail-sweep-'));
+    try {
+      const s = await runScene({ ...scene, run: { ...scene.run, recordEvery: 0 } }, { out: join(dir, 'run'), workers: this.workers });
+      this.directBecause ??= 'full runs for --collect';
+      const figures = this.collect.map((path) => {
+        let v: unknown = s;
+        for (const k of path.split('.')) v = v !== null && typeof v === 'object' ? (v as Record<string, unknown>)[k] : undefined;
+        return typeof v === 'number' && Number.isFinite(v) ? v : null;
+      });
+      return { total, detected: s.ions.detected, transmission: total > 0 ? s.ions.detected / total : 0, method: 'direct' as PointMethod, figures };
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }
+
+  async run(scene: Scene): Promise<{ total: number; detected: number; transmission: number; method: PointMethod; figures?: (number | null)[] }> {
     const { method, reason } = pointMethod(scene, this.requested);
     const total = scene.ions.reduce((a, p) => a + p.count, 0);
+    if (this.collect.length > 0) return this.full(scene, total);
     let detected: number;
     if (method === 'matrix') {
       detected = this.matrix(scene, total);
@@ -336,8 +372,8 @@ function num(v: number | null): string {
 
 /** sweep.csv: one column per varied key (named as given), then total, detected, transmission. */
 export function sweepCsv(r: SweepResult): string {
-  const lines = [[...r.axes.map((a) => a.key), 'total', 'detected', 'transmission'].join(',')];
-  for (const p of r.points) lines.push([...p.values.map(String), p.total, p.detected, p.transmission].join(','));
+  const lines = [[...r.axes.map((a) => a.key), 'total', 'detected', 'transmission', ...r.collect].join(',')];
+  for (const p of r.points) lines.push([...p.values.map(String), p.total, p.detected, p.transmission, ...(p.figures ?? []).map(num)].join(','));
   return lines.join('\n') + '\n';
 }
 
@@ -375,6 +411,12 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
     peak: r.peak,
   };
   if (r.peaks) out.peaks = r.peaks;
+  if (r.collect.length > 0) {
+    out.collected = {
+      figures: r.collect,
+      points: r.points.map((p) => ({ values: p.values, ...Object.fromEntries(r.collect.map((c, k) => [c, p.figures?.[k] ?? null])) })),
+    };
+  }
   if (r.scanLines) {
     out.scan_lines = {
       stage: r.scanLines.stage,

@@ -51,6 +51,7 @@ beforeAll(() => {
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
 const results = (b: Bundle) => JSON.parse(readFileSync(join(b.dir, 'results.json'), 'utf8'));
+const readSummaryOf = (b: Bundle) => JSON.parse(readFileSync(join(b.dir, 'run', 'summary.json'), 'utf8'));
 const runSummary = (b: Bundle) => JSON.parse(readFileSync(join(b.dir, 'run', 'summary.json'), 'utf8'));
 const html = (b: Bundle) => readFileSync(join(b.dir, 'report.html'), 'utf8');
 
@@ -116,12 +117,14 @@ describe('numbers come from the run and the field', () => {
 
   it('filter a and q match a = 8eU/(m r0² Ω²), q = 4eV/(m r0² Ω²), with (−a, −q) for y', () => {
     // Closed forms: P. H. Dawson, "Quadrupole Mass Spectrometry and its Applications" (1976), ch. 2
-    // (from memory; the same forms as DESIGN.md). Scene values: QF-4, r0 4 mm, 1.2 MHz, 600 V, 40 V, m/z 502.
+    // (from memory; the same forms as DESIGN.md). Scene values: QF-4 as resolved in the run
+    // (r0 4 mm, 1.2 MHz, m/z 502; RF and DC read from the scene so the demo's working point may move).
     const r = results(bundles.get('filter')!);
     const row = r.operating_points[0];
-    const m = 502 * ATOMIC_MASS_UNIT, w = 2 * Math.PI * 1.2e6, r0 = 4e-3;
-    const a = (8 * ELEMENTARY_CHARGE * 40) / (m * r0 * r0 * w * w);
-    const q = (4 * ELEMENTARY_CHARGE * 600) / (m * r0 * r0 * w * w);
+    const st = (readSummaryOf(bundles.get('filter')!) as any).provenance.scene.stages[0];
+    const m = 502 * ATOMIC_MASS_UNIT, w = 2 * Math.PI * st.rf.frequency, r0 = st.r0;
+    const a = (8 * ELEMENTARY_CHARGE * st.dc) / (m * r0 * r0 * w * w);
+    const q = (4 * ELEMENTARY_CHARGE * st.rf.amplitude) / (m * r0 * r0 * w * w);
     // Same formula in double precision: agreement to rounding (1e-12 relative).
     expect(row.axes[0].a).toBeCloseTo(a, 12);
     expect(Math.abs(row.axes[0].q / q - 1)).toBeLessThan(1e-12);
