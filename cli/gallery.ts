@@ -38,4 +38,17 @@ await iontrail('plot', join(RUNS, 'lt1'), '--kind', 'arrival', '-o', fig('arriva
 await iontrail('plot', join(RUNS, 'rt1'), '--kind', 'energy', '-o', fig('energy.png'));
 await iontrail('render', join(RUNS, 'qf4'), '--ions', '0-59', '-o', fig('scene3d-filter.png'));
 await iontrail('render', join(RUNS, 't7'), '--ions', '0-39', '--color', 'mz', '-o', fig('scene3d-trap.png'));
+await iontrail('sweep', join('scenes', 't7-capacity.yaml'), '--vary', 'space_charge.weight=1..400:6', '--collect',
+  'space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m,space_charge.lost',
+  '-o', join(RUNS, 'capacity'), '--force');
+await iontrail('plot', join(RUNS, 'capacity'), '--kind', 'sweep', '--x', 'space_charge.real_charges',
+  '--y', 'space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m', '-o', fig('capacity.png'));
+await iontrail('sweep', join('scenes', 't7-mass-scan.yaml'), '--vary', 'gas.pressure=0.1mTorr..8mTorr:5', '--set', 'ions.0.count=200',
+  '--set', 'ions.1.count=200', '--set', 'ions.2.count=200',
+  '--collect', 'scan.species.0.fwhm_mz,scan.species.1.fwhm_mz,scan.species.2.fwhm_mz,scan.species.1.ejection_qz_mean',
+  '-o', join(RUNS, 'scan-pressure'), '--force');
+await iontrail('plot', join(RUNS, 'scan-pressure'), '--kind', 'sweep',
+  '--y', 'scan.species.1.fwhm_mz,scan.species.1.ejection_qz_mean', '-o', fig('scan-pressure.png'));
+await iontrail('sweep', join('scenes', 'qf4-peak-scan.yaml'), '--vary', 'mz=490..514:121', '-o', join(RUNS, 'peak'), '--force');
+await iontrail('plot', join(RUNS, 'peak'), '--kind', 'sweep', '-o', fig('peak.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

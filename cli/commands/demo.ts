@@ -59,6 +59,25 @@ export async function run(argv: string[]): Promise<number> {
     }
     process.stdout.write(`  report: ${join(dir, 'report.html')} (${res.figures.length} figures)\n`);
   }
+  // The T-7 capacity curve (space charge): a sweep over the macro-ion weight and its figure.
+  const cap = join(out, 't7-capacity');
+  const capArgs = ['scenes/t7-capacity.yaml', '--vary', 'space_charge.weight=1..400:5', '--collect',
+    'space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m,space_charge.lost',
+    '-o', cap, '--force', ...(workers ? ['--workers', String(workers)] : [])];
+  process.stdout.write(`\n$ iontrail sweep ${capArgs.join(' ')}\n`);
+  const sweep = await import('./sweep.js');
+  const prevCwd = process.cwd();
+  process.chdir(ROOT);
+  try {
+    if ((await sweep.run(capArgs)) !== 0) return 2;
+    const plot = await import('./plot.js');
+    const plotArgs = [cap, '--kind', 'sweep', '--x', 'space_charge.real_charges', '--y',
+      'space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m', '-o', join(cap, 'capacity.png')];
+    process.stdout.write(`$ iontrail plot ${plotArgs.join(' ')}\n`);
+    if ((await plot.run(plotArgs)) !== 0) return 2;
+  } finally {
+    process.chdir(prevCwd);
+  }
   process.stdout.write(`\nreview bundles in ${out} (open <scene>/report.html; run folders in <scene>/run)\n`);
   process.stdout.write('Simulated operating points must be verified on the bench before use. RF and DC supplies of these instruments are lethal: follow local electrical-safety codes and leave high-voltage work to qualified staff.\n');
   return 0;

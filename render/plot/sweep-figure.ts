@@ -58,7 +58,8 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
     const yu = unitOf(col, t.summary), xu = unitOf(x, t.summary);
     return {
       x: { label: xu.label, unit: xu.unit, min: xlo, max: xhi },
-      y: { label: yu.label, unit: yu.unit, min: lo - pad, max: hi + pad },
+      // Non-negative figures (transmission, widths) keep zero as the floor of the axis.
+      y: { label: yu.label, unit: yu.unit, min: lo >= 0 ? Math.max(0, lo - pad) : lo - pad, max: hi + pad },
       draw: (ctx: any, g: any) => {
         ctx.strokeStyle = color; ctx.lineWidth = 2;
         ctx.beginPath();
