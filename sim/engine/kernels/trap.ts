@@ -55,8 +55,9 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
   // speed bound and majorant rate stay in locals, and the kernel runs only when a candidate
   // collision is due or the speed outgrows its bound — bit-identical to calling the plain step.
   const hk = ctx.hardSphere ?? null;
-  let depth = 0, lim = 0, rate = 0;
-  if (hk !== null) { hk.enter(ctx.batch, c.slot); depth = hk.depth; lim = hk.limit2; rate = hk.rate; }
+  // dstep: optical depth used per full step (majorant rate × h).
+  let depth = 0, lim = 0, dstep = 0;
+  if (hk !== null) { hk.enter(ctx.batch, c.slot); depth = hk.depth; lim = hk.limit2; dstep = hk.rate * h; }
 
   let x = c.x, y = c.y, z = c.z - zc, vx = c.vx, vy = c.vy, vz = c.vz;
   const span = ctx.maxTime - tEntry;
@@ -149,13 +150,13 @@ export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPe
       watchIn = span0 = stepsToWatch(c, ctx, h);
     }
     if (hk !== null) {
-      const v2 = vx * vx + vy * vy + vz * vz, d = depth - rate * h;
+      const v2 = vx * vx + vy * vy + vz * vz, d = depth - dstep;
       if (v2 <= lim && d > 0) depth = d;
       else {
         const b = ctx.batch, i = c.slot;
         b.vx[i] = vx; b.vy[i] = vy; b.vz[i] = vz;
         hk.collide(b, i, h, depth);
-        depth = hk.depth; lim = hk.limit2; rate = hk.rate;
+        depth = hk.depth; lim = hk.limit2; dstep = hk.rate * h;
         vx = b.vx[i]; vy = b.vy[i]; vz = b.vz[i];
       }
     } else if (gas !== null) {
