@@ -2,6 +2,7 @@
 // numbers as values ("--dc -12V"). Positional arguments are kept in order.
 
 import { UsageError } from './errors.js';
+import { closest } from '../sim/scene/closest.js';
 
 export interface FlagSpec {
   /** Flags that take a value. */
@@ -83,27 +84,4 @@ export function requireFlag(args: ParsedArgs, name: string, command: string, exa
   return v;
 }
 
-/** Nearest candidate by edit distance, for "did you mean" hints; undefined when nothing is close. */
-export function closest(word: string, candidates: readonly string[]): string | undefined {
-  let best: string | undefined;
-  let bestD = Infinity;
-  for (const c of candidates) {
-    const d = editDistance(word, c);
-    if (d < bestD) { bestD = d; best = c; }
-  }
-  return best !== undefined && bestD <= Math.max(2, Math.floor(word.length / 3)) ? best : undefined;
-}
-
-function editDistance(a: string, b: string): number {
-  const dp = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let prev = dp[0];
-    dp[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const tmp = dp[j];
-      dp[j] = Math.min(dp[j] + 1, dp[j - 1] + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
-      prev = tmp;
-    }
-  }
-  return dp[b.length];
-}
+export { closest } from '../sim/scene/closest.js';

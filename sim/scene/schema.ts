@@ -3,6 +3,7 @@
 
 import { isMap, isScalar, isSeq, LineCounter, type Document, type Node } from 'yaml';
 import { parseQuantity, QuantityError, DIMENSION_INFO, type Dimension } from '../units/quantity.js';
+import { closest } from './closest.js';
 
 export class SceneError extends Error {
   override name = 'SceneError';
@@ -59,29 +60,7 @@ function expectText(f: Field): string {
   }
 }
 
-function closestKey(word: string, keys: string[]): string | undefined {
-  let best: string | undefined;
-  let bestD = Infinity;
-  for (const k of keys) {
-    const d = levenshtein(word, k);
-    if (d < bestD) { bestD = d; best = k; }
-  }
-  return bestD <= Math.max(2, Math.floor(word.length / 3)) ? best : undefined;
-}
-
-function levenshtein(a: string, b: string): number {
-  const dp = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let prev = dp[0];
-    dp[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const t = dp[j];
-      dp[j] = Math.min(dp[j] + 1, dp[j - 1] + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
-      prev = t;
-    }
-  }
-  return dp[b.length];
-}
+const closestKey = closest;
 
 /**
  * Validate a YAML node against a field and return plain values with quantities converted to SI

@@ -6,9 +6,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { execFileSync } from 'node:child_process';
 import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
+import { chromiumOrWarn } from '../helpers/browser.js';
 import { loadImage } from '@napi-rs/canvas';
 import { iontrail, iontrailAsync, tempDir, ROOT } from '../helpers/cli.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
@@ -293,21 +293,7 @@ describe('bad input: one line, exit 2, nothing left behind', () => {
   });
 });
 
-function findChromium(): string | undefined {
-  for (const name of ['chromium', 'chromium-browser']) {
-    try {
-      const p = execFileSync('which', [name], { encoding: 'utf8' }).trim();
-      if (p && existsSync(p)) return p;
-    } catch { /* not on PATH */ }
-  }
-  return undefined;
-}
-
-const exe = findChromium();
-if (!exe) {
-  process.stderr.write('\n' + '!'.repeat(78) + '\n!!! SKIPPING the report.html browser test: no chromium on PATH.\n' +
-    '!!! Install it with: apt-get install -y chromium   (CI does this in .ci/run)\n' + '!'.repeat(78) + '\n\n');
-}
+const exe = chromiumOrWarn('the report.html browser test');
 
 describe.skipIf(!exe)('report.html in headless chromium', () => {
   it('opens offline with no console errors and no requests, and shows every figure (naturalWidth > 0)', async () => {

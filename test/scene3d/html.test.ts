@@ -1,32 +1,18 @@
 // The self-contained viewer in a real browser: Debian's chromium, headless, via playwright-core.
 // WebGL there runs on SwiftShader (CPU). Skips, loudly, only where no chromium binary exists.
-import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { chromium } from 'playwright-core';
+import { chromiumOrWarn } from '../helpers/browser.js';
 import { renderHtml } from '../../render/scene3d/html.js';
 import { readRunView } from '../../render/scene3d/runInput.js';
 import { makeRunFolder } from './fixtures.js';
 
-function findChromium(): string | undefined {
-  for (const name of ['chromium', 'chromium-browser']) {
-    try {
-      const p = execFileSync('which', [name], { encoding: 'utf8' }).trim();
-      if (p && existsSync(p)) return p;
-    } catch { /* not on PATH */ }
-  }
-  return undefined;
-}
-
-const exe = findChromium();
-if (!exe) {
-  process.stderr.write('\n' + '!'.repeat(78) + '\n!!! SKIPPING the HTML viewer browser test: no chromium on PATH.\n' +
-    '!!! Install it with: apt-get install -y chromium   (CI does this in .ci/run)\n' + '!'.repeat(78) + '\n\n');
-}
+const exe = chromiumOrWarn('the HTML viewer browser test');
 
 let tmp: string;
 let htmlPath: string;
