@@ -85,3 +85,32 @@ run: { max_time: 200 us, step_without_rf: 50 ns, record_every: 0 }
     }
   });
 });
+
+describe('gas inside one stage', () => {
+  it('collides only in the stage that holds the gas block', async () => {
+    // 10 mTorr He, 100 Å²: rate nσ⟨g⟩ ≈ 2.4e20 m⁻³ · 1e-18 m² · 2.2 km/s ≈ 5e5 /s (kinetic theory,
+    // ⟨g⟩ from the ion speed and the helium thermal speed): tens of collisions in 100 µs. The ions
+    // (5 eV, m/z 300, 1.8 mm/µs) stay inside the 1 m first stage for the whole run, so gas in the
+    // second stage must give none.
+    const gas = ', gas: { species: He, pressure: 10 mTorr, temperature: 300 K, model: hard-sphere, cross_section: 100 A^2 }';
+    const scene = (where: 0 | 1 | -1) => `
+seed: 12
+stages:
+  - { type: drift, length: 1 m${where === 0 ? gas : ''} }
+  - { type: drift, length: 40 mm${where === 1 ? gas : ''} }
+ions:
+  - { mz: 300, count: 200, energy: 5 eV }
+run: { max_time: 100 us, step_without_rf: 20 ns, record_every: 0 }
+`;
+    const collisions = async (where: 0 | 1 | -1) => {
+      const dir = join(tempDir(), 'run');
+      await runScene(parseScene(scene(where), 'stage-gas.yaml'), { out: dir, workers: 1 });
+      const ions = readIons(dir);
+      expect(ions.end_stage.every((s) => s === 0)).toBe(true);
+      return ions.collisions.reduce((a, b) => a + b, 0) / ions.collisions.length;
+    };
+    expect(await collisions(0)).toBeGreaterThan(10);
+    expect(await collisions(1)).toBe(0);
+    expect(await collisions(-1)).toBe(0);
+  });
+});
