@@ -67,7 +67,7 @@ export async function run(argv: string[]): Promise<number> {
   const lines = [
     result.scene.name,
     `  sweep folder  ${out}`,
-    `  ${result.points.length} points × ${result.ionsPerPoint} ions, method ${result.method.used}${result.method.direct_because ? ` (direct: ${result.method.direct_because})` : ''}, ${result.wallSeconds.toFixed(2)} s`,
+    `  ${result.points.length} points × ${ionCount(result.points.map((p) => p.total))} ions, method ${result.method.used}${result.method.direct_because ? ` (direct: ${result.method.direct_because})` : ''}, ${result.wallSeconds.toFixed(2)} s`,
   ];
   const p = result.peak;
   if (p) {
@@ -83,4 +83,10 @@ export async function run(argv: string[]): Promise<number> {
   }
   process.stdout.write(lines.join('\n') + '\n');
   return 0;
+}
+
+/** "2000", or "40–120" when the varied keys change the number of ions per point. */
+function ionCount(totals: number[]): string {
+  const lo = Math.min(...totals), hi = Math.max(...totals);
+  return lo === hi ? String(lo) : `${lo}–${hi}`;
 }
