@@ -32,23 +32,11 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
     const start = b * plan.size;
     return { batch: b, start, count: Math.min(plan.size, plan.total - start) };
   };
-  if (opts.workers <= 1 || plan.count <= 1) {
-    const gas = gasFactory(scene);
-    let b = 0;
-    for (; b < plan.count; b++) {
-      if (opts.stopped()) break;
-      const { start, count } = bounds(b);
-      opts.onResult(trackBatch(scene, b, start, count, gas));
-      // Let a pending SIGINT be delivered between batches.
-      if ((b & 3) === 3) await new Promise((r) => setImmediate(r));
-    }
-    return b;
-  }
-
   // The main thread computes too: --workers N means N computing threads, N − 1 of them workers.
   // Each worker keeps two batches queued so it never waits for the main thread to feed it.
-  const n = Math.min(opts.workers, plan.count) - 1;
-  const script = workerScript();
+  // With one thread (or one batch) no worker starts and this thread runs every batch.
+  const n = Math.max(0, Math.min(opts.workers, plan.count) - 1);
+  const script = n > 0 ? workerScript() : '';
   const pending = new Map<number, BatchResult>();
   let next = 0;
   let emitted = 0;
