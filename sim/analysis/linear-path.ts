@@ -31,7 +31,7 @@ import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } fr
 import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
 import { trackUniform } from '../engine/kernels/uniform.js';
-import { fAt, fAtGrid, mat2, periodTable, powerApply, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
+import { fAt, fAtGrid, mat2, periodTable, powerApply, powers, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
 
 /**
  * Safety margin of tier 1: Wmax is the largest W on the grid (2π/(M·S) apart); between grid points
@@ -80,6 +80,52 @@ export interface LinearOptions {
 
 interface AxisPair { x: PeriodTable; y: PeriodTable }
 
+/** The one-ion batch and context the drift kernel reads (shared: trackers never run at once). */
+const ONE_ION = allocateBatch(1);
+
+/**
+ * Scratch shared by every tracker, grown on demand: the ion's sampled first rows of F per axis
+ * (stamped per ion), candidate checks, the batch pass's done mask. track() runs start to end
+ * without yielding, so trackers in one thread never interleave; sharing saves a sweep the
+ * allocation (and collection) of these arrays at every point.
+ */
+const SCRATCH = {
+  rx1: new Float64Array(0), rx2: new Float64Array(0), ry1: new Float64Array(0), ry2: new Float64Array(0),
+  rowStamp: new Float64Array(0), stamp: 0, cand: new Int32Array(0), doneMask: new Uint8Array(0),
+  // Stable tier 2: per candidate C, S and amplitude² per axis, the flagged candidates of a block,
+  // and cos, sin of k·μx, k·μy (rotations()).
+  cx: new Float64Array(0), sx: new Float64Array(0), cy: new Float64Array(0), sy: new Float64Array(0),
+  ax: new Float64Array(0), ay: new Float64Array(0), flag: new Int32Array(0), rot: new Float64Array(0),
+};
+
+/**
+ * Periods per block of the stable scan: long enough that skipping a block saves many samples,
+ * short enough that its arc (BLOCK·μ) stays short near the edges of the region, where μ → 0 or
+ * π and the scan is dearest.
+ */
+const BLOCK = 8;
+
+/**
+ * SCRATCH.rot[4k..4k+3] = cos kμx, sin kμx, cos kμy, sin kμy for k = 0..kTop; returns kTop + 1.
+ * By rotation from the last exact value (Math.cos, Math.sin every 32 steps): the drift between
+ * anchors is a few 1e-15, far inside the 1e-6 margin of the bounds that use it.
+ */
+function rotations(muX: number, muY: number, kTop: number): number {
+  if (SCRATCH.rot.length < 4 * (kTop + 1)) SCRATCH.rot = new Float64Array(4 * (kTop + 1));
+  const R = SCRATCH.rot;
+  const cx = Math.cos(muX), sx = Math.sin(muX), cy = Math.cos(muY), sy = Math.sin(muY);
+  for (let k = 0; k <= kTop; k++) {
+    const o = 4 * k;
+    if ((k & 31) === 0) {
+      R[o] = Math.cos(k * muX); R[o + 1] = Math.sin(k * muX); R[o + 2] = Math.cos(k * muY); R[o + 3] = Math.sin(k * muY);
+    } else {
+      R[o] = R[o - 4] * cx - R[o - 3] * sx; R[o + 1] = R[o - 3] * cx + R[o - 4] * sx;
+      R[o + 2] = R[o - 2] * cy - R[o - 1] * sy; R[o + 3] = R[o - 1] * cy + R[o - 2] * sy;
+    }
+  }
+  return kTop + 1;
+}
+
 /** Tables of finished trackers, whose arrays the next point's tables reuse. */
 const spareTables: PeriodTable[] = [];
 
@@ -125,8 +171,16 @@ export class StartStates {
   }
 }
 
-/** What startIon reads, except the populations' m/z. */
+const signatures = new WeakMap<Scene, string>();
+
+/** What startIon reads, except the populations' m/z (kept per scene object: asked twice a point). */
 function startSignature(scene: Scene): string {
+  let sig = signatures.get(scene);
+  if (sig === undefined) { sig = signatureOf(scene); signatures.set(scene, sig); }
+  return sig;
+}
+
+function signatureOf(scene: Scene): string {
   return JSON.stringify({
     seed: scene.seed,
     ions: scene.ions.map((p) => ({ ...p, mz: 0 })),
@@ -144,15 +198,10 @@ export class LinearTracker {
   private readonly needBefore: boolean[];
   private readonly openTail: boolean[];
   private readonly offsets: number[];
-  private readonly b = allocateBatch(1);
+  private readonly b = ONE_ION;
   private readonly ctx: StepContext;
   private readonly c: IonCursor = { ion: 0, slot: 0, m: 0, q: 0, tau: 0, t: 0, x: 0, y: 0, z: 0, vx: 0, vy: 0, vz: 0, steps: 0, sinceRecord: 0, nextHist: 0 };
-  // Scratch, allocated once: the ion's sampled first rows of F per axis, a matrix, a vector.
-  private rx1 = new Float64Array(0); private rx2 = new Float64Array(0);
-  private ry1 = new Float64Array(0); private ry2 = new Float64Array(0);
-  private rowStamp = new Float64Array(0);
-  private stamp = 0;
-  private cand = new Int32Array(0);
+  // Scratch: a matrix, a vector (the row scratch is shared, see SCRATCH).
   private readonly row = new Float64Array(2);
   private readonly fm = mat2();
   private readonly v = new Float64Array(2);
@@ -245,11 +294,14 @@ export class LinearTracker {
       const M = this.scene.run.stepsPerCycle;
       t = { x: periodTable(a, qq, M, undefined, spareTables.pop()), y: periodTable(-a, -qq, M, undefined, spareTables.pop()) };
       this.tables.set(key, t);
-      if (this.rx1.length < M + 1) {
-        this.rx1 = new Float64Array(M + 1); this.rx2 = new Float64Array(M + 1);
-        this.ry1 = new Float64Array(M + 1); this.ry2 = new Float64Array(M + 1);
-        this.rowStamp = new Float64Array(M + 1);
-        this.cand = new Int32Array(M + 1);
+      if (SCRATCH.rx1.length < M + 1) {
+        SCRATCH.rx1 = new Float64Array(M + 1); SCRATCH.rx2 = new Float64Array(M + 1);
+        SCRATCH.ry1 = new Float64Array(M + 1); SCRATCH.ry2 = new Float64Array(M + 1);
+        SCRATCH.rowStamp = new Float64Array(M + 1);
+        SCRATCH.cand = new Int32Array(M + 1); SCRATCH.flag = new Int32Array(M + 1);
+        SCRATCH.cx = new Float64Array(M + 1); SCRATCH.sx = new Float64Array(M + 1);
+        SCRATCH.cy = new Float64Array(M + 1); SCRATCH.sy = new Float64Array(M + 1);
+        SCRATCH.ax = new Float64Array(M + 1); SCRATCH.ay = new Float64Array(M + 1);
       }
     }
     return t;
@@ -334,15 +386,14 @@ export class LinearTracker {
     rowAt(tx, i, eps, r);
     let u1 = r[0], u2 = r[1];
     if (wrap) { const w1 = u1 * tx.m11 + u2 * tx.m21; u2 = u1 * tx.m12 + u2 * tx.m22; u1 = w1; }
-    this.rx1[m] = u1; this.rx2[m] = u2;
+    SCRATCH.rx1[m] = u1; SCRATCH.rx2[m] = u2;
     rowAt(ty, i, eps, r);
     u1 = r[0]; u2 = r[1];
     if (wrap) { const w1 = u1 * ty.m11 + u2 * ty.m21; u2 = u1 * ty.m12 + u2 * ty.m22; u1 = w1; }
-    this.ry1[m] = u1; this.ry2[m] = u2;
-    this.rowStamp[m] = stamp;
+    SCRATCH.ry1[m] = u1; SCRATCH.ry2[m] = u2;
+    SCRATCH.rowStamp[m] = stamp;
   }
 
-  private doneMask = new Uint8Array(0);
 
   /**
    * Tier 1 for a whole batch in one tight loop (the common layout: ions start in a quadrupole
@@ -351,8 +402,8 @@ export class LinearTracker {
    * Returns done[k] = 1 for the ions it decided.
    */
   private tier1Batch(start: number, count: number, st0: StartStates, scale: number[], mass: number[], charge: number[], fate: Int8Array, endTime?: Float64Array): Uint8Array {
-    if (this.doneMask.length < count) this.doneMask = new Uint8Array(count);
-    const done = this.doneMask;
+    if (SCRATCH.doneMask.length < count) SCRATCH.doneMask = new Uint8Array(count);
+    const done = SCRATCH.doneMask;
     done.fill(0, 0, count);
     const scene = this.scene, stages = scene.stages, maxTime = this.ctx.maxTime, R2 = this.r2;
     const TWO_PI = 2 * Math.PI, g = 1 + ENVELOPE_MARGIN;
@@ -382,6 +433,17 @@ export class LinearTracker {
       const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = g * tx.wMax;
       const gy = ty.gamma, ay = ty.alpha, by = ty.beta, Wy = g * ty.wMax;
       const sc = scale[pop], zEnd = st.zEnd;
+      // Powers of M0 up to the most periods any ion of the run can spend in the stage.
+      const kTop = Math.floor(maxTime * st.rf.frequency) + 1;
+      const nPow = Math.min(powers(tx, kTop), powers(ty, kTop));
+      const PX = tx.pow, PY = ty.pow;
+      // Stable runs: the rotation of a block of periods, |μ|, the W grids and their margins.
+      const absMuX = Math.abs(tx.muEff), absMuY = Math.abs(ty.muEff);
+      const wholeBx = BLOCK * absMuX >= Math.PI, wholeBy = BLOCK * absMuY >= Math.PI;
+      const cBx = bothStable ? Math.cos(BLOCK * tx.muEff) : 1, sBx = bothStable ? Math.sin(BLOCK * tx.muEff) : 0;
+      const cBy = bothStable ? Math.cos(BLOCK * ty.muEff) : 1, sBy = bothStable ? Math.sin(BLOCK * ty.muEff) : 0;
+      const wgx = tx.w, wgy = ty.w, mgx = ENVELOPE_MARGIN * tx.wMax, mgy = ENVELOPE_MARGIN * ty.wMax;
+      let rotCount = 0;
       const X = st0.x, Y = st0.y, VX = st0.vx, VY = st0.vy, Z = st0.z, VZ = st0.vz, TAU = st0.tau;
       for (let j = k; j < end; j++) {
         const i = start + j;
@@ -426,6 +488,25 @@ export class LinearTracker {
           // sample at or past r0 decides the loss; an ion not caught that way before the last
           // full period goes to the per-ion path, which decides it exactly.
           const full = Math.floor(tExit / h), kMax = Math.ceil(full / M);
+          // Fate only (no hit time asked): one check at the end of the last full period inside
+          // the rods, X = F(ψ)·M0^K·c from the power table. A sample there at or past r0 means
+          // the direct kernel loses the ion at that check or an earlier one; the first hit is not
+          // needed. Most growing ions are decided here; the others take the steps below.
+          if (endTime === undefined) {
+            const kt = Math.min(Math.floor(full / M), nPow - 1);
+            if (kt >= 1) {
+              const o = 4 * kt;
+              const ex1 = PX[o] * cx1 + PX[o + 1] * cx2, ex2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
+              const ey1 = PY[o] * cy1 + PY[o + 1] * cy2, ey2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
+              const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
+              if (Xe * Xe + Ye * Ye >= R2) {
+                fate[j] = Fate.hit;
+                done[j] = 1;
+                this.periodLoops++;
+                continue;
+              }
+            }
+          }
           const envX = tx.stable ? Wx * (gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2) : 0;
           const envY = ty.stable ? Wy * (gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2) : 0;
           let gxu = 0, sxu = 0, gyu = 0, syu = 0;
@@ -463,30 +544,42 @@ export class LinearTracker {
         const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
         const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
         if (!(Wx * ix + Wy * iy < R2)) {
-          // Tier 2 with both axes stable: the per-check envelope (Courant–Snyder form at the ion's
-          // own check phases) leaves a few checks that can hit at all; visit those in every period.
+          // Tier 2 with both axes stable. In Courant–Snyder form a check's value is
+          // U = ρ·z_k = |ρ||z|·cos(kμ + φ), z_k the normalized state turning by μ per period.
+          // Candidates: the checks m whose envelope I·W(θ_m) (W from the grid, no row needed)
+          // can reach r0², then of those the ones whose arc over the whole stage can (U² ≤ the
+          // largest cos² on the arc the angle sweeps; 1 when it holds a multiple of π). Then the
+          // stage in blocks of BLOCK periods: a block whose arcs keep every candidate below r0² is
+          // skipped; the others are checked sample by sample from d = M0^k0·c (power table).
+          // Blocks and samples run in time order, so the first hit found is the first hit.
           const full = Math.floor(tExit / h);
-          let nc = 0;
-          const cand = this.cand, rx1 = this.rx1, rx2 = this.rx2, ry1 = this.ry1, ry2 = this.ry2;
-          const S = tx.sub;
-          // Over the stage's periods k = 0..Kp the normalized state z_k turns by k·μ (mod π for
-          // U²): each check's value is confined to an arc of angles, so U² ≤ max of the arc's
-          // cos² (1 when the arc holds a multiple of π) — tighter than the all-time envelope when
-          // few turns fit in the rods (near the edges of the region, μ → 0 or π).
           const Kp = Math.ceil(full / M);
+          let nc = 0;
+          const cand = SCRATCH.cand, rx1 = SCRATCH.rx1, rx2 = SCRATCH.rx2, ry1 = SCRATCH.ry1, ry2 = SCRATCH.ry2;
+          const CX = SCRATCH.cx, SX = SCRATCH.sx, CY = SCRATCH.cy, SY = SCRATCH.sy, AX = SCRATCH.ax, AY = SCRATCH.ay;
+          const S = tx.sub;
           const sbx = Math.sqrt(bx), sby = Math.sqrt(by);
           const zx1 = cx1 / sbx, zx2 = (ax * cx1) / sbx + sbx * cx2;
           const zy1 = cy1 / sby, zy2 = (ay * cy1) / sby + sby * cy2;
-          const Lx = Kp * tx.muEff, Ly = Kp * ty.muEff;
-          const wholeX = Math.abs(Lx) >= Math.PI, wholeY = Math.abs(Ly) >= Math.PI;
-          const cLx = Math.cos(Lx), sLx = Math.sin(Lx), cLy = Math.cos(Ly), sLy = Math.sin(Ly);
+          // The whole stage's arc, k = 0..Kp (rotation through Kp·μ from the table of the run).
+          const wholeX = Kp * absMuX >= Math.PI, wholeY = Kp * absMuY >= Math.PI;
+          let cLx = 1, sLx = 0, cLy = 1, sLy = 0;
+          if (!wholeX || !wholeY) {
+            if (rotCount <= Kp) rotCount = rotations(tx.muEff, ty.muEff, kTop);
+            const R = SCRATCH.rot;
+            cLx = R[4 * Kp]; sLx = R[4 * Kp + 1]; cLy = R[4 * Kp + 2]; sLy = R[4 * Kp + 3];
+          }
+          const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
           for (let m = 1; m <= M; m++) {
             let ii = i0 + m * S;
             const wrap = ii >= nn;
             if (wrap) ii -= nn;
+            // Envelope of this check from the grid: W at the two grid points around its phase
+            // plus the margin for the curve between them (ENVELOPE_MARGIN, in units of Wmax).
+            const wa = wgx[ii] > wgx[ii + 1] ? wgx[ii] : wgx[ii + 1], wb = wgy[ii] > wgy[ii + 1] ? wgy[ii] : wgy[ii + 1];
+            if ((wa + mgx) * ix + (wb + mgy) * iy < R2) continue;
             // rowAt(), inlined (third-order Taylor from the grid point).
             const wxx = w0x + w1x * cs[ii], dwx = -w1x * sn[ii], wyy = w0y + w1y * cs[ii], dwy = -w1y * sn[ii];
-            const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
             let a = f11x[ii], pa = f21x[ii], b2 = f12x[ii], pb = f22x[ii];
             let r1 = a + e * pa - E2 * wxx * a - E3 * (dwx * a + wxx * pa);
             let r2 = b2 + e * pb - E2 * wxx * b2 - E3 * (dwx * b2 + wxx * pb);
@@ -496,41 +589,72 @@ export class LinearTracker {
             let t2 = b2 + e * pb - E2 * wyy * b2 - E3 * (dwy * b2 + wyy * pb);
             if (wrap) { const w1 = t1 * ty.m11 + t2 * ty.m21; t2 = t1 * ty.m12 + t2 * ty.m22; t1 = w1; }
             // ρ = L⁻ᵀ·row; U = ρ·z. C = |ρ||z|cos a, Sv = |ρ||z|sin a at k = 0; the arc's far end by
-            // the rotation through L; U² ≤ max(C², C_end²) unless sin changes sign on the arc.
+            // the rotation through Kp·μ; U² ≤ max(C², C_end²) unless sin changes sign on the arc.
             const px1 = sbx * r1 - (ax * r2) / sbx, px2 = r2 / sbx;
-            let bxm: number;
-            const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1;
-            if (wholeX) bxm = (px1 * px1 + px2 * px2) * ix;
-            else {
+            const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1, Ax = (px1 * px1 + px2 * px2) * ix;
+            let bxm = Ax;
+            if (!wholeX) {
               const C2 = Cx * cLx - Sx * sLx, S2 = Sx * cLx + Cx * sLx;
-              bxm = (Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0 ? (px1 * px1 + px2 * px2) * ix : Math.max(Cx * Cx, C2 * C2);
+              if (!((Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0)) bxm = Math.max(Cx * Cx, C2 * C2);
             }
             const py1 = sby * t1 - (ay * t2) / sby, py2 = t2 / sby;
-            let bym: number;
-            const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1;
-            if (wholeY) bym = (py1 * py1 + py2 * py2) * iy;
-            else {
+            const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1, Ay = (py1 * py1 + py2 * py2) * iy;
+            let bym = Ay;
+            if (!wholeY) {
               const C2 = Cy * cLy - Sy * sLy, S2 = Sy * cLy + Cy * sLy;
-              bym = (Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0 ? (py1 * py1 + py2 * py2) * iy : Math.max(Cy * Cy, C2 * C2);
+              if (!((Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0)) bym = Math.max(Cy * Cy, C2 * C2);
             }
             // Margin for the invariant's drift under the (non-symplectic) RK4 table (≲ 1e-11 per
             // period) and for rounding in the rotation: 1e-6 relative.
-            if ((bxm + bym) * (1 + 1e-6) >= R2) { cand[nc] = m; rx1[nc] = r1; rx2[nc] = r2; ry1[nc] = t1; ry2[nc] = t2; nc++; }
+            if ((bxm + bym) * (1 + 1e-6) >= R2) {
+              cand[nc] = m; rx1[nc] = r1; rx2[nc] = r2; ry1[nc] = t1; ry2[nc] = t2;
+              CX[nc] = Cx; SX[nc] = Sx; CY[nc] = Cy; SY[nc] = Sy; AX[nc] = Ax; AY[nc] = Ay;
+              nc++;
+            }
           }
           let hitAt = -1;
           if (nc > 0) {
-            let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
+            const flag = SCRATCH.flag;
             const m11x = tx.m11, m12x = tx.m12, m21x = tx.m21, m22x = tx.m22;
             const m11y = ty.m11, m12y = ty.m12, m21y = ty.m21, m22y = ty.m22;
-            for (let base = 0; base < full && hitAt < 0; base += M) {
-              const mmax = full - base;
+            for (let k0 = 0; k0 < Kp && hitAt < 0; k0 += BLOCK) {
+              // Arc of the block, periods k0..k0 + BLOCK; C, S advance to the next block's start.
+              let nf = 0;
+              const b0 = k0 * M;
               for (let jj = 0; jj < nc; jj++) {
-                if (cand[jj] > mmax) break;
-                const Xc = rx1[jj] * dx1 + rx2[jj] * dx2, Yc = ry1[jj] * dy1 + ry2[jj] * dy2;
-                if (Xc * Xc + Yc * Yc >= R2) { hitAt = base + cand[jj]; break; }
+                if (b0 + cand[jj] > full) break;
+                const C = CX[jj], Sv = SX[jj];
+                const C2 = C * cBx - Sv * sBx, S2 = Sv * cBx + C * sBx;
+                CX[jj] = C2; SX[jj] = S2;
+                const bxb = wholeBx || (Sv > 0) !== (S2 > 0) || Sv === 0 || S2 === 0 ? AX[jj] : Math.max(C * C, C2 * C2);
+                const D = CY[jj], Tv = SY[jj];
+                const D2 = D * cBy - Tv * sBy, T2 = Tv * cBy + D * sBy;
+                CY[jj] = D2; SY[jj] = T2;
+                const byb = wholeBy || (Tv > 0) !== (T2 > 0) || Tv === 0 || T2 === 0 ? AY[jj] : Math.max(D * D, D2 * D2);
+                if ((bxb + byb) * (1 + 1e-6) >= R2) flag[nf++] = jj;
               }
-              let w = m11x * dx1 + m12x * dx2; dx2 = m21x * dx1 + m22x * dx2; dx1 = w;
-              w = m11y * dy1 + m12y * dy2; dy2 = m21y * dy1 + m22y * dy2; dy1 = w;
+              if (nf === 0) continue;
+              let dx1: number, dx2: number, dy1: number, dy2: number;
+              if (k0 < nPow) {
+                const o = 4 * k0;
+                dx1 = PX[o] * cx1 + PX[o + 1] * cx2; dx2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
+                dy1 = PY[o] * cy1 + PY[o + 1] * cy2; dy2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
+              } else {
+                powerApply(tx, k0, cx1, cx2, v); dx1 = v[0]; dx2 = v[1];
+                powerApply(ty, k0, cy1, cy2, v); dy1 = v[0]; dy2 = v[1];
+              }
+              const kEnd = Math.min(k0 + BLOCK, Kp);
+              for (let kk = k0; kk < kEnd && hitAt < 0; kk++) {
+                const base = kk * M, mmax = full - base;
+                for (let f = 0; f < nf; f++) {
+                  const jj = flag[f];
+                  if (cand[jj] > mmax) break;
+                  const Xc = rx1[jj] * dx1 + rx2[jj] * dx2, Yc = ry1[jj] * dy1 + ry2[jj] * dy2;
+                  if (Xc * Xc + Yc * Yc >= R2) { hitAt = base + cand[jj]; break; }
+                }
+                let w = m11x * dx1 + m12x * dx2; dx2 = m21x * dx1 + m22x * dx2; dx1 = w;
+                w = m11y * dy1 + m12y * dy2; dy2 = m21y * dy1 + m22y * dy2; dy1 = w;
+              }
             }
           }
           if (hitAt < 0) {
@@ -586,7 +710,7 @@ export class LinearTracker {
     // flagged periods runs only if no probe hits (ions that come close and pass).
     const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
     const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
-    const stamp = ++this.stamp;
+    const stamp = ++SCRATCH.stamp;
     const probes = this.probes(M);
     let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
     // With an unstable axis, skip the periods in which even the eigen-bound
@@ -605,7 +729,7 @@ export class LinearTracker {
     let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
     let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
     let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
-    const cand = this.cand;
+    const cand = SCRATCH.cand;
     let nc = 0;
     for (let pass = 0; pass < 2; pass++) {
       for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
@@ -624,8 +748,8 @@ export class LinearTracker {
             for (let j = 1; j < probes.length; j++) {
               const m = probes[j];
               if (m > mmax) continue;
-              if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
-              const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+              if (SCRATCH.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+              const X = SCRATCH.rx1[m] * dx1 + SCRATCH.rx2[m] * dx2, Y = SCRATCH.ry1[m] * dy1 + SCRATCH.ry2[m] * dy2;
               if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
             }
             if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
@@ -633,7 +757,7 @@ export class LinearTracker {
             for (let j = 0; j < nc; j++) {
               const m = cand[j];
               if (m > mmax) break;
-              const X = this.rx1[m] * dx1 + this.rx2[m] * dx2, Y = this.ry1[m] * dy1 + this.ry2[m] * dy2;
+              const X = SCRATCH.rx1[m] * dx1 + SCRATCH.rx2[m] * dx2, Y = SCRATCH.ry1[m] * dy1 + SCRATCH.ry2[m] * dy2;
               if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
             }
           }
@@ -649,9 +773,9 @@ export class LinearTracker {
       const ixx = tx.stable ? tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2 : 0;
       const iyy = ty.stable ? ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2 : 0;
       for (let m = 1; m <= M; m++) {
-        if (this.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+        if (SCRATCH.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
         if (tx.stable && ty.stable) {
-          const a1 = this.rx1[m], a2 = this.rx2[m], b1 = this.ry1[m], b2 = this.ry2[m];
+          const a1 = SCRATCH.rx1[m], a2 = SCRATCH.rx2[m], b1 = SCRATCH.ry1[m], b2 = SCRATCH.ry2[m];
           const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
           const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
           // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-11 per period.

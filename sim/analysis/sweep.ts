@@ -224,6 +224,7 @@ function pointMethod(scene: Scene, requested: SweepMethod): { method: PointMetho
 class PointRunner {
   private pool: DirectPool | null = null;
   private starts: StartStates | null = null;
+  private fate = new Int8Array(0);
   directBecause: string | null = null;
 
   constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = []) {}
@@ -264,7 +265,8 @@ class PointRunner {
     // Reuse the start draws while they serve the point (at most 4 million ions kept).
     if (total <= 4_000_000 && (this.starts === null || !this.starts.serves(scene))) this.starts = new StartStates(scene);
     const tracker = new LinearTracker(scene);
-    const fate = new Int8Array(Math.min(total, 65536));
+    if (this.fate.length < Math.min(total, 65536)) this.fate = new Int8Array(Math.min(total, 65536));
+    const fate = this.fate;
     let d = 0;
     for (let start = 0; start < total; start += fate.length) {
       const n = Math.min(fate.length, total - start);

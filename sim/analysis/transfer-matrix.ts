@@ -38,6 +38,12 @@ export interface PeriodTable {
   beta: number; alpha: number; gamma: number;
   /** Largest W(θ_i) over the grid (stable only; else Infinity). */
   wMax: number;
+  /**
+   * W(θ_i), i = 0..n (stable only). W is 2π-periodic (the form is M0-invariant), and between
+   * grid points it stays below (1 + 1e-3)·max of the two ends (see ENVELOPE_MARGIN in
+   * linear-path.ts), so a check's envelope is bounded without computing its row.
+   */
+  w: Float64Array;
   /** Largest F11² + F12² over the grid. */
   rowMax: number;
   /**
@@ -61,6 +67,12 @@ export interface PeriodTable {
   lambda: number;
   vi11: number; vi12: number; vi21: number; vi22: number;
   h1: number; h2: number;
+  /**
+   * Powers M0^k, k = 0..powCount−1, as (m11, m12, m21, m22) at pow[4k..4k+3], filled on demand by
+   * powers(): each one product from the previous (the same products as period-by-period stepping).
+   */
+  pow: Float64Array;
+  powCount: number;
 }
 
 /**
@@ -86,7 +98,7 @@ function trigTable(n: number): { cos: Float64Array; sin: Float64Array } {
 /**
  * Table of one axis. `a`, `q` are this axis's Mathieu parameters (y: −a, −q); `checks` = M.
  * The default S keeps the grid at ≥ 640 points per period (spacing ≤ 2π/640, which the error
- * bounds of rowAt, fAtGrid and smallAngle assume). Cost: n·INNER RK4 steps on two solutions.
+ * bounds of rowAt, fAtGrid and smallAngle assume). Cost: n·INNER/2 RK4 steps on two solutions.
  */
 export function periodTable(a: number, q: number, checks: number, sub = Math.max(16, Math.ceil(640 / checks)), reuse?: PeriodTable): PeriodTable {
   const n = checks * sub;
@@ -96,14 +108,18 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
   const same = reuse !== undefined && reuse.n === n;
   const f11 = same ? reuse.f11 : new Float64Array(n + 1), f12 = same ? reuse.f12 : new Float64Array(n + 1);
   const f21 = same ? reuse.f21 : new Float64Array(n + 1), f22 = same ? reuse.f22 : new Float64Array(n + 1);
+  const wGrid = same ? reuse.w : new Float64Array(n + 1);
   const { cos, sin } = trigTable(n);
   // cos at the RK4 stage points: grid/(2·INNER) spacing.
   const fine = trigTable(2 * INNER * n).cos;
-  // Columns: solution 1 (U = 1, U' = 0) and solution 2 (U = 0, U' = 1).
+  // Columns: solution 1 (U = 1, U' = 0) and solution 2 (U = 0, U' = 1), integrated over the
+  // first half period only. w is even in θ, so U(−θ) solves the same equation: F(−θ) = R·F(θ)·R
+  // with R = diag(1, −1), hence F(2π − θ) = R·F(θ)·R·M0 and, at θ = π, M0 = R·F(π)⁻¹·R·F(π)
+  // (Magnus & Winkler, Hill's Equation, 1966, §1.3, even coefficient). n is even (S ≥ 16).
   let u1 = 1, p1 = 0, u2 = 0, p2 = 1;
   f11[0] = 1; f12[0] = 0; f21[0] = 0; f22[0] = 1;
-  const h = dTheta / INNER;
-  for (let i = 0; i < n; i++) {
+  const h = dTheta / INNER, nh = n / 2;
+  for (let i = 0; i < nh; i++) {
     for (let s = 0; s < INNER; s++) {
       const j = 2 * (INNER * i + s);
       const g0 = w0 + w1 * fine[j], g1 = w0 + w1 * fine[j + 1], g2 = w0 + w1 * fine[j + 2];
@@ -113,7 +129,13 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
     // Rows of F: first row = positions of the two solutions, second = their slopes.
     f11[i + 1] = u1; f12[i + 1] = u2; f21[i + 1] = p1; f22[i + 1] = p2;
   }
-  const m11 = f11[n], m12 = f12[n], m21 = f21[n], m22 = f22[n];
+  // R·F(π)⁻¹·R = [[f22, f12], [f21, f11]] (det F = 1 up to the table's error).
+  const m11 = u2 * p1 + u1 * p2, m12 = 2 * p2 * u2, m21 = 2 * p1 * u1, m22 = m11;
+  for (let i = nh + 1; i <= n; i++) {
+    const k = n - i, a11 = f11[k], a12 = -f12[k], a21 = -f21[k], a22 = f22[k];
+    f11[i] = a11 * m11 + a12 * m21; f12[i] = a11 * m12 + a12 * m22;
+    f21[i] = a21 * m11 + a22 * m21; f22[i] = a21 * m12 + a22 * m22;
+  }
   const half = 0.5 * (m11 + m22);
   const stable = Math.abs(half) < 1;
   let beta = NaN, alpha = NaN, gamma = NaN, wMax = Infinity, rowMax = 0;
@@ -122,41 +144,29 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
     rowMax = Math.max(rowMax, f11[i] * f11[i] + f12[i] * f12[i]);
     s11 += f11[i] * f11[i]; s12 += f11[i] * f12[i]; s22 += f12[i] * f12[i];
   }
-  // Scale the moment ellipse until it holds every grid point: ell = max r·S⁻¹·r.
-  const sd = s11 * s22 - s12 * s12;
-  let ell = 0;
-  for (let i = 0; i <= n; i++) {
-    const v = (s22 * f11[i] * f11[i] - 2 * s12 * f11[i] * f12[i] + s11 * f12[i] * f12[i]) / sd;
-    if (v > ell) ell = v;
-  }
-  const e11 = ell * s11, e12 = ell * s12, e22 = ell * s22;
   if (stable) {
     // M0 = I cos μ + J sin μ, J = [[α, β], [−γ, −α]]; the sign of sin μ makes β > 0.
     const sinMu = Math.sign(m12) * Math.sqrt(Math.max(0, 1 - half * half));
     beta = m12 / sinMu;
     alpha = (m11 - m22) / (2 * sinMu);
     gamma = -m21 / sinMu;
-    wMax = 0;
-    for (let i = 0; i <= n; i++) {
-      const w = beta * f11[i] * f11[i] - 2 * alpha * f11[i] * f12[i] + gamma * f12[i] * f12[i];
-      if (w > wMax) wMax = w;
-    }
   }
   let muEff = NaN;
   if (stable) {
     // N = L·M0·L⁻¹ is a rotation; its angle is the phase advance per period.
     const sb = Math.sqrt(beta);
     const l11 = 1 / sb, l21 = alpha / sb, l22 = sb;
-    const i11 = sb, i21 = -alpha / sb, i22 = 1 / sb;
-    // M0·L⁻¹ columns.
+    const i11 = sb, i21 = -alpha / sb;
+    // M0·L⁻¹ first column.
     const a11 = m11 * i11 + m12 * i21, a21 = m21 * i11 + m22 * i21;
     const n11 = l11 * a11, n21 = l21 * a11 + l22 * a21;
-    void i22;
     const mu = Math.atan2(n21, n11);
     muEff = mu - Math.PI * Math.round(mu / Math.PI);
   }
   let lambda = NaN, vi11 = NaN, vi12 = NaN, vi21 = NaN, vi22 = NaN, h1 = NaN, h2 = NaN;
-  if (!stable && Number.isFinite(half)) {
+  let e1 = 0, e2 = 0, o1 = 0, o2 = 0;
+  const growing = !stable && Number.isFinite(half);
+  if (growing) {
     const root = Math.sqrt(half * half - 1);
     lambda = half + Math.sign(half) * root;
     const mu = 1 / lambda;
@@ -167,19 +177,65 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
       const nv = Math.hypot(v[0], v[1]);
       return [v[0] / nv, v[1] / nv];
     };
-    const [p1, p2] = ev(lambda), [q1, q2] = ev(mu);
-    const det = p1 * q2 - q1 * p2;
-    vi11 = q2 / det; vi12 = -q1 / det; vi21 = -p2 / det; vi22 = p1 / det;
+    [e1, e2] = ev(lambda); [o1, o2] = ev(mu);
+    const det = e1 * o2 - o1 * e2;
+    vi11 = o2 / det; vi12 = -o1 / det; vi21 = -e2 / det; vi22 = e1 / det;
     h1 = 0; h2 = 0;
-    for (let i = 0; i <= n; i++) {
-      h1 = Math.max(h1, Math.abs(f11[i] * p1 + f12[i] * p2));
-      h2 = Math.max(h2, Math.abs(f11[i] * q1 + f12[i] * q2));
+  }
+  // One pass over the grid: the moment ellipse scaled until it holds every grid point
+  // (ell = max r·S⁻¹·r), Wmax (stable) and h1, h2 (growing).
+  const sd = s11 * s22 - s12 * s12;
+  let ell = 0;
+  if (stable) wMax = 0;
+  for (let i = 0; i <= n; i++) {
+    const a = f11[i], b = f12[i];
+    const v = (s22 * a * a - 2 * s12 * a * b + s11 * b * b) / sd;
+    if (v > ell) ell = v;
+    if (stable) {
+      const w = beta * a * a - 2 * alpha * a * b + gamma * b * b;
+      wGrid[i] = w;
+      if (w > wMax) wMax = w;
+    } else if (growing) {
+      const r1 = Math.abs(a * e1 + b * e2), r2 = Math.abs(a * o1 + b * o2);
+      if (r1 > h1) h1 = r1;
+      if (r2 > h2) h2 = r2;
     }
   }
+  const e11 = ell * s11, e12 = ell * s12, e22 = ell * s22;
   return {
     checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable,
-    beta, alpha, gamma, wMax, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
+    beta, alpha, gamma, wMax, w: wGrid, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
+    pow: reuse?.pow ?? new Float64Array(0), powCount: 0,
   };
+}
+
+/** Entries of M0^k stop growing the power table past this size (no overflow to ∞ or NaN). */
+const POW_LIMIT = 1e100;
+
+/**
+ * Makes t.pow hold M0^k for k = 0..min(kMax, last k with every entry below POW_LIMIT) and returns
+ * how many powers it holds (≥ 1: M0^0 = I).
+ */
+export function powers(t: PeriodTable, kMax: number): number {
+  if (t.powCount > kMax) return t.powCount;
+  if (t.pow.length < 4 * (kMax + 1)) {
+    const grown = new Float64Array(4 * Math.max(kMax + 1, 2 * (t.pow.length >> 2), 16));
+    grown.set(t.pow.subarray(0, 4 * t.powCount));
+    t.pow = grown;
+  }
+  const P = t.pow;
+  let k = t.powCount;
+  if (k === 0) { P[0] = 1; P[1] = 0; P[2] = 0; P[3] = 1; k = 1; }
+  const m11 = t.m11, m12 = t.m12, m21 = t.m21, m22 = t.m22;
+  for (; k <= kMax; k++) {
+    const j = 4 * (k - 1);
+    const a11 = m11 * P[j] + m12 * P[j + 2], a12 = m11 * P[j + 1] + m12 * P[j + 3];
+    const a21 = m21 * P[j] + m22 * P[j + 2], a22 = m21 * P[j + 1] + m22 * P[j + 3];
+    if (!(Math.max(Math.abs(a11), Math.abs(a12), Math.abs(a21), Math.abs(a22)) < POW_LIMIT)) break;
+    P[j + 4] = a11; P[j + 5] = a12; P[j + 6] = a21; P[j + 7] = a22;
+  }
+  t.powCount = k;
+  return k;
 }
 
 // rk4Step's result (U, U') in a scratch array: a module-level `let` holding a double would be
