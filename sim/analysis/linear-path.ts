@@ -92,18 +92,12 @@ const ONE_ION = allocateBatch(1);
 const SCRATCH = {
   rx1: new Float64Array(0), rx2: new Float64Array(0), ry1: new Float64Array(0), ry2: new Float64Array(0),
   rowStamp: new Float64Array(0), stamp: 0, cand: new Int32Array(0), doneMask: new Uint8Array(0),
-  // Stable tier 2: per candidate C, S and amplitude² per axis, the flagged candidates of a block,
-  // and cos, sin of k·μx, k·μy (rotations()).
-  cx: new Float64Array(0), sx: new Float64Array(0), cy: new Float64Array(0), sy: new Float64Array(0),
-  ax: new Float64Array(0), ay: new Float64Array(0), flag: new Int32Array(0), rot: new Float64Array(0),
+  // Stable tier 2: each candidate's envelope, cos and sin of k·μx, k·μy (rotations()) and the
+  // ion's d_k = M0^k·c per axis (components 1, 2), k = 0..kTop.
+  env: new Float64Array(0), rot: new Float64Array(0),
+  dx1: new Float64Array(0), dx2: new Float64Array(0), dy1: new Float64Array(0), dy2: new Float64Array(0),
 };
 
-/**
- * Periods per block of the stable scan: long enough that skipping a block saves many samples,
- * short enough that its arc (BLOCK·μ) stays short near the edges of the region, where μ → 0 or
- * π and the scan is dearest.
- */
-const BLOCK = 8;
 
 /**
  * SCRATCH.rot[4k..4k+3] = cos kμx, sin kμx, cos kμy, sin kμy for k = 0..kTop; returns kTop + 1.
@@ -235,7 +229,8 @@ export class LinearTracker {
     const cached = starts !== undefined && starts.serves(scene) ? starts : null;
     const scale = cached ? scene.ions.map((p, k) => Math.sqrt(cached.mass[k] / ionMassKg(p.mz, p.charge))) : [];
     const mass = scene.ions.map((p) => ionMassKg(p.mz, p.charge)), charge = scene.ions.map((p) => p.charge * ELEMENTARY_CHARGE);
-    const done = cached ? this.tier1Batch(start, count, cached, scale, mass, charge, fate, endTime) : null;
+    // The batch pass decides fates only; hit times (endTime) come from the per-ion path.
+    const done = cached && endTime === undefined ? this.tier1Batch(start, count, cached, scale, mass, charge, fate) : null;
     let pop = 0;
     while (start >= this.offsets[pop + 1]) pop++;
     for (let k = 0; k < count; k++) {
@@ -298,10 +293,7 @@ export class LinearTracker {
         SCRATCH.rx1 = new Float64Array(M + 1); SCRATCH.rx2 = new Float64Array(M + 1);
         SCRATCH.ry1 = new Float64Array(M + 1); SCRATCH.ry2 = new Float64Array(M + 1);
         SCRATCH.rowStamp = new Float64Array(M + 1);
-        SCRATCH.cand = new Int32Array(M + 1); SCRATCH.flag = new Int32Array(M + 1);
-        SCRATCH.cx = new Float64Array(M + 1); SCRATCH.sx = new Float64Array(M + 1);
-        SCRATCH.cy = new Float64Array(M + 1); SCRATCH.sy = new Float64Array(M + 1);
-        SCRATCH.ax = new Float64Array(M + 1); SCRATCH.ay = new Float64Array(M + 1);
+        SCRATCH.cand = new Int32Array(M + 1); SCRATCH.env = new Float64Array(M + 1);
       }
     }
     return t;
@@ -401,7 +393,7 @@ export class LinearTracker {
    * entry state and the envelope test; ions it cannot clear are left to the per-ion path.
    * Returns done[k] = 1 for the ions it decided.
    */
-  private tier1Batch(start: number, count: number, st0: StartStates, scale: number[], mass: number[], charge: number[], fate: Int8Array, endTime?: Float64Array): Uint8Array {
+  private tier1Batch(start: number, count: number, st0: StartStates, scale: number[], mass: number[], charge: number[], fate: Int8Array): Uint8Array {
     if (SCRATCH.doneMask.length < count) SCRATCH.doneMask = new Uint8Array(count);
     const done = SCRATCH.doneMask;
     done.fill(0, 0, count);
@@ -434,16 +426,19 @@ export class LinearTracker {
       const gy = ty.gamma, ay = ty.alpha, by = ty.beta, Wy = g * ty.wMax;
       const sc = scale[pop], zEnd = st.zEnd;
       // Powers of M0 up to the most periods any ion of the run can spend in the stage.
+      // Filled on demand (moreP) as far as the ions of the point need, at most kTop.
       const kTop = Math.floor(maxTime * st.rf.frequency) + 1;
-      const nPow = Math.min(powers(tx, kTop), powers(ty, kTop));
+      // (No closure here: one that assigned nPow would move it out of a register for the loop.)
+      let nPow = Math.min(tx.powCount, ty.powCount), powCapped = false;
       const PX = tx.pow, PY = ty.pow;
-      // Stable runs: the rotation of a block of periods, |μ|, the W grids and their margins.
+      // Stable runs: |μ|, the W grids and their margins, the ion's d_k scratch.
       const absMuX = Math.abs(tx.muEff), absMuY = Math.abs(ty.muEff);
-      const wholeBx = BLOCK * absMuX >= Math.PI, wholeBy = BLOCK * absMuY >= Math.PI;
-      const cBx = bothStable ? Math.cos(BLOCK * tx.muEff) : 1, sBx = bothStable ? Math.sin(BLOCK * tx.muEff) : 0;
-      const cBy = bothStable ? Math.cos(BLOCK * ty.muEff) : 1, sBy = bothStable ? Math.sin(BLOCK * ty.muEff) : 0;
-      const wgx = tx.w, wgy = ty.w, mgx = ENVELOPE_MARGIN * tx.wMax, mgy = ENVELOPE_MARGIN * ty.wMax;
+      const wgx = tx.w, wgy = ty.w, mgx = ENVELOPE_MARGIN * tx.wMax, mgy = ENVELOPE_MARGIN * ty.wMax, S = tx.sub;
       let rotCount = 0;
+      if (SCRATCH.dx1.length < kTop + 1) {
+        SCRATCH.dx1 = new Float64Array(kTop + 1); SCRATCH.dx2 = new Float64Array(kTop + 1);
+        SCRATCH.dy1 = new Float64Array(kTop + 1); SCRATCH.dy2 = new Float64Array(kTop + 1);
+      }
       const X = st0.x, Y = st0.y, VX = st0.vx, VY = st0.vy, Z = st0.z, VZ = st0.vz, TAU = st0.tau;
       for (let j = k; j < end; j++) {
         const i = start + j;
@@ -483,28 +478,30 @@ export class LinearTracker {
         det = G11 * G22 - G12 * G21;
         const cy1 = (G22 * Y0 - G12 * Q0) / det, cy2 = (-G21 * Y0 + G11 * Q0) / det;
         if (!bothStable) {
-          // A growing ion: skip the quiet periods, then step period by period checking the
-          // period-end sample X = F(ψ)·d_{k+1} (a real check of the direct kernel's grid). A
-          // sample at or past r0 decides the loss; an ion not caught that way before the last
-          // full period goes to the per-ion path, which decides it exactly.
+          // A growing ion. First one check at the end of the last full period inside the rods,
+          // X = F(ψ)·M0^K·c from the power table: a sample there at or past r0 means the direct
+          // kernel loses the ion at that check or an earlier one (the fate is all the batch pass
+          // decides). Most growing ions are decided here. The others: skip the quiet periods,
+          // then step period by period checking the period-end samples; an ion not caught that
+          // way goes to the per-ion path, which decides it exactly.
           const full = Math.floor(tExit / h), kMax = Math.ceil(full / M);
-          // Fate only (no hit time asked): one check at the end of the last full period inside
-          // the rods, X = F(ψ)·M0^K·c from the power table. A sample there at or past r0 means
-          // the direct kernel loses the ion at that check or an earlier one; the first hit is not
-          // needed. Most growing ions are decided here; the others take the steps below.
-          if (endTime === undefined) {
-            const kt = Math.min(Math.floor(full / M), nPow - 1);
-            if (kt >= 1) {
-              const o = 4 * kt;
-              const ex1 = PX[o] * cx1 + PX[o + 1] * cx2, ex2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
-              const ey1 = PY[o] * cy1 + PY[o + 1] * cy2, ey2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
-              const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
-              if (Xe * Xe + Ye * Ye >= R2) {
-                fate[j] = Fate.hit;
-                done[j] = 1;
-                this.periodLoops++;
-                continue;
-              }
+          let kt = Math.floor(full / M);
+          if (kt >= nPow && !powCapped) {
+            const want = Math.min(kTop, kt + 32);
+            nPow = Math.min(powers(tx, want), powers(ty, want));
+            powCapped = nPow <= want; // entries past POW_LIMIT: the table stops growing
+          }
+          kt = Math.min(kt, nPow - 1);
+          if (kt >= 1) {
+            const o = 4 * kt;
+            const ex1 = PX[o] * cx1 + PX[o + 1] * cx2, ex2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
+            const ey1 = PY[o] * cy1 + PY[o + 1] * cy2, ey2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
+            const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
+            if (Xe * Xe + Ye * Ye >= R2) {
+              fate[j] = Fate.hit;
+              done[j] = 1;
+              this.periodLoops++;
+              continue;
             }
           }
           const envX = tx.stable ? Wx * (gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2) : 0;
@@ -530,7 +527,6 @@ export class LinearTracker {
             const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
             if (Xe * Xe + Ye * Ye >= R2) {
               hit = true;
-              if (endTime) endTime[j] = (base + M) * h;
               break;
             }
             dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2;
@@ -544,116 +540,97 @@ export class LinearTracker {
         const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
         const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
         if (!(Wx * ix + Wy * iy < R2)) {
-          // Tier 2 with both axes stable. In Courant–Snyder form a check's value is
-          // U = ρ·z_k = |ρ||z|·cos(kμ + φ), z_k the normalized state turning by μ per period.
-          // Candidates: the checks m whose envelope I·W(θ_m) (W from the grid, no row needed)
-          // can reach r0², then of those the ones whose arc over the whole stage can (U² ≤ the
-          // largest cos² on the arc the angle sweeps; 1 when it holds a multiple of π). Then the
-          // stage in blocks of BLOCK periods: a block whose arcs keep every candidate below r0² is
-          // skipped; the others are checked sample by sample from d = M0^k0·c (power table).
-          // Blocks and samples run in time order, so the first hit found is the first hit.
+          // Tier 2 with both axes stable, fate only. In Courant–Snyder form check m of period k
+          // has U = ρ_m·z_k = |ρ_m||z|·cos(kμ + φ_m), z_k the normalized state turning by μ per
+          // period, and |ρ_m|² = W(θ_m). Candidates: the checks whose envelope Ix·Wx + Iy·Wy (W
+          // from the grid at the two points around the check's phase, plus the margin for the
+          // curve between them) reaches r0². Any sample at or past r0 decides the loss (the
+          // direct kernel stops at that check or an earlier one), so the candidates go in order
+          // of their envelope, largest first, each over every period of the stage: a lost ion is
+          // mostly found at its first candidate. Before its scan a candidate's row is computed
+          // and its arc over the stage tested (U² ≤ the largest cos² on the arc the angle sweeps
+          // in Kp periods; 1 when the arc holds a multiple of π). d_k = M0^k·c is kept per period
+          // for the ion's later candidates.
           const full = Math.floor(tExit / h);
           const Kp = Math.ceil(full / M);
           let nc = 0;
-          const cand = SCRATCH.cand, rx1 = SCRATCH.rx1, rx2 = SCRATCH.rx2, ry1 = SCRATCH.ry1, ry2 = SCRATCH.ry2;
-          const CX = SCRATCH.cx, SX = SCRATCH.sx, CY = SCRATCH.cy, SY = SCRATCH.sy, AX = SCRATCH.ax, AY = SCRATCH.ay;
-          const S = tx.sub;
-          const sbx = Math.sqrt(bx), sby = Math.sqrt(by);
-          const zx1 = cx1 / sbx, zx2 = (ax * cx1) / sbx + sbx * cx2;
-          const zy1 = cy1 / sby, zy2 = (ay * cy1) / sby + sby * cy2;
-          // The whole stage's arc, k = 0..Kp (rotation through Kp·μ from the table of the run).
-          const wholeX = Kp * absMuX >= Math.PI, wholeY = Kp * absMuY >= Math.PI;
-          let cLx = 1, sLx = 0, cLy = 1, sLy = 0;
-          if (!wholeX || !wholeY) {
-            if (rotCount <= Kp) rotCount = rotations(tx.muEff, ty.muEff, kTop);
-            const R = SCRATCH.rot;
-            cLx = R[4 * Kp]; sLx = R[4 * Kp + 1]; cLy = R[4 * Kp + 2]; sLy = R[4 * Kp + 3];
-          }
-          const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
+          const cand = SCRATCH.cand, env = SCRATCH.env;
           for (let m = 1; m <= M; m++) {
             let ii = i0 + m * S;
-            const wrap = ii >= nn;
-            if (wrap) ii -= nn;
-            // Envelope of this check from the grid: W at the two grid points around its phase
-            // plus the margin for the curve between them (ENVELOPE_MARGIN, in units of Wmax).
+            if (ii >= nn) ii -= nn;
             const wa = wgx[ii] > wgx[ii + 1] ? wgx[ii] : wgx[ii + 1], wb = wgy[ii] > wgy[ii + 1] ? wgy[ii] : wgy[ii + 1];
-            if ((wa + mgx) * ix + (wb + mgy) * iy < R2) continue;
-            // rowAt(), inlined (third-order Taylor from the grid point).
-            const wxx = w0x + w1x * cs[ii], dwx = -w1x * sn[ii], wyy = w0y + w1y * cs[ii], dwy = -w1y * sn[ii];
-            let a = f11x[ii], pa = f21x[ii], b2 = f12x[ii], pb = f22x[ii];
-            let r1 = a + e * pa - E2 * wxx * a - E3 * (dwx * a + wxx * pa);
-            let r2 = b2 + e * pb - E2 * wxx * b2 - E3 * (dwx * b2 + wxx * pb);
-            if (wrap) { const w1 = r1 * tx.m11 + r2 * tx.m21; r2 = r1 * tx.m12 + r2 * tx.m22; r1 = w1; }
-            a = f11y[ii]; pa = f21y[ii]; b2 = f12y[ii]; pb = f22y[ii];
-            let t1 = a + e * pa - E2 * wyy * a - E3 * (dwy * a + wyy * pa);
-            let t2 = b2 + e * pb - E2 * wyy * b2 - E3 * (dwy * b2 + wyy * pb);
-            if (wrap) { const w1 = t1 * ty.m11 + t2 * ty.m21; t2 = t1 * ty.m12 + t2 * ty.m22; t1 = w1; }
-            // ρ = L⁻ᵀ·row; U = ρ·z. C = |ρ||z|cos a, Sv = |ρ||z|sin a at k = 0; the arc's far end by
-            // the rotation through Kp·μ; U² ≤ max(C², C_end²) unless sin changes sign on the arc.
-            const px1 = sbx * r1 - (ax * r2) / sbx, px2 = r2 / sbx;
-            const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1, Ax = (px1 * px1 + px2 * px2) * ix;
-            let bxm = Ax;
-            if (!wholeX) {
-              const C2 = Cx * cLx - Sx * sLx, S2 = Sx * cLx + Cx * sLx;
-              if (!((Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0)) bxm = Math.max(Cx * Cx, C2 * C2);
-            }
-            const py1 = sby * t1 - (ay * t2) / sby, py2 = t2 / sby;
-            const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1, Ay = (py1 * py1 + py2 * py2) * iy;
-            let bym = Ay;
-            if (!wholeY) {
-              const C2 = Cy * cLy - Sy * sLy, S2 = Sy * cLy + Cy * sLy;
-              if (!((Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0)) bym = Math.max(Cy * Cy, C2 * C2);
-            }
-            // Margin for the invariant's drift under the (non-symplectic) RK4 table (≲ 1e-11 per
-            // period) and for rounding in the rotation: 1e-6 relative.
-            if ((bxm + bym) * (1 + 1e-6) >= R2) {
-              cand[nc] = m; rx1[nc] = r1; rx2[nc] = r2; ry1[nc] = t1; ry2[nc] = t2;
-              CX[nc] = Cx; SX[nc] = Sx; CY[nc] = Cy; SY[nc] = Sy; AX[nc] = Ax; AY[nc] = Ay;
-              nc++;
-            }
+            const bnd = (wa + mgx) * ix + (wb + mgy) * iy;
+            if (bnd >= R2) { cand[nc] = m; env[nc] = bnd; nc++; }
           }
           let hitAt = -1;
           if (nc > 0) {
-            const flag = SCRATCH.flag;
+            const sbx = Math.sqrt(bx), sby = Math.sqrt(by);
+            const zx1 = cx1 / sbx, zx2 = (ax * cx1) / sbx + sbx * cx2;
+            const zy1 = cy1 / sby, zy2 = (ay * cy1) / sby + sby * cy2;
+            // The whole stage's arc, k = 0..Kp, from the rotation table of the run.
+            const wholeX = Kp * absMuX >= Math.PI, wholeY = Kp * absMuY >= Math.PI;
+            let cLx = 1, sLx = 0, cLy = 1, sLy = 0;
+            if (!wholeX || !wholeY) {
+              if (rotCount <= Kp) rotCount = rotations(tx.muEff, ty.muEff, kTop);
+              const R = SCRATCH.rot;
+              cLx = R[4 * Kp]; sLx = R[4 * Kp + 1]; cLy = R[4 * Kp + 2]; sLy = R[4 * Kp + 3];
+            }
+            const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
+            const DX1 = SCRATCH.dx1, DX2 = SCRATCH.dx2, DY1 = SCRATCH.dy1, DY2 = SCRATCH.dy2;
+            DX1[0] = cx1; DX2[0] = cx2; DY1[0] = cy1; DY2[0] = cy2;
+            let kd = 1; // d_k known for k < kd
             const m11x = tx.m11, m12x = tx.m12, m21x = tx.m21, m22x = tx.m22;
             const m11y = ty.m11, m12y = ty.m12, m21y = ty.m21, m22y = ty.m22;
-            for (let k0 = 0; k0 < Kp && hitAt < 0; k0 += BLOCK) {
-              // Arc of the block, periods k0..k0 + BLOCK; C, S advance to the next block's start.
-              let nf = 0;
-              const b0 = k0 * M;
-              for (let jj = 0; jj < nc; jj++) {
-                if (b0 + cand[jj] > full) break;
-                const C = CX[jj], Sv = SX[jj];
-                const C2 = C * cBx - Sv * sBx, S2 = Sv * cBx + C * sBx;
-                CX[jj] = C2; SX[jj] = S2;
-                const bxb = wholeBx || (Sv > 0) !== (S2 > 0) || Sv === 0 || S2 === 0 ? AX[jj] : Math.max(C * C, C2 * C2);
-                const D = CY[jj], Tv = SY[jj];
-                const D2 = D * cBy - Tv * sBy, T2 = Tv * cBy + D * sBy;
-                CY[jj] = D2; SY[jj] = T2;
-                const byb = wholeBy || (Tv > 0) !== (T2 > 0) || Tv === 0 || T2 === 0 ? AY[jj] : Math.max(D * D, D2 * D2);
-                if ((bxb + byb) * (1 + 1e-6) >= R2) flag[nf++] = jj;
-              }
-              if (nf === 0) continue;
-              let dx1: number, dx2: number, dy1: number, dy2: number;
-              if (k0 < nPow) {
-                const o = 4 * k0;
-                dx1 = PX[o] * cx1 + PX[o + 1] * cx2; dx2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
-                dy1 = PY[o] * cy1 + PY[o + 1] * cy2; dy2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
-              } else {
-                powerApply(tx, k0, cx1, cx2, v); dx1 = v[0]; dx2 = v[1];
-                powerApply(ty, k0, cy1, cy2, v); dy1 = v[0]; dy2 = v[1];
-              }
-              const kEnd = Math.min(k0 + BLOCK, Kp);
-              for (let kk = k0; kk < kEnd && hitAt < 0; kk++) {
-                const base = kk * M, mmax = full - base;
-                for (let f = 0; f < nf; f++) {
-                  const jj = flag[f];
-                  if (cand[jj] > mmax) break;
-                  const Xc = rx1[jj] * dx1 + rx2[jj] * dx2, Yc = ry1[jj] * dy1 + ry2[jj] * dy2;
-                  if (Xc * Xc + Yc * Yc >= R2) { hitAt = base + cand[jj]; break; }
+            for (let left = nc; left > 0 && hitAt < 0; left--) {
+              // The remaining candidate of largest envelope, swapped to the end of the live part.
+              let best = 0;
+              for (let q2 = 1; q2 < left; q2++) if (env[q2] > env[best]) best = q2;
+              const m = cand[best];
+              cand[best] = cand[left - 1]; env[best] = env[left - 1];
+              let ii = i0 + m * S;
+              const wrap = ii >= nn;
+              if (wrap) ii -= nn;
+              // rowAt(), inlined (third-order Taylor from the grid point); past 2π the row is r·M0.
+              const wxx = w0x + w1x * cs[ii], dwx = -w1x * sn[ii], wyy = w0y + w1y * cs[ii], dwy = -w1y * sn[ii];
+              let a = f11x[ii], pa = f21x[ii], b2 = f12x[ii], pb = f22x[ii];
+              let r1 = a + e * pa - E2 * wxx * a - E3 * (dwx * a + wxx * pa);
+              let r2 = b2 + e * pb - E2 * wxx * b2 - E3 * (dwx * b2 + wxx * pb);
+              if (wrap) { const w1 = r1 * m11x + r2 * m21x; r2 = r1 * m12x + r2 * m22x; r1 = w1; }
+              a = f11y[ii]; pa = f21y[ii]; b2 = f12y[ii]; pb = f22y[ii];
+              let t1 = a + e * pa - E2 * wyy * a - E3 * (dwy * a + wyy * pa);
+              let t2 = b2 + e * pb - E2 * wyy * b2 - E3 * (dwy * b2 + wyy * pb);
+              if (wrap) { const w1 = t1 * m11y + t2 * m21y; t2 = t1 * m12y + t2 * m22y; t1 = w1; }
+              if (!wholeX || !wholeY) {
+                // ρ = L⁻ᵀ·row; C = ρ·z = |ρ||z|cos a, Sv = ρ×z = |ρ||z|sin a at k = 0; the arc's far
+                // end by the rotation through Kp·μ; U² ≤ max(C², C_end²) unless sin changes sign.
+                const px1 = sbx * r1 - (ax * r2) / sbx, px2 = r2 / sbx;
+                let bxm = (px1 * px1 + px2 * px2) * ix;
+                if (!wholeX) {
+                  const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1;
+                  const C2 = Cx * cLx - Sx * sLx, S2 = Sx * cLx + Cx * sLx;
+                  if (!((Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0)) bxm = Math.max(Cx * Cx, C2 * C2);
                 }
-                let w = m11x * dx1 + m12x * dx2; dx2 = m21x * dx1 + m22x * dx2; dx1 = w;
-                w = m11y * dy1 + m12y * dy2; dy2 = m21y * dy1 + m22y * dy2; dy1 = w;
+                const py1 = sby * t1 - (ay * t2) / sby, py2 = t2 / sby;
+                let bym = (py1 * py1 + py2 * py2) * iy;
+                if (!wholeY) {
+                  const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1;
+                  const C2 = Cy * cLy - Sy * sLy, S2 = Sy * cLy + Cy * sLy;
+                  if (!((Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0)) bym = Math.max(Cy * Cy, C2 * C2);
+                }
+                // Margin for the invariant's drift under the (non-symplectic) RK4 table (≲ 1e-12
+                // per period) and for rounding in the rotation: 1e-6 relative.
+                if ((bxm + bym) * (1 + 1e-6) < R2) continue;
+              }
+              // Every period whose check m lies inside the rods: base + m ≤ full.
+              for (let kk = 0; kk * M + m <= full; kk++) {
+                if (kk === kd) {
+                  const o = kk - 1;
+                  DX1[kk] = m11x * DX1[o] + m12x * DX2[o]; DX2[kk] = m21x * DX1[o] + m22x * DX2[o];
+                  DY1[kk] = m11y * DY1[o] + m12y * DY2[o]; DY2[kk] = m21y * DY1[o] + m22y * DY2[o];
+                  kd++;
+                }
+                const Xc = r1 * DX1[kk] + r2 * DX2[kk], Yc = t1 * DY1[kk] + t2 * DY2[kk];
+                if (Xc * Xc + Yc * Yc >= R2) { hitAt = kk * M + m; break; }
               }
             }
           }
@@ -676,7 +653,6 @@ export class LinearTracker {
           this.periodLoops++;
           if (hitAt >= 0) {
             fate[j] = Fate.hit;
-            if (endTime) endTime[j] = hitAt * h;
             done[j] = 1;
             continue;
           }
@@ -689,7 +665,6 @@ export class LinearTracker {
           t += te; z = stages[q].zEnd;
         }
         fate[j] = f;
-        if (endTime) endTime[j] = t;
         done[j] = 1;
       }
       k = end;
@@ -778,7 +753,7 @@ export class LinearTracker {
           const a1 = SCRATCH.rx1[m], a2 = SCRATCH.rx2[m], b1 = SCRATCH.ry1[m], b2 = SCRATCH.ry2[m];
           const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
           const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
-          // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-11 per period.
+          // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-12 per period.
           if ((ixx * wx + iyy * wy) * (1 + 1e-6) < R2) continue;
         }
         cand[nc++] = m;
