@@ -31,7 +31,7 @@ import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } fr
 import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
 import { trackUniform } from '../engine/kernels/uniform.js';
-import { fAt, fAtGrid, mat2, periodTable, powerApply, powers, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
+import { fAt, fAtGrid, mat2, periodTable, powerApply, powers, releaseSpectral, rowAt, smallAngle, spectralRows, type PeriodTable } from './transfer-matrix.js';
 
 /**
  * Safety margin of tier 1: Wmax is the largest W on the grid (2π/(M·S) apart); between grid points
@@ -365,7 +365,10 @@ export class LinearTracker {
 
   /** Hand this tracker's tables back for reuse; the tracker must not be used afterwards. */
   release(): void {
-    for (const t of this.tables.values()) if (spareTables.length < 16) spareTables.push(t.x, t.y);
+    for (const t of this.tables.values()) {
+      releaseSpectral(t.x); releaseSpectral(t.y);
+      if (spareTables.length < 16) spareTables.push(t.x, t.y);
+    }
     this.tables.clear();
   }
 
@@ -435,6 +438,10 @@ export class LinearTracker {
       const absMuX = Math.abs(tx.muEff), absMuY = Math.abs(ty.muEff);
       const wgx = tx.w, wgy = ty.w, mgx = ENVELOPE_MARGIN * tx.wMax, mgy = ENVELOPE_MARGIN * ty.wMax, S = tx.sub;
       let rotCount = 0;
+      // Growing axes: spectral rows (transfer-matrix.ts) for the one-sample loss test.
+      const spX = tx.stable || !Number.isFinite(tx.lambda) ? null : spectralRows(tx, kTop);
+      const spY = ty.stable || !Number.isFinite(ty.lambda) ? null : spectralRows(ty, kTop);
+      const rLoss = Math.sqrt(R2) * (1 + 1e-9);
       if (SCRATCH.dx1.length < kTop + 1) {
         SCRATCH.dx1 = new Float64Array(kTop + 1); SCRATCH.dx2 = new Float64Array(kTop + 1);
         SCRATCH.dy1 = new Float64Array(kTop + 1); SCRATCH.dy2 = new Float64Array(kTop + 1);
@@ -450,7 +457,41 @@ export class LinearTracker {
         let psi = th0 - TWO_PI * Math.floor(th0 / TWO_PI);
         if (psi >= TWO_PI) psi -= TWO_PI;
         const i0 = Math.min(nn - 1, Math.floor(psi / dT));
-        const e = psi - i0 * dT, e2 = e * e, hh = 0.5 * e, h2 = hh * hh, e6 = e / 6, eh = 0.5 * e;
+        const e = psi - i0 * dT;
+        if (spX !== null || spY !== null) {
+          // A growing axis: its sample after the last whole period in the rods from the spectral
+          // rows at ψ (SpectralRows, linear interpolation), U_K = λ^K·(p1·w) + λ^−K·(p2·w). When
+          // |U_K| exceeds r0 by more than the interpolation bound, the check-by-check value does
+          // too (margin 1e-9 for rounding): lost, without forming F(ψ) or c.
+          const kt = Math.floor(Math.floor(tExit / h) / M);
+          if (kt >= 1) {
+            const wt = e / dT, wt1 = 1 - wt;
+            let lost = false;
+            if (spX !== null) {
+              const u = X[i] / r0, p = VX[i] * sc * toP;
+              const L = spX.lamPow[kt < spX.count ? kt : spX.count - 1], aL = Math.abs(L);
+              const A = (wt1 * spX.a1[i0] + wt * spX.a1[i0 + 1]) * u + (wt1 * spX.b1[i0] + wt * spX.b1[i0 + 1]) * p;
+              const B = (wt1 * spX.a2[i0] + wt * spX.a2[i0 + 1]) * u + (wt1 * spX.b2[i0] + wt * spX.b2[i0 + 1]) * p;
+              const err = (aL * spX.err1 + spX.err2 / aL) * (Math.abs(u) + Math.abs(p));
+              if (Math.abs(L * A + B / L) - err >= rLoss) lost = true;
+            }
+            if (!lost && spY !== null) {
+              const u = Y[i] / r0, p = VY[i] * sc * toP;
+              const L = spY.lamPow[kt < spY.count ? kt : spY.count - 1], aL = Math.abs(L);
+              const A = (wt1 * spY.a1[i0] + wt * spY.a1[i0 + 1]) * u + (wt1 * spY.b1[i0] + wt * spY.b1[i0 + 1]) * p;
+              const B = (wt1 * spY.a2[i0] + wt * spY.a2[i0 + 1]) * u + (wt1 * spY.b2[i0] + wt * spY.b2[i0 + 1]) * p;
+              const err = (aL * spY.err1 + spY.err2 / aL) * (Math.abs(u) + Math.abs(p));
+              if (Math.abs(L * A + B / L) - err >= rLoss) lost = true;
+            }
+            if (lost) {
+              fate[j] = Fate.hit;
+              done[j] = 1;
+              this.periodLoops++;
+              continue;
+            }
+          }
+        }
+        const e2 = e * e, hh = 0.5 * e, h2 = hh * hh, e6 = e / 6, eh = 0.5 * e;
         // smallAngle(), inlined: cos and sin of ε and ε/2 by their Taylor series.
         const ce = 1 - 0.5 * e2 * (1 - e2 / 12), se = e * (1 - (e2 / 6) * (1 - e2 / 20));
         const ch = 1 - 0.5 * h2 * (1 - h2 / 12), sh = hh * (1 - (h2 / 6) * (1 - h2 / 20));

@@ -73,6 +73,25 @@ export interface PeriodTable {
    */
   pow: Float64Array;
   powCount: number;
+  /** Spectral rows of an unstable axis (spectralRows()); null until asked for. */
+  spectral: SpectralRows | null;
+}
+
+/**
+ * Unstable axis: the first rows of the spectral projectors of the monodromy from phase θ,
+ * M_θ = F(θ)·M0·F(θ)⁻¹ = λ·Π1(θ) + λ⁻¹·Π2(θ), Π_j(θ) = F(θ)·v_j·u_j·F(θ)⁻¹ (v_j, u_j the right
+ * and left eigenvectors of M0, u_j·v_k = δ_jk). So from a start state w at phase ψ the sample
+ * after K whole periods is U_K = λ^K·(p1(ψ)·w) + λ^−K·(p2(ψ)·w), p_j the first row of Π_j. The
+ * rows are 2π-periodic (the factors λ^(θ/2π) of v_j and u_j cancel) and smooth, so linear
+ * interpolation on the grid serves, with `err1`, `err2` bounding its error per unit |w|₁.
+ */
+export interface SpectralRows {
+  /** p1 = (a1, b1), p2 = (a2, b2) at the grid points i = 0..n. */
+  a1: Float64Array; b1: Float64Array; a2: Float64Array; b2: Float64Array;
+  err1: number; err2: number;
+  /** λ^k (signed), k = 0..count−1, while |λ|^k ≤ 1e150. */
+  lamPow: Float64Array;
+  count: number;
 }
 
 /**
@@ -208,7 +227,74 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
     checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable,
     beta, alpha, gamma, wMax, w: wGrid, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
     pow: reuse?.pow ?? new Float64Array(0), powCount: 0,
+    spectral: null,
   };
+}
+
+/** Spare spectral rows, keyed by grid size, for the next point's unstable tables. */
+const spareSpectral: SpectralRows[] = [];
+
+/** Hands a finished table's spectral rows back for reuse. */
+export function releaseSpectral(t: PeriodTable): void {
+  if (t.spectral !== null && spareSpectral.length < 4) spareSpectral.push(t.spectral);
+  t.spectral = null;
+}
+
+/**
+ * The spectral rows of an unstable table (see SpectralRows), with λ^k up to kMax. The
+ * interpolation bound: linear interpolation errs by at most max|g''|·δθ²/8 between grid points;
+ * the largest second difference on the grid estimates max|g''|·δθ², and a factor 2 covers the
+ * curvature between samples, so err = max|Δ²g|/4 over both components (per unit |w|₁).
+ */
+export function spectralRows(t: PeriodTable, kMax: number): SpectralRows {
+  if (t.stable || !Number.isFinite(t.lambda)) throw new Error('spectral rows need an unstable axis');
+  let sp = t.spectral;
+  if (sp === null) {
+    const n = t.n;
+    let r = spareSpectral.pop();
+    if (r === undefined || r.a1.length !== n + 1) {
+      const f = () => new Float64Array(n + 1);
+      r = { a1: f(), b1: f(), a2: f(), b2: f(), err1: 0, err2: 0, lamPow: r?.lamPow ?? new Float64Array(0), count: 0 };
+    }
+    sp = r;
+    const { f11, f12, f21, f22 } = t;
+    // Right eigenvectors v_j = columns of V = (V⁻¹)⁻¹; left ones u_j = rows of V⁻¹.
+    const dv = t.vi11 * t.vi22 - t.vi12 * t.vi21;
+    const v11 = t.vi22 / dv, v21 = -t.vi21 / dv, v12 = -t.vi12 / dv, v22 = t.vi11 / dv;
+    for (let i = 0; i <= n; i++) {
+      const det = f11[i] * f22[i] - f12[i] * f21[i];
+      // F⁻¹ = adj(F)/det; u·F⁻¹ and (F·v)_1.
+      const x1 = f11[i] * v11 + f12[i] * v21, x2 = f11[i] * v12 + f12[i] * v22;
+      sp.a1[i] = (x1 * (t.vi11 * f22[i] - t.vi12 * f21[i])) / det;
+      sp.b1[i] = (x1 * (-t.vi11 * f12[i] + t.vi12 * f11[i])) / det;
+      sp.a2[i] = (x2 * (t.vi21 * f22[i] - t.vi22 * f21[i])) / det;
+      sp.b2[i] = (x2 * (-t.vi21 * f12[i] + t.vi22 * f11[i])) / det;
+    }
+    let d1 = 0, d2 = 0;
+    for (let i = 1; i < n; i++) {
+      d1 = Math.max(d1, Math.abs(sp.a1[i + 1] - 2 * sp.a1[i] + sp.a1[i - 1]), Math.abs(sp.b1[i + 1] - 2 * sp.b1[i] + sp.b1[i - 1]));
+      d2 = Math.max(d2, Math.abs(sp.a2[i + 1] - 2 * sp.a2[i] + sp.a2[i - 1]), Math.abs(sp.b2[i + 1] - 2 * sp.b2[i] + sp.b2[i - 1]));
+    }
+    sp.err1 = d1 / 4; sp.err2 = d2 / 4;
+    sp.count = 0;
+    t.spectral = sp;
+  }
+  if (sp.count <= kMax) {
+    if (sp.lamPow.length < kMax + 1) {
+      const grown = new Float64Array(Math.max(kMax + 1, 2 * sp.lamPow.length));
+      grown.set(sp.lamPow.subarray(0, sp.count));
+      sp.lamPow = grown;
+    }
+    let k = sp.count;
+    if (k === 0) { sp.lamPow[0] = 1; k = 1; }
+    for (; k <= kMax; k++) {
+      const v = sp.lamPow[k - 1] * t.lambda;
+      if (!(Math.abs(v) <= 1e150)) break;
+      sp.lamPow[k] = v;
+    }
+    sp.count = k;
+  }
+  return sp;
 }
 
 /** Entries of M0^k stop growing the power table past this size (no overflow to ∞ or NaN). */
