@@ -31,15 +31,9 @@ import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } fr
 import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
 import { trackUniform } from '../engine/kernels/uniform.js';
-import { fAt, fAtGrid, mat2, periodTable, powerApply, powers, releaseSpectral, rowAt, smallAngle, spectralRows, type PeriodTable } from './transfer-matrix.js';
+import { ENVELOPE_MARGIN, fAt, fAtGrid, mat2, periodTable, powerApply, releaseSpectral, releaseTwiss, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
+import { batchRun, type BatchCounts, type Run } from './batch-pass.js';
 
-/**
- * Safety margin of tier 1: Wmax is the largest W on the grid (2π/(M·S) apart); between grid points
- * W can exceed it by about W''·δθ²/8 ≲ 10·(2π/640)²/8 ≈ 1.2e-4 of W (W'' / W is of order
- * |w0| + |w1| + 1 ≲ 10 in phase units). 1e-3 covers that eightfold; ions inside the margin take
- * the exact tiers.
- */
-const ENVELOPE_MARGIN = 1e-3;
 
 const STAGE_KEYS: Record<string, ReadonlySet<string>> = {
   quadrupole: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
@@ -92,33 +86,9 @@ const ONE_ION = allocateBatch(1);
 const SCRATCH = {
   rx1: new Float64Array(0), rx2: new Float64Array(0), ry1: new Float64Array(0), ry2: new Float64Array(0),
   rowStamp: new Float64Array(0), stamp: 0, cand: new Int32Array(0), doneMask: new Uint8Array(0),
-  // Stable tier 2: each candidate's envelope, cos and sin of k·μx, k·μy (rotations()) and the
-  // ion's d_k = M0^k·c per axis (components 1, 2), k = 0..kTop.
-  env: new Float64Array(0), rot: new Float64Array(0),
-  dx1: new Float64Array(0), dx2: new Float64Array(0), dy1: new Float64Array(0), dy2: new Float64Array(0),
 };
 
 
-/**
- * SCRATCH.rot[4k..4k+3] = cos kμx, sin kμx, cos kμy, sin kμy for k = 0..kTop; returns kTop + 1.
- * By rotation from the last exact value (Math.cos, Math.sin every 32 steps): the drift between
- * anchors is a few 1e-15, far inside the 1e-6 margin of the bounds that use it.
- */
-function rotations(muX: number, muY: number, kTop: number): number {
-  if (SCRATCH.rot.length < 4 * (kTop + 1)) SCRATCH.rot = new Float64Array(4 * (kTop + 1));
-  const R = SCRATCH.rot;
-  const cx = Math.cos(muX), sx = Math.sin(muX), cy = Math.cos(muY), sy = Math.sin(muY);
-  for (let k = 0; k <= kTop; k++) {
-    const o = 4 * k;
-    if ((k & 31) === 0) {
-      R[o] = Math.cos(k * muX); R[o + 1] = Math.sin(k * muX); R[o + 2] = Math.cos(k * muY); R[o + 3] = Math.sin(k * muY);
-    } else {
-      R[o] = R[o - 4] * cx - R[o - 3] * sx; R[o + 1] = R[o - 3] * cx + R[o - 4] * sx;
-      R[o + 2] = R[o - 2] * cy - R[o - 1] * sy; R[o + 3] = R[o - 1] * cy + R[o - 2] * sy;
-    }
-  }
-  return kTop + 1;
-}
 
 /** Tables of finished trackers, whose arrays the next point's tables reuse. */
 const spareTables: PeriodTable[] = [];
@@ -218,7 +188,16 @@ export class LinearTracker {
     this.openTail = scene.stages.map((_, s) => s < scene.stages.length - 1
       && scene.stages.slice(s + 1).every((t) => t.type === 'drift' && !Number.isFinite(t.aperture) && !t.gas));
     this.ctx = { batch: this.b, maxTime: scene.run.maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null };
+    // Read once: a sweep's scene objects are spread copies whose hidden classes vary, and a
+    // load through one in the batch pass would deoptimize it.
+    this.stages = scene.stages;
+    this.popCount = scene.ions.length;
+    this.stepsPerCycle = scene.run.stepsPerCycle;
   }
+
+  private readonly stages: Scene['stages'];
+  private readonly popCount: number;
+  private readonly stepsPerCycle: number;
 
   /**
    * Fate codes (Fate.detected / hit / alive) of global ions start..start+count−1 into `fate`.
@@ -227,8 +206,16 @@ export class LinearTracker {
   track(start: number, count: number, fate: Int8Array, endTime?: Float64Array, starts?: StartStates): void {
     const scene = this.scene, b = this.b, c = this.c;
     const cached = starts !== undefined && starts.serves(scene) ? starts : null;
-    const scale = cached ? scene.ions.map((p, k) => Math.sqrt(cached.mass[k] / ionMassKg(p.mz, p.charge))) : [];
-    const mass = scene.ions.map((p) => ionMassKg(p.mz, p.charge)), charge = scene.ions.map((p) => p.charge * ELEMENTARY_CHARGE);
+    // Per population; typed arrays, so that a factor of exactly 1 (the point the draws were made
+    // at) does not give the array another elements kind than the other points' (a deopt).
+    const n = scene.ions.length;
+    const scale = new Float64Array(n), mass = new Float64Array(n), charge = new Float64Array(n);
+    for (let p = 0; p < n; p++) {
+      const pop = scene.ions[p];
+      mass[p] = ionMassKg(pop.mz, pop.charge);
+      charge[p] = pop.charge * ELEMENTARY_CHARGE;
+      if (cached) scale[p] = Math.sqrt(cached.mass[p] / mass[p]);
+    }
     // The batch pass decides fates only; hit times (endTime) come from the per-ion path.
     const done = cached && endTime === undefined ? this.tier1Batch(start, count, cached, scale, mass, charge, fate) : null;
     let pop = 0;
@@ -279,21 +266,21 @@ export class LinearTracker {
   }
 
   private pair(s: number, pop: number, st: QuadrupoleStage, m: number, q: number): AxisPair {
-    const key = s * this.scene.ions.length + pop;
+    const key = s * this.popCount + pop;
     let t = this.tables.get(key);
     if (!t) {
       // Mathieu a, q of the x axis for this ion (DESIGN.md; q carries the charge's sign).
       const omega = 2 * Math.PI * st.rf.frequency;
       const k = q / (m * st.r0 * st.r0 * omega * omega);
       const a = 8 * k * st.dc, qq = 4 * k * st.rf.amplitude;
-      const M = this.scene.run.stepsPerCycle;
+      const M = this.stepsPerCycle;
       t = { x: periodTable(a, qq, M, undefined, spareTables.pop()), y: periodTable(-a, -qq, M, undefined, spareTables.pop()) };
       this.tables.set(key, t);
       if (SCRATCH.rx1.length < M + 1) {
         SCRATCH.rx1 = new Float64Array(M + 1); SCRATCH.rx2 = new Float64Array(M + 1);
         SCRATCH.ry1 = new Float64Array(M + 1); SCRATCH.ry2 = new Float64Array(M + 1);
         SCRATCH.rowStamp = new Float64Array(M + 1);
-        SCRATCH.cand = new Int32Array(M + 1); SCRATCH.env = new Float64Array(M + 1);
+        SCRATCH.cand = new Int32Array(M + 1);
       }
     }
     return t;
@@ -366,7 +353,7 @@ export class LinearTracker {
   /** Hand this tracker's tables back for reuse; the tracker must not be used afterwards. */
   release(): void {
     for (const t of this.tables.values()) {
-      releaseSpectral(t.x); releaseSpectral(t.y);
+      releaseSpectral(t.x); releaseSpectral(t.y); releaseTwiss(t.x); releaseTwiss(t.y);
       if (spareTables.length < 16) spareTables.push(t.x, t.y);
     }
     this.tables.clear();
@@ -391,17 +378,15 @@ export class LinearTracker {
 
 
   /**
-   * Tier 1 for a whole batch in one tight loop (the common layout: ions start in a quadrupole
-   * stage that only open drifts follow, moving forward). Same arithmetic as quadrupole() for the
-   * entry state and the envelope test; ions it cannot clear are left to the per-ion path.
-   * Returns done[k] = 1 for the ions it decided.
+   * The batch pass (batch-pass.ts) over runs of ions of one population starting in one
+   * quadrupole stage that only open drifts follow; returns done[k] = 1 for the ions it decided.
    */
-  private tier1Batch(start: number, count: number, st0: StartStates, scale: number[], mass: number[], charge: number[], fate: Int8Array): Uint8Array {
+  private tier1Batch(start: number, count: number, st0: StartStates, scale: Float64Array, mass: Float64Array, charge: Float64Array, fate: Int8Array): Uint8Array {
     if (SCRATCH.doneMask.length < count) SCRATCH.doneMask = new Uint8Array(count);
     const done = SCRATCH.doneMask;
     done.fill(0, 0, count);
-    const scene = this.scene, stages = scene.stages, maxTime = this.ctx.maxTime, R2 = this.r2;
-    const TWO_PI = 2 * Math.PI, g = 1 + ENVELOPE_MARGIN;
+    const stages = this.stages;
+    const counts: BatchCounts = { envelopeCleared: 0, periodLoops: 0 };
     let k = 0;
     while (k < count) {
       // A run of ions of one population starting in one stage.
@@ -413,303 +398,15 @@ export class LinearTracker {
       const popEnd = this.offsets[pop + 1] - start;
       while (end < count && end < popEnd && st0.stage[start + end] === s0) end++;
       const st = s0 >= 0 ? stages[s0] : null;
-      if (st === null || st.type !== 'quadrupole' || !(s0 === stages.length - 1 || this.openTail[s0])) { k = end; continue; }
-      const { x: tx, y: ty } = this.pair(s0, pop, st, mass[pop], charge[pop]);
-      const bothStable = tx.stable && ty.stable;
-      const M = tx.checks, h = 1 / st.rf.frequency / M;
-      // Unstable axes: eigen-bound terms (quietPeriods) and the monodromies for the jump.
-      const lx = tx.stable ? 1 : Math.abs(tx.lambda), ly = ty.stable ? 1 : Math.abs(ty.lambda);
-      const v = this.v;
-      const omega = 2 * Math.PI * st.rf.frequency, phase = st.rf.phase, r0 = st.r0, toP = 1 / (r0 * omega);
-      const dT = tx.dTheta, nn = tx.n, cs = tx.cos, sn = tx.sin;
-      const f11x = tx.f11, f12x = tx.f12, f21x = tx.f21, f22x = tx.f22;
-      const f11y = ty.f11, f12y = ty.f12, f21y = ty.f21, f22y = ty.f22;
-      const w0x = tx.w0, w1x = tx.w1, w0y = ty.w0, w1y = ty.w1;
-      const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = g * tx.wMax;
-      const gy = ty.gamma, ay = ty.alpha, by = ty.beta, Wy = g * ty.wMax;
-      const sc = scale[pop], zEnd = st.zEnd;
-      // Powers of M0 up to the most periods any ion of the run can spend in the stage.
-      // Filled on demand (moreP) as far as the ions of the point need, at most kTop.
-      const kTop = Math.floor(maxTime * st.rf.frequency) + 1;
-      // (No closure here: one that assigned nPow would move it out of a register for the loop.)
-      let nPow = Math.min(tx.powCount, ty.powCount), powCapped = false;
-      const PX = tx.pow, PY = ty.pow;
-      // Stable runs: |μ|, the W grids and their margins, the ion's d_k scratch.
-      const absMuX = Math.abs(tx.muEff), absMuY = Math.abs(ty.muEff);
-      const wgx = tx.w, wgy = ty.w, mgx = ENVELOPE_MARGIN * tx.wMax, mgy = ENVELOPE_MARGIN * ty.wMax, S = tx.sub;
-      let rotCount = 0;
-      // Growing axes: spectral rows (transfer-matrix.ts) for the one-sample loss test.
-      const spX = tx.stable || !Number.isFinite(tx.lambda) ? null : spectralRows(tx, kTop);
-      const spY = ty.stable || !Number.isFinite(ty.lambda) ? null : spectralRows(ty, kTop);
-      const rLoss = Math.sqrt(R2) * (1 + 1e-9);
-      if (SCRATCH.dx1.length < kTop + 1) {
-        SCRATCH.dx1 = new Float64Array(kTop + 1); SCRATCH.dx2 = new Float64Array(kTop + 1);
-        SCRATCH.dy1 = new Float64Array(kTop + 1); SCRATCH.dy2 = new Float64Array(kTop + 1);
-      }
-      const X = st0.x, Y = st0.y, VX = st0.vx, VY = st0.vy, Z = st0.z, VZ = st0.vz, TAU = st0.tau;
-      for (let j = k; j < end; j++) {
-        const i = start + j;
-        const vz = VZ[i] * sc;
-        if (!(vz > 0)) continue;
-        const tExit = (zEnd - Z[i]) / vz;
-        if (!(tExit <= maxTime)) continue;
-        const th0 = omega * TAU[i] + phase;
-        let psi = th0 - TWO_PI * Math.floor(th0 / TWO_PI);
-        if (psi >= TWO_PI) psi -= TWO_PI;
-        const i0 = Math.min(nn - 1, Math.floor(psi / dT));
-        const e = psi - i0 * dT;
-        if (spX !== null || spY !== null) {
-          // A growing axis: its sample after the last whole period in the rods from the spectral
-          // rows at ψ (SpectralRows, linear interpolation), U_K = λ^K·(p1·w) + λ^−K·(p2·w). When
-          // |U_K| exceeds r0 by more than the interpolation bound, the check-by-check value does
-          // too (margin 1e-9 for rounding): lost, without forming F(ψ) or c.
-          const kt = Math.floor(Math.floor(tExit / h) / M);
-          if (kt >= 1) {
-            const wt = e / dT, wt1 = 1 - wt;
-            let lost = false;
-            if (spX !== null) {
-              const u = X[i] / r0, p = VX[i] * sc * toP;
-              const L = spX.lamPow[kt < spX.count ? kt : spX.count - 1], aL = Math.abs(L);
-              const A = (wt1 * spX.a1[i0] + wt * spX.a1[i0 + 1]) * u + (wt1 * spX.b1[i0] + wt * spX.b1[i0 + 1]) * p;
-              const B = (wt1 * spX.a2[i0] + wt * spX.a2[i0 + 1]) * u + (wt1 * spX.b2[i0] + wt * spX.b2[i0 + 1]) * p;
-              const err = (aL * spX.err1 + spX.err2 / aL) * (Math.abs(u) + Math.abs(p));
-              if (Math.abs(L * A + B / L) - err >= rLoss) lost = true;
-            }
-            if (!lost && spY !== null) {
-              const u = Y[i] / r0, p = VY[i] * sc * toP;
-              const L = spY.lamPow[kt < spY.count ? kt : spY.count - 1], aL = Math.abs(L);
-              const A = (wt1 * spY.a1[i0] + wt * spY.a1[i0 + 1]) * u + (wt1 * spY.b1[i0] + wt * spY.b1[i0 + 1]) * p;
-              const B = (wt1 * spY.a2[i0] + wt * spY.a2[i0 + 1]) * u + (wt1 * spY.b2[i0] + wt * spY.b2[i0 + 1]) * p;
-              const err = (aL * spY.err1 + spY.err2 / aL) * (Math.abs(u) + Math.abs(p));
-              if (Math.abs(L * A + B / L) - err >= rLoss) lost = true;
-            }
-            if (lost) {
-              fate[j] = Fate.hit;
-              done[j] = 1;
-              this.periodLoops++;
-              continue;
-            }
-          }
-        }
-        const e2 = e * e, hh = 0.5 * e, h2 = hh * hh, e6 = e / 6, eh = 0.5 * e;
-        // smallAngle(), inlined: cos and sin of ε and ε/2 by their Taylor series.
-        const ce = 1 - 0.5 * e2 * (1 - e2 / 12), se = e * (1 - (e2 / 6) * (1 - e2 / 20));
-        const ch = 1 - 0.5 * h2 * (1 - h2 / 12), sh = hh * (1 - (h2 / 6) * (1 - h2 / 20));
-        const c = cs[i0], s = sn[i0];
-        const k1 = c * ch - s * sh, k2 = c * ce - s * se;
-        // fAtGrid(), inlined: one RK4 step of ε on both columns, x then y.
-        let g0 = w0x + w1x * c, g1 = w0x + w1x * k1, g2 = w0x + w1x * k2;
-        let u = f11x[i0], p = f21x[i0];
-        let a1 = -g0 * u, u2 = u + eh * p, p2 = p + eh * a1, a2 = -g1 * u2, u3 = u + eh * p2, p3 = p + eh * a2, a3 = -g1 * u3, u4 = u + e * p3, p4 = p + e * a3, a4 = -g2 * u4;
-        const F11 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), F21 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
-        u = f12x[i0]; p = f22x[i0];
-        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
-        const F12 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), F22 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
-        const X0 = X[i] / r0, P0 = VX[i] * sc * toP;
-        let det = F11 * F22 - F12 * F21;
-        const cx1 = (F22 * X0 - F12 * P0) / det, cx2 = (-F21 * X0 + F11 * P0) / det;
-        g0 = w0y + w1y * c; g1 = w0y + w1y * k1; g2 = w0y + w1y * k2;
-        u = f11y[i0]; p = f21y[i0];
-        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
-        const G11 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), G21 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
-        u = f12y[i0]; p = f22y[i0];
-        a1 = -g0 * u; u2 = u + eh * p; p2 = p + eh * a1; a2 = -g1 * u2; u3 = u + eh * p2; p3 = p + eh * a2; a3 = -g1 * u3; u4 = u + e * p3; p4 = p + e * a3; a4 = -g2 * u4;
-        const G12 = u + e6 * (p + 2 * p2 + 2 * p3 + p4), G22 = p + e6 * (a1 + 2 * a2 + 2 * a3 + a4);
-        const Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
-        det = G11 * G22 - G12 * G21;
-        const cy1 = (G22 * Y0 - G12 * Q0) / det, cy2 = (-G21 * Y0 + G11 * Q0) / det;
-        if (!bothStable) {
-          // A growing ion. First one check at the end of the last full period inside the rods,
-          // X = F(ψ)·M0^K·c from the power table: a sample there at or past r0 means the direct
-          // kernel loses the ion at that check or an earlier one (the fate is all the batch pass
-          // decides). Most growing ions are decided here. The others: skip the quiet periods,
-          // then step period by period checking the period-end samples; an ion not caught that
-          // way goes to the per-ion path, which decides it exactly.
-          const full = Math.floor(tExit / h), kMax = Math.ceil(full / M);
-          let kt = Math.floor(full / M);
-          if (kt >= nPow && !powCapped) {
-            const want = Math.min(kTop, kt + 32);
-            nPow = Math.min(powers(tx, want), powers(ty, want));
-            powCapped = nPow <= want; // entries past POW_LIMIT: the table stops growing
-          }
-          kt = Math.min(kt, nPow - 1);
-          if (kt >= 1) {
-            const o = 4 * kt;
-            const ex1 = PX[o] * cx1 + PX[o + 1] * cx2, ex2 = PX[o + 2] * cx1 + PX[o + 3] * cx2;
-            const ey1 = PY[o] * cy1 + PY[o + 1] * cy2, ey2 = PY[o + 2] * cy1 + PY[o + 3] * cy2;
-            const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
-            if (Xe * Xe + Ye * Ye >= R2) {
-              fate[j] = Fate.hit;
-              done[j] = 1;
-              this.periodLoops++;
-              continue;
-            }
-          }
-          const envX = tx.stable ? Wx * (gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2) : 0;
-          const envY = ty.stable ? Wy * (gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2) : 0;
-          let gxu = 0, sxu = 0, gyu = 0, syu = 0;
-          if (!tx.stable) { gxu = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * lx; sxu = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2; }
-          if (!ty.stable) { gyu = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * ly; syu = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2; }
-          const ilx = 1 / lx, ily = 1 / ly;
-          let q = 0;
-          for (; q < kMax; q++) {
-            const bxq = tx.stable ? envX : (gxu + sxu) * (gxu + sxu);
-            const byq = ty.stable ? envY : (gyu + syu) * (gyu + syu);
-            if (!(bxq + byq < R2)) break;
-            gxu *= lx; sxu *= ilx; gyu *= ly; syu *= ily;
-          }
-          if (q >= kMax) continue;
-          powerApply(tx, q, cx1, cx2, v); let dx1 = v[0], dx2 = v[1];
-          powerApply(ty, q, cy1, cy2, v); let dy1 = v[0], dy2 = v[1];
-          let hit = false;
-          for (let base = q * M; base + M <= full; base += M) {
-            const ex1 = tx.m11 * dx1 + tx.m12 * dx2, ex2 = tx.m21 * dx1 + tx.m22 * dx2;
-            const ey1 = ty.m11 * dy1 + ty.m12 * dy2, ey2 = ty.m21 * dy1 + ty.m22 * dy2;
-            const Xe = F11 * ex1 + F12 * ex2, Ye = G11 * ey1 + G12 * ey2;
-            if (Xe * Xe + Ye * Ye >= R2) {
-              hit = true;
-              break;
-            }
-            dx1 = ex1; dx2 = ex2; dy1 = ey1; dy2 = ey2;
-          }
-          if (!hit) continue;
-          fate[j] = Fate.hit;
-          done[j] = 1;
-          this.periodLoops++;
-          continue;
-        }
-        const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
-        const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
-        if (!(Wx * ix + Wy * iy < R2)) {
-          // Tier 2 with both axes stable, fate only. In Courant–Snyder form check m of period k
-          // has U = ρ_m·z_k = |ρ_m||z|·cos(kμ + φ_m), z_k the normalized state turning by μ per
-          // period, and |ρ_m|² = W(θ_m). Candidates: the checks whose envelope Ix·Wx + Iy·Wy (W
-          // from the grid at the two points around the check's phase, plus the margin for the
-          // curve between them) reaches r0². Any sample at or past r0 decides the loss (the
-          // direct kernel stops at that check or an earlier one), so the candidates go in order
-          // of their envelope, largest first, each over every period of the stage: a lost ion is
-          // mostly found at its first candidate. Before its scan a candidate's row is computed
-          // and its arc over the stage tested (U² ≤ the largest cos² on the arc the angle sweeps
-          // in Kp periods; 1 when the arc holds a multiple of π). d_k = M0^k·c is kept per period
-          // for the ion's later candidates.
-          const full = Math.floor(tExit / h);
-          const Kp = Math.ceil(full / M);
-          let nc = 0;
-          const cand = SCRATCH.cand, env = SCRATCH.env;
-          for (let m = 1; m <= M; m++) {
-            let ii = i0 + m * S;
-            if (ii >= nn) ii -= nn;
-            const wa = wgx[ii] > wgx[ii + 1] ? wgx[ii] : wgx[ii + 1], wb = wgy[ii] > wgy[ii + 1] ? wgy[ii] : wgy[ii + 1];
-            const bnd = (wa + mgx) * ix + (wb + mgy) * iy;
-            if (bnd >= R2) { cand[nc] = m; env[nc] = bnd; nc++; }
-          }
-          let hitAt = -1;
-          if (nc > 0) {
-            const sbx = Math.sqrt(bx), sby = Math.sqrt(by);
-            const zx1 = cx1 / sbx, zx2 = (ax * cx1) / sbx + sbx * cx2;
-            const zy1 = cy1 / sby, zy2 = (ay * cy1) / sby + sby * cy2;
-            // The whole stage's arc, k = 0..Kp, from the rotation table of the run.
-            const wholeX = Kp * absMuX >= Math.PI, wholeY = Kp * absMuY >= Math.PI;
-            let cLx = 1, sLx = 0, cLy = 1, sLy = 0;
-            if (!wholeX || !wholeY) {
-              if (rotCount <= Kp) rotCount = rotations(tx.muEff, ty.muEff, kTop);
-              const R = SCRATCH.rot;
-              cLx = R[4 * Kp]; sLx = R[4 * Kp + 1]; cLy = R[4 * Kp + 2]; sLy = R[4 * Kp + 3];
-            }
-            const E2 = 0.5 * e2, E3 = (e2 * e) / 6;
-            const DX1 = SCRATCH.dx1, DX2 = SCRATCH.dx2, DY1 = SCRATCH.dy1, DY2 = SCRATCH.dy2;
-            DX1[0] = cx1; DX2[0] = cx2; DY1[0] = cy1; DY2[0] = cy2;
-            let kd = 1; // d_k known for k < kd
-            const m11x = tx.m11, m12x = tx.m12, m21x = tx.m21, m22x = tx.m22;
-            const m11y = ty.m11, m12y = ty.m12, m21y = ty.m21, m22y = ty.m22;
-            for (let left = nc; left > 0 && hitAt < 0; left--) {
-              // The remaining candidate of largest envelope, swapped to the end of the live part.
-              let best = 0;
-              for (let q2 = 1; q2 < left; q2++) if (env[q2] > env[best]) best = q2;
-              const m = cand[best];
-              cand[best] = cand[left - 1]; env[best] = env[left - 1];
-              let ii = i0 + m * S;
-              const wrap = ii >= nn;
-              if (wrap) ii -= nn;
-              // rowAt(), inlined (third-order Taylor from the grid point); past 2π the row is r·M0.
-              const wxx = w0x + w1x * cs[ii], dwx = -w1x * sn[ii], wyy = w0y + w1y * cs[ii], dwy = -w1y * sn[ii];
-              let a = f11x[ii], pa = f21x[ii], b2 = f12x[ii], pb = f22x[ii];
-              let r1 = a + e * pa - E2 * wxx * a - E3 * (dwx * a + wxx * pa);
-              let r2 = b2 + e * pb - E2 * wxx * b2 - E3 * (dwx * b2 + wxx * pb);
-              if (wrap) { const w1 = r1 * m11x + r2 * m21x; r2 = r1 * m12x + r2 * m22x; r1 = w1; }
-              a = f11y[ii]; pa = f21y[ii]; b2 = f12y[ii]; pb = f22y[ii];
-              let t1 = a + e * pa - E2 * wyy * a - E3 * (dwy * a + wyy * pa);
-              let t2 = b2 + e * pb - E2 * wyy * b2 - E3 * (dwy * b2 + wyy * pb);
-              if (wrap) { const w1 = t1 * m11y + t2 * m21y; t2 = t1 * m12y + t2 * m22y; t1 = w1; }
-              if (!wholeX || !wholeY) {
-                // ρ = L⁻ᵀ·row; C = ρ·z = |ρ||z|cos a, Sv = ρ×z = |ρ||z|sin a at k = 0; the arc's far
-                // end by the rotation through Kp·μ; U² ≤ max(C², C_end²) unless sin changes sign.
-                const px1 = sbx * r1 - (ax * r2) / sbx, px2 = r2 / sbx;
-                let bxm = (px1 * px1 + px2 * px2) * ix;
-                if (!wholeX) {
-                  const Cx = px1 * zx1 + px2 * zx2, Sx = px1 * zx2 - px2 * zx1;
-                  const C2 = Cx * cLx - Sx * sLx, S2 = Sx * cLx + Cx * sLx;
-                  if (!((Sx > 0) !== (S2 > 0) || Sx === 0 || S2 === 0)) bxm = Math.max(Cx * Cx, C2 * C2);
-                }
-                const py1 = sby * t1 - (ay * t2) / sby, py2 = t2 / sby;
-                let bym = (py1 * py1 + py2 * py2) * iy;
-                if (!wholeY) {
-                  const Cy = py1 * zy1 + py2 * zy2, Sy = py1 * zy2 - py2 * zy1;
-                  const C2 = Cy * cLy - Sy * sLy, S2 = Sy * cLy + Cy * sLy;
-                  if (!((Sy > 0) !== (S2 > 0) || Sy === 0 || S2 === 0)) bym = Math.max(Cy * Cy, C2 * C2);
-                }
-                // Margin for the invariant's drift under the (non-symplectic) RK4 table (≲ 1e-12
-                // per period) and for rounding in the rotation: 1e-6 relative.
-                if ((bxm + bym) * (1 + 1e-6) < R2) continue;
-              }
-              // Every period whose check m lies inside the rods: base + m ≤ full.
-              for (let kk = 0; kk * M + m <= full; kk++) {
-                if (kk === kd) {
-                  const o = kk - 1;
-                  DX1[kk] = m11x * DX1[o] + m12x * DX2[o]; DX2[kk] = m21x * DX1[o] + m22x * DX2[o];
-                  DY1[kk] = m11y * DY1[o] + m12y * DY2[o]; DY2[kk] = m21y * DY1[o] + m22y * DY2[o];
-                  kd++;
-                }
-                const Xc = r1 * DX1[kk] + r2 * DX2[kk], Yc = t1 * DY1[kk] + t2 * DY2[kk];
-                if (Xc * Xc + Yc * Yc >= R2) { hitAt = kk * M + m; break; }
-              }
-            }
-          }
-          if (hitAt < 0) {
-            // The exit check (the shortened last step of the direct kernel): F(θr)·M0^K·c.
-            const thEnd = psi + omega * tExit;
-            let K = Math.floor(thEnd / TWO_PI);
-            let thr = thEnd - K * TWO_PI;
-            if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
-            if (thr < 0) thr = 0;
-            const Fm = this.fm;
-            powerApply(tx, K, cx1, cx2, v);
-            fAt(tx, thr, Fm);
-            const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
-            powerApply(ty, K, cy1, cy2, v);
-            fAt(ty, thr, Fm);
-            const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
-            if (Xe * Xe + Ye * Ye >= R2) hitAt = full;
-          }
-          this.periodLoops++;
-          if (hitAt >= 0) {
-            fate[j] = Fate.hit;
-            done[j] = 1;
-            continue;
-          }
-        } else this.envelopeCleared++;
-        // Cleared for the whole stage: out at zEnd at tExit, then the open drifts (openDrifts()).
-        let t = tExit, z = zEnd, f: number = Fate.detected;
-        for (let q = s0 + 1; q < stages.length; q++) {
-          const te = (stages[q].zEnd - z) / vz, tl = maxTime - t;
-          if (tl < te) { t += tl; f = Fate.alive; break; }
-          t += te; z = stages[q].zEnd;
-        }
-        fate[j] = f;
-        done[j] = 1;
+      if (st !== null && st.type === 'quadrupole' && (s0 === stages.length - 1 || this.openTail[s0])) {
+        const { x: tx, y: ty } = this.pair(s0, pop, st, mass[pop], charge[pop]);
+        const run: Run = { tx, ty, stage: st, s0, stages, sc: scale[pop], maxTime: this.ctx.maxTime, R2: this.r2 };
+        batchRun(run, st0, start, k, end, fate, done, counts);
       }
       k = end;
     }
+    this.envelopeCleared += counts.envelopeCleared;
+    this.periodLoops += counts.periodLoops;
     return done;
   }
 

@@ -44,6 +44,17 @@ export interface PeriodTable {
    * linear-path.ts), so a check's envelope is bounded without computing its row.
    */
   w: Float64Array;
+  /**
+   * How far W can rise between grid points above the larger of the two ends (stable only; else
+   * Infinity): W ≤ linear interpolation + max|W''|·δθ²/8, and max|Δ²W|/4 over the grid covers
+   * that with a factor 2 for the curvature between samples (as for SpectralRows).
+   */
+  wMargin: number;
+  /**
+   * max(W(θ_i), W(θ_i+1)) + wMargin, i = 0..n−1 (stable only): the envelope factor of any phase
+   * in [θ_i, θ_i+1], one load per check.
+   */
+  wUp: Float64Array;
   /** Largest F11² + F12² over the grid. */
   rowMax: number;
   /**
@@ -75,6 +86,19 @@ export interface PeriodTable {
   powCount: number;
   /** Spectral rows of an unstable axis (spectralRows()); null until asked for. */
   spectral: SpectralRows | null;
+  /** Courant–Snyder form at every grid phase of a stable axis (twissRows()); null until asked for. */
+  twiss: TwissRows | null;
+}
+
+/**
+ * Stable axis: the invariant of a state w taken at phase θ, I = c·Q0·c with c = F(θ)⁻¹·w, is
+ * the quadratic form I = w·Q(θ)·w, Q(θ) = F(θ)⁻ᵀ·Q0·F(θ)⁻¹ (Q0 = [[γ, α], [α, β]]). Q is
+ * 2π-periodic (M0ᵀ-invariance of Q0) and smooth, so linear interpolation on the grid serves,
+ * with e11, e12, e22 bounding its error per entry (as for SpectralRows).
+ */
+export interface TwissRows {
+  q11: Float64Array; q12: Float64Array; q22: Float64Array;
+  e11: number; e12: number; e22: number;
 }
 
 /**
@@ -129,7 +153,7 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
   const same = reuse !== undefined && reuse.n === n;
   const f11 = same ? reuse.f11 : new Float64Array(n + 1), f12 = same ? reuse.f12 : new Float64Array(n + 1);
   const f21 = same ? reuse.f21 : new Float64Array(n + 1), f22 = same ? reuse.f22 : new Float64Array(n + 1);
-  const wGrid = same ? reuse.w : new Float64Array(n + 1);
+  const wGrid = same ? reuse.w : new Float64Array(n + 1), wUp = same ? reuse.wUp : new Float64Array(n + 1);
   const { cos, sin } = trigTable(n);
   // cos at the RK4 stage points: grid/(2·INNER) spacing.
   const fine = trigTable(2 * INNER * n).cos;
@@ -223,12 +247,64 @@ export function periodTable(a: number, q: number, checks: number, sub = Math.max
     }
   }
   const e11 = ell * s11, e12 = ell * s12, e22 = ell * s22;
+  let wMargin = Infinity;
+  if (stable) {
+    wMargin = interpolationBound(wGrid, n);
+    for (let i = 0; i < n; i++) wUp[i] = (wGrid[i] > wGrid[i + 1] ? wGrid[i] : wGrid[i + 1]) + wMargin;
+    wUp[n] = wUp[0];
+  }
   return {
     checks, sub, n, dTheta, w0, w1, f11, f12, f21, f22, cos, sin, m11, m12, m21, m22, stable,
-    beta, alpha, gamma, wMax, w: wGrid, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
+    beta, alpha, gamma, wMax, w: wGrid, wMargin, wUp, rowMax, e11, e12, e22, muEff, lambda, vi11, vi12, vi21, vi22, h1, h2,
     pow: reuse?.pow ?? new Float64Array(0), powCount: 0,
     spectral: null,
+    twiss: null,
   };
+}
+
+const spareTwiss: TwissRows[] = [];
+
+/** Hands a finished table's Courant–Snyder rows back for reuse. */
+export function releaseTwiss(t: PeriodTable): void {
+  if (t.twiss !== null && spareTwiss.length < 4) spareTwiss.push(t.twiss);
+  t.twiss = null;
+}
+
+/**
+ * Largest |second difference| of a 2π-periodic g over the grid (g(θ_−1) = g(θ_n−1)), divided by
+ * 4: linear interpolation errs by at most max|g''|·δθ²/8, the second differences estimate
+ * max|g''|·δθ², and the factor 2 covers the curvature between samples.
+ */
+function interpolationBound(g: Float64Array, n: number): number {
+  let d = Math.abs(g[1] - 2 * g[0] + g[n - 1]);
+  for (let i = 1; i < n; i++) {
+    const v = Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]);
+    if (v > d) d = v;
+  }
+  return d / 4;
+}
+
+/** The Courant–Snyder form at the grid phases of a stable table (see TwissRows). */
+export function twissRows(t: PeriodTable): TwissRows {
+  if (!t.stable) throw new Error('Courant–Snyder rows need a stable axis');
+  if (t.twiss !== null) return t.twiss;
+  const n = t.n;
+  let r = spareTwiss.pop();
+  if (r === undefined || r.q11.length !== n + 1) {
+    r = { q11: new Float64Array(n + 1), q12: new Float64Array(n + 1), q22: new Float64Array(n + 1), e11: 0, e12: 0, e22: 0 };
+  }
+  const { f11, f12, f21, f22, gamma, alpha, beta } = t;
+  for (let i = 0; i <= n; i++) {
+    const det = f11[i] * f22[i] - f12[i] * f21[i];
+    // F⁻¹ = adj(F)/det.
+    const g11 = f22[i] / det, g12 = -f12[i] / det, g21 = -f21[i] / det, g22 = f11[i] / det;
+    r.q11[i] = g11 * g11 * gamma + 2 * g11 * g21 * alpha + g21 * g21 * beta;
+    r.q12[i] = g11 * g12 * gamma + (g11 * g22 + g21 * g12) * alpha + g21 * g22 * beta;
+    r.q22[i] = g12 * g12 * gamma + 2 * g12 * g22 * alpha + g22 * g22 * beta;
+  }
+  r.e11 = interpolationBound(r.q11, n); r.e12 = interpolationBound(r.q12, n); r.e22 = interpolationBound(r.q22, n);
+  t.twiss = r;
+  return r;
 }
 
 /** Spare spectral rows, keyed by grid size, for the next point's unstable tables. */
@@ -270,12 +346,8 @@ export function spectralRows(t: PeriodTable, kMax: number): SpectralRows {
       sp.a2[i] = (x2 * (t.vi21 * f22[i] - t.vi22 * f21[i])) / det;
       sp.b2[i] = (x2 * (-t.vi21 * f12[i] + t.vi22 * f11[i])) / det;
     }
-    let d1 = 0, d2 = 0;
-    for (let i = 1; i < n; i++) {
-      d1 = Math.max(d1, Math.abs(sp.a1[i + 1] - 2 * sp.a1[i] + sp.a1[i - 1]), Math.abs(sp.b1[i + 1] - 2 * sp.b1[i] + sp.b1[i - 1]));
-      d2 = Math.max(d2, Math.abs(sp.a2[i + 1] - 2 * sp.a2[i] + sp.a2[i - 1]), Math.abs(sp.b2[i + 1] - 2 * sp.b2[i] + sp.b2[i - 1]));
-    }
-    sp.err1 = d1 / 4; sp.err2 = d2 / 4;
+    sp.err1 = Math.max(interpolationBound(sp.a1, n), interpolationBound(sp.b1, n));
+    sp.err2 = Math.max(interpolationBound(sp.a2, n), interpolationBound(sp.b2, n));
     sp.count = 0;
     t.spectral = sp;
   }
@@ -296,6 +368,15 @@ export function spectralRows(t: PeriodTable, kMax: number): SpectralRows {
   }
   return sp;
 }
+
+/**
+ * Safety margin of the bounds taken over the grid (Wmax, h1, h2, the row ellipse): between grid
+ * points (2π/(M·S) apart) a quantity can exceed its grid maximum by about its second derivative
+ * times δθ²/8 ≲ 10·(2π/640)²/8 ≈ 1.2e-4 of itself (second derivatives are of order
+ * |w0| + |w1| + 1 ≲ 10 in phase units). 1e-3 covers that eightfold; ions inside the margin take
+ * the exact tiers. (The per-check envelope of the batch pass uses wMargin, measured per table.)
+ */
+export const ENVELOPE_MARGIN = 1e-3;
 
 /** Entries of M0^k stop growing the power table past this size (no overflow to ∞ or NaN). */
 const POW_LIMIT = 1e100;

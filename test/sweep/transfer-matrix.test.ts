@@ -3,7 +3,7 @@
 // extrapolation code, rtol = atol = 1e-13), and the textbook properties of Hill's equation.
 
 import { describe, expect, it } from 'vitest';
-import { fAt, mat2, periodTable, powerApply, rowAt, spectralRows } from '../../sim/analysis/transfer-matrix.js';
+import { fAt, mat2, periodTable, powerApply, rowAt, spectralRows, twissRows } from '../../sim/analysis/transfer-matrix.js';
 import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
 
 /** F(θ) by odex: U'' = −(a/4 + (q/2) cos θ) U from 0 to θ, both fundamental solutions. */
@@ -141,6 +141,38 @@ describe('one-period transfer matrix vs odex 2.0.4', () => {
         expect(worstRatio).toBeGreaterThan(1e-3);
         expect(worstRel).toBeLessThan(1e-3);
       }
+    }
+  });
+
+  it('Courant–Snyder rows: the interpolated form at ψ bounds the invariant of F(ψ)⁻¹·w from above, within 1e-4 of its scale', () => {
+    // Courant & Snyder 1958 (I = γU² + 2αUU' + βU'² at phase 0); reference: c = F(ψ)⁻¹·w with the
+    // table's F(ψ) (checked against odex above). The apex point (x and y), two nearer the edges
+    // (μ ≈ 0.09 in x, 0.05 in y) and RF only, q = 0.5.
+    for (const [a, q] of [[0.2350, 0.7046], [-0.2350, -0.7046], [0.2355, 0.7060], [-0.2330, -0.7000], [0, 0.5]] as const) {
+      const t = periodTable(a, q, 40);
+      expect(t.stable).toBe(true);
+      const tw = twissRows(t);
+      const qMax = (g: Float64Array) => g.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+      const F = mat2();
+      let worst = 0;
+      for (let j = 0; j < 97; j++) {
+        const psi = (2 * Math.PI * (j + 0.61)) / 97;
+        const w1 = Math.cos(7 * j), w2 = Math.sin(11 * j);
+        fAt(t, psi, F);
+        const det = F.a11 * F.a22 - F.a12 * F.a21;
+        const c1 = (F.a22 * w1 - F.a12 * w2) / det, c2 = (-F.a21 * w1 + F.a11 * w2) / det;
+        const I = t.gamma * c1 * c1 + 2 * t.alpha * c1 * c2 + t.beta * c2 * c2;
+        const i0 = Math.min(t.n - 1, Math.floor(psi / t.dTheta)), wt = (psi - i0 * t.dTheta) / t.dTheta;
+        const lin = (g: Float64Array) => (1 - wt) * g[i0] + wt * g[i0 + 1];
+        const Iint = lin(tw.q11) * w1 * w1 + 2 * lin(tw.q12) * w1 * w2 + lin(tw.q22) * w2 * w2;
+        const up = Iint + tw.e11 * w1 * w1 + 2 * tw.e12 * Math.abs(w1 * w2) + tw.e22 * w2 * w2;
+        expect(up).toBeGreaterThanOrEqual(I);
+        // Looseness on the scale of the form over the period (the bound is one number per table,
+        // so where the form is small at ψ it is loose in relative terms, never below I).
+        const scale = qMax(tw.q11) * w1 * w1 + 2 * qMax(tw.q12) * Math.abs(w1 * w2) + qMax(tw.q22) * w2 * w2;
+        worst = Math.max(worst, (up - I) / scale);
+      }
+      expect(worst).toBeLessThan(1e-4);
     }
   });
 });
