@@ -30,10 +30,14 @@ export interface StartArrays {
   readonly tau: Float64Array;
 }
 
-/** One run: ions [j0, j1) of the batch (global index start + j) in stage s0 of `stages`. */
+/**
+ * One run: ions [j0, j1) of the batch (global index start + j) in stage s0 of `stages`. One or
+ * both tables are given; complete() supplies the other when the pass needs it.
+ */
 export interface Run {
-  tx: PeriodTable;
-  ty: PeriodTable;
+  tx: PeriodTable | null;
+  ty: PeriodTable | null;
+  complete: (run: Run) => void;
   stage: QuadrupoleStage;
   s0: number;
   stages: readonly Stage[];
@@ -68,7 +72,10 @@ const S = {
 
 /** Decides what it can of one run; see the file head. */
 export function batchRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  if (run.tx.stable && run.ty.stable) stableRun(run, st, start, j0, j1, fate, done, counts);
+  const given = run.tx ?? run.ty;
+  if (given === null || given.stable) run.complete(run);
+  const tx = run.tx, ty = run.ty;
+  if (tx !== null && ty !== null && tx.stable && ty.stable) stableRun(run, tx, ty, st, start, j0, j1, fate, done, counts);
   else growingRun(run, st, start, j0, j1, fate, done, counts);
 }
 
@@ -144,14 +151,23 @@ function spectralReach(sp: SpectralRows, K: number, i0: number, wt: number, u: n
   return Math.abs(L * A + B / L) - err;
 }
 
+/** Spectral rows of a table that is there and growing (finite λ), else null. */
+function growing(t: PeriodTable | null, kTop: number): SpectralRows | null {
+  return t === null || t.stable || !Number.isFinite(t.lambda) ? null : spectralRows(t, kTop);
+}
+
+/**
+ * A run with a growing axis. Only the growing table may be there at first (the spectral test
+ * needs no other); the other is asked for when an ion needs F(ψ) on both axes.
+ */
 function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { tx, ty, sc, maxTime, R2 } = run;
-  const M = tx.checks, f = run.stage.rf.frequency, h = 1 / f / M;
+  const { sc, maxTime, R2 } = run;
+  const grid = (run.tx ?? run.ty)!;
+  const M = grid.checks, f = run.stage.rf.frequency, h = 1 / f / M;
   const omega = TWO_PI * f, phase = run.stage.rf.phase, r0 = run.stage.r0, toP = 1 / (r0 * omega), zEnd = run.stage.zEnd;
-  const dT = tx.dTheta, nn = tx.n;
+  const dT = grid.dTheta, nn = grid.n;
   const kTop = periodsTop(run);
-  const spX = tx.stable || !Number.isFinite(tx.lambda) ? null : spectralRows(tx, kTop);
-  const spY = ty.stable || !Number.isFinite(ty.lambda) ? null : spectralRows(ty, kTop);
+  let spX = growing(run.tx, kTop), spY = growing(run.ty, kTop);
   // (1 + 1e-9): rounding between the spectral and the matrix-power forms of the same sample.
   const rLoss = Math.sqrt(R2) * (1 + 1e-9);
   const X = st.x, Y = st.y, VX = st.vx, VY = st.vy, Z = st.z, VZ = st.vz, TAU = st.tau;
@@ -175,6 +191,11 @@ function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: nu
         continue;
       }
     }
+    if (run.tx === null || run.ty === null) {
+      run.complete(run);
+      spX = growing(run.tx, kTop); spY = growing(run.ty, kTop);
+    }
+    const tx = run.tx!, ty = run.ty!;
     const a = S.arg;
     a[0] = e; a[1] = X0; a[2] = P0; a[3] = Y0; a[4] = Q0;
     entry(tx, ty, i0);
@@ -261,8 +282,8 @@ function invariantUp(q: TwissRows, i0: number, wt: number, u: number, p: number)
   return q11 * u * u + 2 * q12 * u * p + q22 * p * p + q.e11 * u * u + 2 * q.e12 * Math.abs(u * p) + q.e22 * p * p;
 }
 
-function stableRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { tx, ty, sc, maxTime, R2 } = run;
+function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
+  const { sc, maxTime, R2 } = run;
   const M = tx.checks, f = run.stage.rf.frequency, h = 1 / f / M;
   const omega = TWO_PI * f, phase = run.stage.rf.phase, r0 = run.stage.r0, toP = 1 / (r0 * omega), zEnd = run.stage.zEnd;
   const dT = tx.dTheta, nn = tx.n;
