@@ -151,6 +151,20 @@ function spectralReach(sp: SpectralRows, K: number, i0: number, wt: number, u: n
   return Math.abs(L * A + B / L) - err;
 }
 
+/** What both run loops read of the stage and the grid, once per run. */
+interface RunConsts {
+  M: number; h: number; omega: number; phase: number; r0: number; toP: number; zEnd: number;
+  dT: number; nn: number; kTop: number;
+}
+
+function runConsts(run: Run, grid: PeriodTable): RunConsts {
+  const M = grid.checks, f = run.stage.rf.frequency, omega = TWO_PI * f, r0 = run.stage.r0;
+  return {
+    M, h: 1 / f / M, omega, phase: run.stage.rf.phase, r0, toP: 1 / (r0 * omega), zEnd: run.stage.zEnd,
+    dT: grid.dTheta, nn: grid.n, kTop: periodsTop(run),
+  };
+}
+
 /** Spectral rows of a table that is there and growing (finite λ), else null. */
 function growing(t: PeriodTable | null, kTop: number): SpectralRows | null {
   return t === null || t.stable || !Number.isFinite(t.lambda) ? null : spectralRows(t, kTop);
@@ -162,17 +176,15 @@ function growing(t: PeriodTable | null, kTop: number): SpectralRows | null {
  */
 function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
   const { sc, maxTime, R2 } = run;
-  const grid = (run.tx ?? run.ty)!;
-  const M = grid.checks, f = run.stage.rf.frequency, h = 1 / f / M;
-  const omega = TWO_PI * f, phase = run.stage.rf.phase, r0 = run.stage.r0, toP = 1 / (r0 * omega), zEnd = run.stage.zEnd;
-  const dT = grid.dTheta, nn = grid.n;
-  const kTop = periodsTop(run);
+  const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, (run.tx ?? run.ty)!);
   let spX = growing(run.tx, kTop), spY = growing(run.ty, kTop);
   // (1 + 1e-9): rounding between the spectral and the matrix-power forms of the same sample.
   const rLoss = Math.sqrt(R2) * (1 + 1e-9);
   const X = st.x, Y = st.y, VX = st.vx, VY = st.vy, Z = st.z, VZ = st.vz, TAU = st.tau;
   const E = S.entry;
   for (let j = j0; j < j1; j++) {
+    // The ion's entry (as in stableRun; written out in both loops rather than in a helper that
+    // would need a scratch array for its five results).
     const i = start + j;
     const vz = VZ[i] * sc;
     if (!(vz > 0)) continue;
@@ -228,20 +240,9 @@ function growingExact(tx: PeriodTable, ty: PeriodTable, F11: number, F12: number
   }
   const g = 1 + ENVELOPE_MARGIN;
   const kMax = Math.ceil(full / M);
-  const lx = tx.stable ? 1 : Math.abs(tx.lambda), ly = ty.stable ? 1 : Math.abs(ty.lambda);
   const envX = tx.stable ? g * tx.wMax * (tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2) : 0;
   const envY = ty.stable ? g * ty.wMax * (ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2) : 0;
-  let gxu = 0, sxu = 0, gyu = 0, syu = 0;
-  if (!tx.stable) { gxu = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * lx; sxu = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2; }
-  if (!ty.stable) { gyu = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * ly; syu = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2; }
-  const ilx = 1 / lx, ily = 1 / ly;
-  let q = 0;
-  for (; q < kMax; q++) {
-    const bxq = tx.stable ? envX : (gxu + sxu) * (gxu + sxu);
-    const byq = ty.stable ? envY : (gyu + syu) * (gyu + syu);
-    if (!(bxq + byq < R2)) break;
-    gxu *= lx; sxu *= ilx; gyu *= ly; syu *= ily;
-  }
+  const q = quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, kMax, R2);
   if (q >= kMax) return false;
   powerApply(tx, q, cx1, cx2, v); let dx1 = v[0], dx2 = v[1];
   powerApply(ty, q, cy1, cy2, v); let dy1 = v[0], dy2 = v[1];
@@ -256,7 +257,41 @@ function growingExact(tx: PeriodTable, ty: PeriodTable, F11: number, F12: number
 }
 
 /**
- * SCRATCH rotation table S.rot[4k..4k+3] = cos kμx, sin kμx, cos kμy, sin kμy, k = 0..kTop.
+ * Number of leading periods (at most kMax) in which no check can reach r0² by the eigen-bound of
+ * each unstable axis (|U| ≤ |A|h1|λ|^(k+1) + |B|h2|λ|^−k) and the envelope of a stable one (envX,
+ * envY: g·Wmax·I; unused for a growing axis).
+ */
+export function quietPeriods(tx: PeriodTable, cx1: number, cx2: number, envX: number, ty: PeriodTable, cy1: number, cy2: number, envY: number, kMax: number, R2: number): number {
+  const g = 1 + ENVELOPE_MARGIN;
+  let gx = 0, sx = 0, lx = 1, fx = 0;
+  if (tx.stable) fx = envX;
+  else {
+    const l = Math.abs(tx.lambda);
+    gx = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * l;
+    sx = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2;
+    lx = l;
+  }
+  let gy = 0, sy = 0, ly = 1, fy = 0;
+  if (ty.stable) fy = envY;
+  else {
+    const l = Math.abs(ty.lambda);
+    gy = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * l;
+    sy = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2;
+    ly = l;
+  }
+  const ix = 1 / lx, iy = 1 / ly;
+  let k = 0;
+  for (; k < kMax; k++) {
+    const bx = tx.stable ? fx : (gx + sx) * (gx + sx);
+    const by = ty.stable ? fy : (gy + sy) * (gy + sy);
+    if (!(bx + by < R2)) break;
+    gx *= lx; sx *= ix; gy *= ly; sy *= iy;
+  }
+  return k;
+}
+
+/**
+ * Rotation table S.rot[4k..4k+3] = cos kμx, sin kμx, cos kμy, sin kμy, k = 0..kTop.
  * By rotation from the last exact value (Math.cos, Math.sin every 32 steps): the drift between
  * anchors is a few 1e-15, far inside the 1e-6 margin of the bounds that use it.
  */
@@ -284,13 +319,10 @@ function invariantUp(q: TwissRows, i0: number, wt: number, u: number, p: number)
 
 function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
   const { sc, maxTime, R2 } = run;
-  const M = tx.checks, f = run.stage.rf.frequency, h = 1 / f / M;
-  const omega = TWO_PI * f, phase = run.stage.rf.phase, r0 = run.stage.r0, toP = 1 / (r0 * omega), zEnd = run.stage.zEnd;
-  const dT = tx.dTheta, nn = tx.n;
+  const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, tx);
   // All-time envelope: the grid's largest W plus what W can add between grid points.
   const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = tx.wMax + tx.wMargin;
   const gy = ty.gamma, ay = ty.alpha, by = ty.beta, Wy = ty.wMax + ty.wMargin;
-  const kTop = periodsTop(run);
   if (S.dx1.length < kTop + 1) {
     S.dx1 = new Float64Array(kTop + 1); S.dx2 = new Float64Array(kTop + 1);
     S.dy1 = new Float64Array(kTop + 1); S.dy2 = new Float64Array(kTop + 1);

@@ -32,7 +32,7 @@ import { populationOffsets, referenceOmega, startIon } from '../engine/start.js'
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
 import { trackUniform } from '../engine/kernels/uniform.js';
 import { ENVELOPE_MARGIN, fAt, fAtGrid, mat2, periodTable, powerApply, releaseSpectral, releaseTwiss, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
-import { batchRun, type BatchCounts, type Run } from './batch-pass.js';
+import { batchRun, quietPeriods, type BatchCounts, type Run } from './batch-pass.js';
 
 
 const STAGE_KEYS: Record<string, ReadonlySet<string>> = {
@@ -312,39 +312,6 @@ export class LinearTracker {
   }
 
   /**
-   * Number of leading periods (at most kMax) in which no check can reach r0² by the eigen-bound of
-   * each unstable axis and the envelope of a stable one (see quadrupole()).
-   */
-  private quietPeriods(tx: PeriodTable, cx1: number, cx2: number, envX: number, ty: PeriodTable, cy1: number, cy2: number, envY: number, kMax: number, R2: number): number {
-    const g = 1 + ENVELOPE_MARGIN;
-    let gx = 0, sx = 0, lx = 1, fx = 0;
-    if (tx.stable) fx = envX;
-    else {
-      const l = Math.abs(tx.lambda);
-      gx = g * Math.abs(tx.vi11 * cx1 + tx.vi12 * cx2) * tx.h1 * l;
-      sx = g * Math.abs(tx.vi21 * cx1 + tx.vi22 * cx2) * tx.h2;
-      lx = l;
-    }
-    let gy = 0, sy = 0, ly = 1, fy = 0;
-    if (ty.stable) fy = envY;
-    else {
-      const l = Math.abs(ty.lambda);
-      gy = g * Math.abs(ty.vi11 * cy1 + ty.vi12 * cy2) * ty.h1 * l;
-      sy = g * Math.abs(ty.vi21 * cy1 + ty.vi22 * cy2) * ty.h2;
-      ly = l;
-    }
-    const ix = 1 / lx, iy = 1 / ly;
-    let k = 0;
-    for (; k < kMax; k++) {
-      const bx = tx.stable ? fx : (gx + sx) * (gx + sx);
-      const by = ty.stable ? fy : (gy + sy) * (gy + sy);
-      if (!(bx + by < R2)) break;
-      gx *= lx; sx *= ix; gy *= ly; sy *= iy;
-    }
-    return k;
-  }
-
-  /**
    * Forward through field-free drifts without apertures to the end: trackUniform's arithmetic for
    * a = 0, R = ∞ and no gas (crossing time (zEnd − z)/vz; out of time when max_time comes first).
    */
@@ -469,7 +436,7 @@ export class LinearTracker {
     // recursion, then one jump d ← M0^k c by repeated squaring.
     let base0 = 0;
     if (!tx.stable || !ty.stable) {
-      const k = this.quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, Math.ceil(full / M), R2);
+      const k = quietPeriods(tx, cx1, cx2, envX, ty, cy1, cy2, envY, Math.ceil(full / M), R2);
       if (k > 0) {
         base0 = k * M;
         const v = this.v;
