@@ -16,11 +16,11 @@
 //     the ion's own phase, computed on first use).
 // When both axes are stable, that last scan visits only the check phases whose per-check
 // envelope reaches r0 (see quadrupole()).
-// The common layout (ions start in a quadrupole followed only by open drifts, start draws reused)
-// runs first as one tight loop over the batch (tier1Batch): tier 1, the same per-check scan for
-// stable ions with each check further bounded by the arc its Floquet phase sweeps in the rods, and
-// for growing ions the quiet-period jump plus period-end checks; whatever it cannot decide goes
-// through the per-ion code above. Both apply the same arithmetic to the same checks.
+// The common layout (ions start in a quadrupole followed only by open drifts, start draws reused,
+// fates only: a sweep) runs first through the batch pass (batch-pass.ts), which decides nearly
+// every ion from interpolated spectral rows (growing axes) or Courant–Snyder rows (stable ones),
+// each with its error bound, and scans the candidate checks of the rest; whatever it cannot
+// decide goes through the per-ion code above. Both use the same checks.
 // A loss is decided by a check sample at or past r0 (the same samples as the direct kernel); the
 // hit time reported is that sample's, which for probe-caught ions may be a little after the first.
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.

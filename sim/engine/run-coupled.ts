@@ -59,6 +59,7 @@ export async function runCoupled(scene: Scene, workers: number): Promise<Coupled
   const fz = (bz * st.rf.frequency) / 2, fr = (br * st.rf.frequency) / 2;
   const solver = sc.method === 'direct' && workers > 1 ? await ParallelDirect.create(workers, total) : undefined;
   const e = ensembleFromBatch(b);
+  e.lostAt = new Float64Array(total).fill(scene.run.maxTime);
   let fig;
   try {
     fig = trapCloudFigures(e, {
@@ -74,8 +75,8 @@ export async function runCoupled(scene: Scene, workers: number): Promise<Coupled
   for (let i = 0; i < total; i++) {
     b.z[i] += zc;
     res.fate[i] = b.fate[i];
-    // Loss times are not tracked by the coupled stepper: every ion ends at max_time.
-    res.end_time[i] = scene.run.maxTime;
+    // The step at which the stepper found the ion outside the electrodes (max_time if it stayed).
+    res.end_time[i] = e.lostAt[i];
     res.end_x[i] = b.x[i]; res.end_y[i] = b.y[i]; res.end_z[i] = b.z[i];
     res.end_vx[i] = b.vx[i]; res.end_vy[i] = b.vy[i]; res.end_vz[i] = b.vz[i];
     res.end_ke_ev[i] = (0.5 * b.mass[i] * (b.vx[i] ** 2 + b.vy[i] ** 2 + b.vz[i] ** 2)) / ELECTRONVOLT;

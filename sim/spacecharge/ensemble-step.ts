@@ -19,6 +19,11 @@ export interface Ensemble {
   /** Mass, kg, and charge, C (signed), of one real ion. */
   mass: Float64Array; charge: Float64Array;
   alive: Uint8Array;
+  /**
+   * When given: the time, s, at which the stepper removed each ion (left as it was for ions
+   * that stay). Removed ions keep the position and velocity they had at that step.
+   */
+  lostAt?: Float64Array;
 }
 
 export function allocateEnsemble(n: number): Ensemble {
@@ -164,7 +169,11 @@ export class EnsembleStepper {
       } else if (ext.lost) {
         out = ext.lost(i, e);
       }
-      if (out) { e.alive[i] = 0; e.vx[i] = 0; e.vy[i] = 0; e.vz[i] = 0; lost++; }
+      if (out) {
+        e.alive[i] = 0;
+        if (e.lostAt) e.lostAt[i] = this.t;
+        lost++;
+      }
     }
     return lost;
   }

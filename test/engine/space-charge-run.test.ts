@@ -51,6 +51,32 @@ describe('space charge in the run engine', () => {
     expect(heavy2.space_charge).toEqual(heavy.space_charge);
   });
 
+  it('an ion the cloud pushes onto the electrodes ends at the step it left, the others at max_time', () => {
+    // 6e6 charges in a cloud of 0.3 mm: far past capacity, so the Coulomb push empties much of the
+    // trap (common practice, no source). The run folder must say when each ion left.
+    const d = tempDir();
+    const f = join(d, 'over.yaml');
+    writeFileSync(f, scene(60000));
+    const r = iontrail(['run', f, '-o', join(d, 'over'), '--csv', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const rows = readFileSync(join(d, 'over', 'ions.csv'), 'utf8').trim().split('\n');
+    const head = rows[0].split(',');
+    const iFate = head.indexOf('fate'), iT = head.indexOf('end_time');
+    const maxTime = 200e-6, h = 1 / (1.05e6 * 40);
+    let lost = 0;
+    for (const line of rows.slice(1)) {
+      const v = line.split(','), t = Number(v[iT]);
+      if (v[iFate] === 'hit' || v[iFate] === '2') {
+        lost++;
+        expect(t).toBeGreaterThan(0);
+        expect(t).toBeLessThan(maxTime);
+        expect(Math.abs(t / h - Math.round(t / h))).toBeLessThan(1e-6); // at a step time
+      } else expect(Math.abs(t - maxTime)).toBeLessThan(1e-12);
+    }
+    expect(lost).toBeGreaterThan(10);
+    expect(lost).toBe(JSON.parse(r.stdout).space_charge.lost);
+  });
+
   it('refuses space charge outside a single trap stage with a one-line error', () => {
     const d = tempDir();
     const f = join(d, 's.yaml');

@@ -26,6 +26,30 @@ describe('losses in an ideal RF trap', () => {
     }
   });
 
+  it('records when and where each ion left: on or past the electrodes, at a step time, as the history counts', () => {
+    // Beyond the a = 0 edge (q_z = 1.0) every ion leaves; the loss surfaces are those of the
+    // ideal trap (ring r² − 2z² = r0², end caps 2z² − r² = 2z0², DESIGN.md geometry).
+    const ens = gaussianCloud(60, 0.3e-3, 0.3e-3, m, e, 33);
+    ens.lostAt = new Float64Array(60).fill(-1);
+    const h = 1 / (40 * fRF), tEnd = 200 / fRF;
+    const hist = runEnsemble(ens, { tEnd, h, external: trap(1.0), recordEvery: 20, spaceCharge: { method: 'direct', weight: 1 } });
+    for (let i = 0; i < 60; i++) {
+      const t = ens.lostAt[i];
+      expect(ens.alive[i]).toBe(0);
+      expect(t).toBeGreaterThan(0);
+      expect(t).toBeLessThanOrEqual(tEnd * (1 + 1e-12));
+      // A whole number of steps (the stepper checks after each drift).
+      expect(Math.abs(t / h - Math.round(t / h))).toBeLessThan(1e-6);
+      const r2 = ens.x[i] ** 2 + ens.y[i] ** 2, z2 = 2 * ens.z[i] ** 2;
+      expect(r2 - z2 >= r0 * r0 || z2 - r2 >= 2 * z0 * z0).toBe(true);
+    }
+    // The recorded survivor counts are the ions whose loss time lies after each record.
+    for (let k = 0; k < hist.t.length; k++) {
+      const still = Array.from(ens.lostAt).filter((t) => t > hist.t[k] * (1 + 1e-12)).length;
+      expect(hist.alive[k]).toBe(still);
+    }
+  });
+
   it('runs an IonBatch in place and writes the fate of lost ions back', () => {
     const b = allocateBatch(40);
     const src = gaussianCloud(40, 0.3e-3, 0.3e-3, m, e, 32);
