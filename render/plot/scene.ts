@@ -12,6 +12,8 @@ export interface RfStage {
   amplitude: number;
   frequency: number;
   dc: number;
+  /** Linear RF ramp, when the stage has one: end amplitude, V, and its duration, s. */
+  ramp?: { to: number; over: number };
 }
 
 const num = (v: unknown): number | undefined => (typeof v === 'number' && Number.isFinite(v) ? v : undefined);
@@ -30,7 +32,9 @@ export function rfStages(summary: RunSummary): RfStage[] {
     const rf = (s.rf ?? {}) as Record<string, unknown>;
     const r0 = num(s.r0), amplitude = num(rf.amplitude), frequency = num(rf.frequency);
     if (r0 === undefined || amplitude === undefined || frequency === undefined) return;
-    out.push({ index, type: s.type, r0, z0: num(s.z0), amplitude, frequency, dc: num(s.dc) ?? 0 });
+    const ramp = (rf.ramp ?? {}) as Record<string, unknown>;
+    const to = num(ramp.to), over = num(ramp.over);
+    out.push({ index, type: s.type, r0, z0: num(s.z0), amplitude, frequency, dc: num(s.dc) ?? 0, ...(to !== undefined && over !== undefined ? { ramp: { to, over } } : {}) });
   });
   return out;
 }

@@ -4,7 +4,9 @@
 import { existsSync, readdirSync, readFileSync, rmSync, statSync, truncateSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { KINDS, plotRun } from '../../render/plot/index.js';
+import { KINDS, buildFigure, plotRun } from '../../render/plot/index.js';
+import { ELEMENTARY_CHARGE, ATOMIC_MASS_UNIT } from '../../sim/units/constants.js';
+import { repoRoot } from '../bench/cbuild.js';
 import { REGION_FILL, seriesColor } from '../../render/common/palette.js';
 import { main } from '../../cli/main.js';
 import { tempRoot, writeSyntheticRun } from '../runfolder/synthetic.js';
@@ -73,6 +75,32 @@ describe('stability', () => {
     expect(countColor(r, REGION_FILL, 4)).toBeGreaterThan(20000);
     // The q_z = 0.908 edge is dashed in vermillion, shared with series 1 (also a species here).
     expect(countColor(r, seriesColor(1), 30)).toBeGreaterThan(100);
+  });
+});
+
+describe('stability with an RF ramp', () => {
+  it('shows where each species goes and the low-mass cut-off at both ends of the ramp', async () => {
+    // Skerry T-7 mass-scan demo (200 V → 1.2 kV over 5 ms, r0 7.07 mm, z0 5 mm, 1.05 MHz, no DC).
+    // The cut-off at the end, against the closed form q_z = 8eV/(m(r0² + 2z0²)Ω²) solved for m at
+    // the q_z = 0.908 edge (DESIGN.md trap convention; March & Todd 2005, edge value from memory).
+    const dir = join(root, 'ramp');
+    const code = await main(['run', join(repoRoot(), 'scenes/t7-mass-scan.yaml'), '-o', dir,
+      '--set', 'ions.0.count=4', '--set', 'ions.1.count=4', '--set', 'ions.2.count=4', '--set', 'run.max_time=20 us']);
+    expect(code).toBe(0);
+    const { spec } = await buildFigure(dir, { kind: 'stability', out: join(root, 'ramp.png') });
+    const labels = spec.legend.map((l) => l.label);
+    expect(labels).toContain('RF ramp 200 → 1200 V over 5 ms: q of each species along its arrow');
+    const edge = labels.find((l) => l.includes('low-mass cut-off'))!;
+    const m = edge.match(/m\/z ([\d.]+) at the start, ([\d.]+) at the end of the ramp/)!;
+    const omega = 2 * Math.PI * 1.05e6, D = 7.07e-3 ** 2 + 2 * 5e-3 ** 2;
+    const mzAt = (V: number) => (8 * ELEMENTARY_CHARGE * V) / (0.908 * D * omega * omega) / ATOMIC_MASS_UNIT;
+    // Four significant figures on the label.
+    expect(Math.abs(Number(m[1]) - mzAt(200)) / mzAt(200)).toBeLessThan(1e-3);
+    expect(Math.abs(Number(m[2]) - mzAt(1200)) / mzAt(1200)).toBeLessThan(1e-3);
+    await plotRun(dir, { kind: 'stability', out: join(root, 'ramp.png') });
+    const r = await decodePng(readFileSync(join(root, 'ramp.png')));
+    // The arrows run past the q_z edge (q ends at 6× its start): series colours right of the edge.
+    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 30, 700, 120, 1090, 700)).toBeGreaterThan(20);
   });
 });
 

@@ -75,6 +75,23 @@ function placeLabels(ctx: Ctx, g: PanelGeom, pts: SpeciesPoint[]): void {
   }
 }
 
+/**
+ * The path of each species' operating point during the RF ramp: q ∝ V at fixed U (a stays), so a
+ * horizontal arrow from the start point to the end amplitude's q, cut at the panel's right edge.
+ */
+function drawRampPaths(ctx: Ctx, g: PanelGeom, pts: SpeciesPoint[], qEnd: number[], qMax: number): void {
+  ctx.lineWidth = 1.5;
+  pts.forEach((p, i) => {
+    const q1 = Math.min(qEnd[i], qMax);
+    if (!(q1 > p.q)) return;
+    // Species on one a (no DC) would share a line: each arrow a few pixels off its own.
+    const X0 = g.px(p.q), X1 = g.px(q1), Y = g.py(p.a) + 4 * (i - (pts.length - 1) / 2);
+    ctx.strokeStyle = p.color; ctx.fillStyle = p.color;
+    ctx.beginPath(); ctx.moveTo(X0 + 6, Y); ctx.lineTo(X1 - 7, Y); ctx.stroke();
+    ctx.beginPath(); ctx.moveTo(X1, Y); ctx.lineTo(X1 - 9, Y - 4); ctx.lineTo(X1 - 9, Y + 4); ctx.closePath(); ctx.fill();
+  });
+}
+
 function drawPoints(ctx: Ctx, g: PanelGeom, pts: SpeciesPoint[]): void {
   for (const p of pts) {
     const X = g.px(p.q), Y = g.py(p.a);
@@ -157,11 +174,17 @@ export const stability: PlotKind = {
     ];
     if (trap) {
       const lmco = mzAtQ(op, stage.amplitude, qEdge);
-      legend.push({ label: `q_z = ${qEdge.toFixed(3)} edge: low-mass cut-off m/z ${fmt(lmco)}`, color: '#D55E00', mark: 'dash' });
+      const atEnd = stage.ramp ? `, ${fmt(mzAtQ(op, stage.ramp.to, qEdge))} at the end of the ramp` : '';
+      legend.push({ label: `q_z = ${qEdge.toFixed(3)} edge: low-mass cut-off m/z ${fmt(lmco)}${stage.ramp ? ' at the start' : ''}${atEnd}`, color: '#D55E00', mark: 'dash' });
+    }
+    // With an RF ramp, where each species' q goes (a is fixed by the DC, which does not ramp).
+    const qEnd = stage.ramp ? species.map((sp) => Math.abs(mathieuParameters({ ...op, rf: stage.ramp!.to, mz: sp.mz, charge: sp.charge })[0].q)) : [];
+    if (stage.ramp) {
+      legend.push({ label: `RF ramp ${fmtV(stage.amplitude)} → ${fmtV(stage.ramp.to)} V over ${fmt(stage.ramp.over * 1e3)} ms: q of each species along its arrow`, color: INK, mark: 'line' });
     }
     points.forEach((p) => legend.push({ label: `${p.name}${p.stable ? '' : ' (unstable)'}`, color: p.color, mark: p.stable ? 'point' : 'ring' }));
     const apex = trap ? null : quadrupoleApex();
-    const rf = `${fmtV(stage.amplitude)} V RF (0-peak), ${fmtV(stage.dc)} V DC, ${fmt(stage.frequency / 1e6)} MHz, r0 ${fmt(stage.r0 * 1e3)} mm${trap && stage.z0 !== undefined ? `, z0 ${fmt(stage.z0 * 1e3)} mm` : ''}`;
+    const rf = `${fmtV(stage.amplitude)} V RF (0-peak)${stage.ramp ? ` at the start` : ''}, ${fmtV(stage.dc)} V DC, ${fmt(stage.frequency / 1e6)} MHz, r0 ${fmt(stage.r0 * 1e3)} mm${trap && stage.z0 !== undefined ? `, z0 ${fmt(stage.z0 * 1e3)} mm` : ''}`;
     return {
       title: figureTitle(run.summary, 'stability diagram'),
       subtitle: `stage ${stage.index} (${stage.type}): ${rf}; filled points stable, open points unstable`,
@@ -188,6 +211,7 @@ export const stability: PlotKind = {
             ctx.fillStyle = INK_SOFT; ctx.font = font(11); ctx.textAlign = 'center';
             ctx.fillText(`apex q ${apex.q.toFixed(3)}, a ${apex.a.toFixed(3)}`, g.px(apex.q), g.py(apex.a) - 8);
           }
+          if (stage.ramp) drawRampPaths(ctx, g, points, qEnd, qMax);
           drawPoints(ctx, g, points);
         },
         overlay: (ctx, g) => placeLabels(ctx, g, points),
