@@ -88,8 +88,6 @@ const SCRATCH = {
   rowStamp: new Float64Array(0), stamp: 0, cand: new Int32Array(0), doneMask: new Uint8Array(0),
 };
 
-
-
 /**
  * The axis (0 = x, 1 = y) that was the growing one at the last point the batch pass saw: in an
  * m/z sweep the next point is likely the same, so its table is built first. Speed only; the
