@@ -2,19 +2,10 @@
 import { describe, it, expect, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, readdirSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
+import { repoRoot } from '../bench/cbuild.js';
 
-function projectRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) {
-    const up = dirname(dir);
-    if (up === dir) throw new Error('project root not found');
-    dir = up;
-  }
-  return dir;
-}
-const root = projectRoot();
+const root = repoRoot();
 
 function newestSource(): number {
   const files = [join(root, 'cli/commands/check.ts'), ...readdirSync(join(root, 'sim/mathieu')).map((f) => join(root, 'sim/mathieu', f))];

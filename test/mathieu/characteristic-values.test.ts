@@ -3,26 +3,17 @@
 // (SciPy 1.17.1), cross-checked against Abramowitz & Stegun, Handbook of Mathematical Functions,
 // Table 20.1. Required agreement: 1e-6 (issue 2).
 import { describe, it, expect } from 'vitest';
-import { readFileSync, existsSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { a0, b1, a1, b2 } from '../../sim/mathieu/boundaries.js';
 import { halfTrace } from '../../sim/mathieu/floquet.js';
+import { repoRoot } from '../bench/cbuild.js';
 
-function projectRoot(): string {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  while (!existsSync(join(dir, 'package.json'))) {
-    const up = dirname(dir);
-    if (up === dir) throw new Error('project root not found');
-    dir = up;
-  }
-  return dir;
-}
 
 interface Row { q: number; a0: number; b1: number; a1: number; b2: number }
 
 function table(): Row[] {
-  const text = readFileSync(join(projectRoot(), 'test/reference/mathieu_characteristic_values.csv'), 'utf8');
+  const text = readFileSync(join(repoRoot(), 'test/reference/mathieu_characteristic_values.csv'), 'utf8');
   const lines = text.split('\n').filter((l) => l.trim() !== '' && !l.startsWith('#'));
   const [head, ...rows] = lines;
   expect(head.trim()).toBe('q,a0,b1,a1,b2');
