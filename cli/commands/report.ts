@@ -4,6 +4,8 @@
 // the scene records none). The bundle is built in a temporary folder next to DIR and renamed into
 // place, so DIR appears whole or not at all.
 
+import { firstRf } from '../../sim/stages/registry.js';
+import { isQuadrupole } from '../../sim/stages/guards.js';
 import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, join, resolve } from 'node:path';
@@ -88,7 +90,7 @@ export function checkBundleTarget(out: string, force: boolean): void {
  * distributions, with trajectories recorded at about SAMPLE_POINTS points per ion.
  */
 export function sampleScene(scene: Scene): { scene: Scene; recordEvery: number } {
-  const rf = scene.stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: { frequency: number } } | undefined;
+  const rf = firstRf(scene.stages);
   const h = rf ? 1 / (rf.rf.frequency * scene.run.stepsPerCycle) : scene.run.stepNoRf;
   const steps = scene.run.maxTime / h;
   const recordEvery = Math.max(1, Math.ceil(steps / SAMPLE_POINTS));
@@ -116,8 +118,8 @@ async function quadrupoleSweep(scene: Scene, opts: BundleOptions): Promise<{ res
   } catch (e) {
     return none(`the m/z sweep module could not be loaded (${firstLine(e)})`);
   }
-  const st = scene.stages.find((s) => s.type === 'quadrupole');
-  if (!st || st.type !== 'quadrupole') return none('no quadrupole stage');
+  const st = scene.stages.find(isQuadrupole);
+  if (!st) return none('no quadrupole stage');
   const mz = scene.ions[0].mz;
   const win = mzWindow({ analyzer: 'quadrupole', r0: st.r0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc, mz, charge: scene.ions[0].charge });
   let lo: number, hi: number;

@@ -19,7 +19,7 @@
 //     period, after the arc its Floquet phase sweeps in the rods has been tested; then the exit.
 // Each function is kept small so that V8 optimizes it quickly and keeps it optimized.
 
-import { Fate } from '../engine/batch.js';
+import { Fate } from '../core/batch.js';
 import type { QuadrupoleStage, Stage } from '../scene/types.js';
 import { ENVELOPE_MARGIN, fAt, mat2, powerApply, powers, spectralRows, twissRows, type PeriodTable, type SpectralRows, type TwissRows } from './transfer-matrix.js';
 

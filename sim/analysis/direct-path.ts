@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 import type { Scene } from '../scene/types.js';
 import { trackBatch } from '../engine/track.js';
 import { gasFactory } from '../engine/gas-hooks.js';
-import { Fate } from '../engine/batch.js';
+import { Fate } from '../core/batch.js';
 import { planBatches } from '../engine/batches.js';
 
 /** The scene as a sweep point runs it: no trajectories, no ensemble history (fates only). */

@@ -26,19 +26,17 @@
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
 
 import type { DriftStage, QuadrupoleStage, Scene } from '../scene/types.js';
-import { allocateBatch, Fate } from '../engine/batch.js';
-import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../engine/context.js';
+import { allocateBatch, Fate } from '../core/batch.js';
+import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../core/cursor.js';
 import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
-import { trackUniform } from '../engine/kernels/uniform.js';
+import { trackUniform } from '../stages/shared/uniform-kernel.js';
 import { ENVELOPE_MARGIN, fAt, fAtGrid, mat2, periodTable, powerApply, releaseSpectral, releaseTwiss, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
 import { batchRun, quietPeriods, type BatchCounts, type Run } from './batch-pass.js';
+import { hasRf, kindOf } from '../stages/registry.js';
+import { isOpenDrift, isQuadrupole } from '../stages/guards.js';
 
 
-const STAGE_KEYS: Record<string, ReadonlySet<string>> = {
-  quadrupole: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
-  drift: new Set(['type', 'length', 'aperture', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
-};
 const RF_KEYS = new Set(['amplitude', 'frequency', 'phase']);
 
 /**
@@ -50,13 +48,17 @@ export function nonLinearReason(scene: Scene): string | null {
   if (scene.gas) return 'buffer gas';
   if (scene.spaceCharge) return 'space charge';
   for (let i = 0; i < scene.stages.length; i++) {
-    const st = scene.stages[i] as unknown as Record<string, unknown>;
-    const keys = STAGE_KEYS[st.type as string];
-    if (!keys) return `stage ${i} is a ${String(st.type)} stage`;
+    const stage = scene.stages[i];
+    const kind = kindOf(stage);
+    // The kind says which resolved keys the fast path understands and whether its field is linear.
+    const keys = kind.fastPathKeys;
+    if (!keys || !kind.field(stage).linear) return `stage ${i} is a ${String(stage.type)} stage`;
+    const st = stage as unknown as Record<string, unknown>;
     if (st.gas) return `gas in stage ${i}`;
     for (const k of Object.keys(st)) if (!keys.has(k) && st[k] !== undefined) return `stage ${i} sets ${k}`;
-    if (st.type === 'quadrupole') {
-      const rf = st.rf as Record<string, unknown>;
+    const drive = kind.rf(stage);
+    if (drive !== undefined) {
+      const rf = drive as unknown as Record<string, unknown>;
       if (rf.ramp) return `RF ramp in stage ${i}`;
       for (const k of Object.keys(rf)) if (!RF_KEYS.has(k) && rf[k] !== undefined) return `stage ${i} rf sets ${k}`;
     }
@@ -186,12 +188,12 @@ export class LinearTracker {
     const s = opts.radiusScale ?? 1;
     this.r2 = s * s;
     this.offsets = populationOffsets(scene);
-    const looks = scene.stages.map((st) => st.type === 'quadrupole' || Number.isFinite((st as DriftStage).aperture));
+    const looks = scene.stages.map((st) => hasRf(st) || Number.isFinite((st as DriftStage).aperture));
     this.needAfter = looks.map((_, s) => looks.slice(s + 1).some(Boolean));
     this.needBefore = looks.map((_, s) => looks.slice(0, s).some(Boolean));
     // Stage s is followed only by drifts without aperture or gas (vz > 0 there stays > 0).
     this.openTail = scene.stages.map((_, s) => s < scene.stages.length - 1
-      && scene.stages.slice(s + 1).every((t) => t.type === 'drift' && !Number.isFinite(t.aperture) && !t.gas));
+      && scene.stages.slice(s + 1).every(isOpenDrift));
     this.ctx = { batch: this.b, maxTime: scene.run.maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null };
     // Read once: a sweep's scene objects are spread copies whose hidden classes vary, and a
     // load through one in the batch pass would deoptimize it.
@@ -251,7 +253,7 @@ export class LinearTracker {
       for (;;) {
         if (s < 0) { f = Fate.hit; break; }
         const st = scene.stages[s];
-        const code = st.type === 'quadrupole'
+        const code = isQuadrupole(st)
           ? this.quadrupole(s, pop, st, c)
           : trackUniform(st as DriftStage, c, this.ctx, scene.run.stepNoRf);
         if (code === Exit.hit) { f = Fate.hit; break; }
@@ -392,7 +394,7 @@ export class LinearTracker {
       const popEnd = this.offsets[pop + 1] - start;
       while (end < count && end < popEnd && st0.stage[start + end] === s0) end++;
       const st = s0 >= 0 ? stages[s0] : null;
-      if (st !== null && st.type === 'quadrupole' && (s0 === stages.length - 1 || this.openTail[s0])) {
+      if (st !== null && isQuadrupole(st) && (s0 === stages.length - 1 || this.openTail[s0])) {
         // The axis that grew at the last point first; the other table only when needed.
         const first = this.axisTable(s0, pop, st, mass[pop], charge[pop], growingHint);
         const run: Run = {

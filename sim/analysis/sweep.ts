@@ -15,8 +15,9 @@ import { parse as parseYaml } from 'yaml';
 import { parseScene } from '../scene/load.js';
 import { SceneError } from '../scene/schema.js';
 import type { QuadrupoleStage, Scene } from '../scene/types.js';
+import { entryMakesQuadrupole, isQuadrupole } from '../stages/guards.js';
 import { checkStartsInside, runScene, sceneForJson, sceneWarnings } from '../engine/run.js';
-import { Fate } from '../engine/batch.js';
+import { Fate } from '../core/batch.js';
 import { mzWindow } from '../mathieu/operating-point.js';
 import { TOOL_VERSION } from '../version.js';
 import { grid, parseVary, SweepError, MAX_POINTS, type SweepAxis } from './vary.js';
@@ -120,7 +121,7 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
     if (axes.length !== 1 || axes[0].key !== 'mz') throw new SweepError('--scan-lines needs exactly one --vary mz=A..B:N (the m/z range of each line)');
     const ratios = parseRatios(req.scanLines);
     const fileIndex = firstQuadrupoleInFile(req.sceneText);
-    const stage = base.stages.findIndex((s) => s.type === 'quadrupole');
+    const stage = base.stages.findIndex(isQuadrupole);
     if (fileIndex < 0 || stage < 0) throw new SweepError(`--scan-lines: ${req.sceneFile} has no quadrupole stage`);
     const rf = (base.stages[stage] as QuadrupoleStage).rf.amplitude;
     if (!(rf > 0)) throw new SweepError(`--scan-lines: stage ${fileIndex} has no RF amplitude`);
@@ -353,7 +354,7 @@ function scanSet(fileIndex: number, ratio: number, rf: number): string[] {
 function firstQuadrupoleInFile(text: string): number {
   try {
     const raw = parseYaml(text) as { stages?: { type?: string }[] };
-    return Array.isArray(raw?.stages) ? raw.stages.findIndex((s) => s?.type === 'quadrupole') : -1;
+    return Array.isArray(raw?.stages) ? raw.stages.findIndex((s) => entryMakesQuadrupole(s?.type)) : -1;
   } catch {
     return -1;
   }

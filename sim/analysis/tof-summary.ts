@@ -7,11 +7,12 @@
 import type { Scene } from '../scene/types.js';
 import { peakOf, fitMassCalibration } from './arrival.js';
 import { extractionFieldForFocus, spaceFocusDistance } from './wiley-mclaren.js';
-import { dcPotential, stageBasePotentials } from '../engine/potential.js';
+import { dcPotential, stageBasePotentials, stageFields } from '../engine/potential.js';
 import { stageAt } from '../engine/start.js';
+import { tofLayout } from '../stages/accelerate/tof-layout.js';
 
 export function isTimeOfFlight(scene: Scene): boolean {
-  return scene.stages.some((s) => s.type === 'accelerate') && !scene.stages.some((s) => s.type === 'quadrupole' || s.type === 'trap');
+  return tofLayout(scene.stages).timeOfFlight;
 }
 
 /**
@@ -27,7 +28,8 @@ function linearEquivalent(t: number[], ke: number[]): number[] {
 }
 
 export function tofSummary(scene: Scene, arrivals: number[][], driftKe: number[][]): Record<string, unknown> {
-  const reflecting = scene.stages.some((s) => s.type === 'accelerate' && s.role === 'reflectron');
+  const layout = tofLayout(scene.stages);
+  const reflecting = layout.reflectron !== undefined;
   const species = scene.ions.map((p, k) => {
     const pk = peakOf(arrivals[k] ?? []);
     const lin = reflecting ? peakOf(linearEquivalent(arrivals[k] ?? [], driftKe[k] ?? [])) : null;
@@ -48,14 +50,10 @@ export function tofSummary(scene: Scene, arrivals: number[][], driftKe: number[]
   const cal = fitMassCalibration(withPeaks.map((s) => s.mz), withPeaks.map((s) => s.arrival_time_s as number));
   const out: Record<string, unknown> = { species, calibration: cal ? { t0_s: cal.t0, k_s_per_sqrt_mz: cal.k } : null };
 
-  const st = scene.stages;
-  const ex = st.findIndex((s) => s.type === 'accelerate' && s.role === 'source-extraction');
-  if (ex >= 0 && st[ex + 1]?.type === 'accelerate') {
-    const e = st[ex] as Extract<typeof st[number], { type: 'accelerate' }>;
-    const a = st[ex + 1] as Extract<typeof st[number], { type: 'accelerate' }>;
+  if (layout.source) {
+    const { extraction: e, acceleration: a } = layout.source;
     // The field-free path to the detector: drift stages after the source up to a reflectron or the end.
-    let D = 0;
-    for (let k = ex + 2; k < st.length && st[k].type === 'drift'; k++) D += st[k].length;
+    const D = layout.source.driftAfter;
     const s0 = scene.ions[0].position.z - e.zStart;
     const Es = e.voltage / e.length, Ed = a.voltage / a.length;
     if (s0 > 0 && Es > 0) {
@@ -72,16 +70,14 @@ export function tofSummary(scene: Scene, arrivals: number[][], driftKe: number[]
       };
     }
   }
-  const ri = st.findIndex((s) => s.type === 'accelerate' && s.role === 'reflectron');
-  if (ri >= 0) {
-    const r = st[ri] as Extract<typeof st[number], { type: 'accelerate' }>;
+  if (layout.reflectron) {
+    const { index: ri, stage: r, driftBefore: drift } = layout.reflectron;
     // Energy per charge entering the reflectron: start potential minus the reflectron entrance's.
-    const base = stageBasePotentials(scene);
+    const fields = stageFields(scene);
+    const base = stageBasePotentials(scene, fields);
     const p0 = scene.ions[0];
     const s0 = stageAt(scene, p0.position.z);
-    const U = dcPotential(scene, base, s0, p0.position.x, p0.position.y, p0.position.z) - base[ri] + p0.energy / Math.abs(p0.charge);
-    let drift = 0;
-    for (let k = 0; k < ri; k++) if (st[k].type === 'drift') drift += st[k].length;
+    const U = dcPotential(fields, base, s0, p0.position.x, p0.position.y, p0.position.z) - base[ri] + p0.energy / Math.abs(p0.charge);
     const L = 2 * drift;
     const Vr = -r.voltage;
     const p = (U * r.length) / Vr;

@@ -6,6 +6,7 @@
 // ejection time gives the m/z scale of the spectrum.
 
 import type { Scene, TrapStage } from '../scene/types.js';
+import { isTrap } from '../stages/guards.js';
 import { floquet } from '../mathieu/floquet.js';
 import { brentRoot } from '../mathieu/root-find.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../units/constants.js';
@@ -13,7 +14,7 @@ import { peakOf } from './arrival.js';
 
 /** The ramped trap of a scene, if any. */
 export function scanTrap(scene: Scene): TrapStage | undefined {
-  return scene.stages.find((s): s is TrapStage => s.type === 'trap' && s.rf.ramp !== undefined);
+  return scene.stages.find((s): s is TrapStage => isTrap(s) && s.rf.ramp !== undefined);
 }
 
 /** a_z of a trap for an ion: −16eU/((m/z) u d² Ω²) (DESIGN.md). */

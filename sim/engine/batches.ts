@@ -2,6 +2,7 @@
 // so per-batch sums and the order of output rows are the same on any machine.
 
 import type { Scene } from '../scene/types.js';
+import { firstRf } from '../stages/registry.js';
 
 export interface BatchPlan {
   size: number;
@@ -15,8 +16,8 @@ export function planBatches(scene: Scene): BatchPlan {
   let size = Math.min(256, Math.max(8, Math.ceil(total / 32)));
   if (scene.run.recordEvery > 0) {
     // Keep one batch's recorded points to about 2 million (128 MB) so output streams.
-    const firstRf = scene.stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: { frequency: number } } | undefined;
-    const h = firstRf ? 1 / firstRf.rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
+    const rf = firstRf(scene.stages);
+    const h = rf ? 1 / rf.rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
     const perIon = scene.run.maxTime / h / scene.run.recordEvery + 2 * scene.stages.length + 2;
     size = Math.max(1, Math.min(256, Math.floor(2e6 / perIon)));
   }

@@ -1,35 +1,35 @@
 // Electrostatic potential of the scene at a point (DC parts only), for the energy-conservation
-// check: in a scene without RF or gas, ½mv² + qΦ must stay constant along each trajectory.
+// check: in a scene without RF or gas, ½mv² + qΦ must stay constant along each trajectory. Each
+// stage's field model (sim/stages/<kind>/field.ts) gives its potential; this file chains them.
 
 import type { Scene } from '../scene/types.js';
+import type { FieldModel } from '../core/field-model.js';
+import { kindOf } from '../stages/registry.js';
 
-/** Potential of each stage's entrance relative to z = 0: accelerate stages lower what follows. */
-export function stageBasePotentials(scene: Scene): number[] {
+/** Each stage's field model, in stage order. */
+export function stageFields(scene: Scene): FieldModel[] {
+  return scene.stages.map((s) => kindOf(s).field(s));
+}
+
+/** Potential of each stage's entrance relative to z = 0: each stage's drop lowers what follows. */
+export function stageBasePotentials(scene: Scene, fields = stageFields(scene)): number[] {
   const base: number[] = [];
   let phi = 0;
-  for (const s of scene.stages) {
+  for (const f of fields) {
     base.push(phi);
-    if (s.type === 'accelerate') phi -= s.voltage;
+    phi += f.drop;
   }
   return base;
 }
 
 /** True when nothing in the scene varies in time or dissipates: no RF amplitude, no gas. */
-export function isElectrostatic(scene: Scene): boolean {
+export function isElectrostatic(scene: Scene, fields = stageFields(scene)): boolean {
   if (scene.gas) return false;
-  return scene.stages.every((s) => !s.gas && !((s.type === 'quadrupole' || s.type === 'trap') && (s.rf.amplitude !== 0 || s.rf.ramp || (s.type === 'trap' && s.aux && s.aux.amplitude !== 0))));
+  return scene.stages.every((s, i) => !s.gas && fields[i].steady);
 }
 
-export function dcPotential(scene: Scene, base: number[], stage: number, x: number, y: number, z: number): number {
-  const s = scene.stages[Math.max(0, Math.min(stage, scene.stages.length - 1))];
-  const b = base[Math.max(0, Math.min(stage, scene.stages.length - 1))];
-  switch (s.type) {
-    case 'quadrupole': return b + (s.dc * (x * x - y * y)) / (s.r0 * s.r0);
-    case 'trap': {
-      const zr = z - 0.5 * (s.zStart + s.zEnd);
-      return b + (s.dc * (x * x + y * y - 2 * zr * zr)) / (s.r0 * s.r0 + 2 * s.z0 * s.z0);
-    }
-    case 'accelerate': return b - (s.voltage * Math.min(Math.max(z - s.zStart, 0), s.length)) / s.length;
-    case 'drift': return b;
-  }
+export function dcPotential(fields: readonly FieldModel[], base: number[], stage: number, x: number, y: number, z: number): number {
+  const k = Math.max(0, Math.min(stage, fields.length - 1));
+  const f = fields[k];
+  return base[k] + f.dcPotential(x, y, z - f.zRef);
 }

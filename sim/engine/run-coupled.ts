@@ -5,8 +5,10 @@
 // centroid (and their shift from the single-ion Mathieu value), ions lost.
 
 import type { Scene, TrapStage } from '../scene/types.js';
+import { isTrap } from '../stages/guards.js';
+import { kindOf } from '../stages/registry.js';
 import { SceneError } from '../scene/schema.js';
-import { allocateBatch, Fate } from './batch.js';
+import { allocateBatch, Fate } from '../core/batch.js';
 import { populationOffsets, startIon } from './start.js';
 import { ensembleFromBatch, markLosses } from '../spacecharge/ensemble-step.js';
 import { trapCloudFigures } from '../spacecharge/trap-cloud.js';
@@ -23,10 +25,10 @@ export interface CoupledResult {
 }
 
 export function checkCoupledScene(scene: Scene): TrapStage {
-  if (scene.stages.length !== 1 || scene.stages[0].type !== 'trap') {
+  const st = scene.stages[0];
+  if (scene.stages.length !== 1 || !isTrap(st)) {
     throw new SceneError('space_charge: supported for a scene of a single trap stage in this version');
   }
-  const st = scene.stages[0];
   if (st.rf.ramp || st.aux) throw new SceneError('space_charge: a ramped RF or a supplementary AC is not supported with space charge yet');
   if (scene.gas || st.gas) throw new SceneError('space_charge: buffer gas together with space charge is not supported yet');
   if (scene.run.stepsPerCycle < 20) throw new SceneError(`run.steps_per_cycle: space-charge runs need at least 20, got ${scene.run.stepsPerCycle}`);
@@ -63,7 +65,7 @@ export async function runCoupled(scene: Scene, workers: number): Promise<Coupled
   let fig;
   try {
     fig = trapCloudFigures(e, {
-      r0: st.r0, z0: st.z0, dcVolts: st.dc, rfVolts: st.rf.amplitude, rfHz: st.rf.frequency,
+      field: kindOf(st).field(st), rfHz: st.rf.frequency,
       duration: scene.run.maxTime, stepsPerCycle: scene.run.stepsPerCycle,
       spaceCharge: { method: sc.method, weight: sc.weight, softening: sc.softening, theta: sc.theta, solver },
       bandZ: [0.3 * fz, 1.3 * fz], bandR: [0.1 * fr, 1.3 * fr],

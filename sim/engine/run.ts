@@ -9,11 +9,12 @@ import type { RunSummary, SpeciesSummary } from '../runfolder/summary.js';
 import { TOOL_VERSION } from '../version.js';
 import { planBatches } from './batches.js';
 import { runBatches } from './pool.js';
-import { Fate } from './batch.js';
+import { Fate } from '../core/batch.js';
 import { EnsembleHistory } from './history.js';
 import type { BatchResult } from './track.js';
 import { isElectrostatic } from './potential.js';
 import { stageAt } from './start.js';
+import { hasRf } from '../stages/registry.js';
 import { fitCooling } from '../analysis/cooling.js';
 import { isTimeOfFlight, tofSummary } from '../analysis/tof-summary.js';
 import { scanSummary, scanTrap } from '../analysis/trap-scan.js';
@@ -36,8 +37,8 @@ export interface RunOptions {
 /** Checks that need the resolved scene as a whole; warnings go to stderr and summary.json. */
 export function sceneWarnings(scene: Scene): string[] {
   const w: string[] = [];
-  const hasRf = scene.stages.some((s) => s.type === 'quadrupole' || s.type === 'trap');
-  if (hasRf && scene.run.integrator === 'rk4' && scene.run.stepsPerCycle < 20) {
+  const withRf = scene.stages.some(hasRf);
+  if (withRf && scene.run.integrator === 'rk4' && scene.run.stepsPerCycle < 20) {
     w.push(`run.steps_per_cycle = ${scene.run.stepsPerCycle} is below 20: RK4 phase error grows; results may be inaccurate`);
   }
   if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');

@@ -4,7 +4,8 @@
 import { RandomStream, Purpose } from '../random/counter.js';
 import { ionMassKg, ELEMENTARY_CHARGE, ELECTRONVOLT } from '../units/constants.js';
 import type { Population, Scene } from '../scene/types.js';
-import { Fate, type IonBatch } from './batch.js';
+import { Fate, type IonBatch } from '../core/batch.js';
+import { firstRf } from '../stages/registry.js';
 
 /** Which population each global ion index belongs to: cumulative counts. */
 export function populationOffsets(scene: Scene): number[] {
@@ -23,8 +24,8 @@ export function stageAt(scene: Scene, z: number): number {
 
 /** RF reference angular frequency: the first RF stage's; ion start phases are times on its clock. */
 export function referenceOmega(scene: Scene): number {
-  for (const s of scene.stages) if (s.type === 'quadrupole' || s.type === 'trap') return 2 * Math.PI * s.rf.frequency;
-  return 0;
+  const rf = firstRf(scene.stages);
+  return rf ? 2 * Math.PI * rf.rf.frequency : 0;
 }
 
 /**

@@ -2,17 +2,14 @@
 // in the main thread (--workers 1) and in worker threads, so results do not depend on where.
 
 import type { Scene } from '../scene/types.js';
-import { allocateBatch, Fate } from './batch.js';
-import { Exit, type IonCursor, type StepContext } from './context.js';
+import { allocateBatch, Fate } from '../core/batch.js';
+import { Exit, type IonCursor, type StepContext } from '../core/cursor.js';
 import type { GasFactory } from './gas-hooks.js';
 import { TrajectoryRecorder } from './recorder.js';
 import { EnsembleHistory } from './history.js';
 import { populationOffsets, startIon } from './start.js';
-import { trackQuadrupole } from './kernels/quadrupole.js';
-import { trackTrap } from './kernels/trap.js';
-import { trackUniform } from './kernels/uniform.js';
-import { trackAdaptive } from './kernels/adaptive.js';
-import { dcPotential, isElectrostatic, stageBasePotentials } from './potential.js';
+import { kindOf } from '../stages/registry.js';
+import { dcPotential, isElectrostatic, stageBasePotentials, stageFields } from './potential.js';
 import { ELECTRONVOLT } from '../units/constants.js';
 
 export interface BatchResult {
@@ -44,8 +41,11 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const hist = new EnsembleHistory(run.historyEvery, run.maxTime);
   const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null, gasField: null, hardSphere: null };
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
-  const electrostatic = isElectrostatic(scene);
-  const base = stageBasePotentials(scene);
+  // Each stage's kind, looked up once: the loop below asks it when an ion enters the stage.
+  const kinds = scene.stages.map(kindOf);
+  const fields = stageFields(scene);
+  const electrostatic = isElectrostatic(scene, fields);
+  const base = stageBasePotentials(scene, fields);
   const res = allocateResult(batchIndex, start, count);
   let energyError = 0;
   let steps = 0;
@@ -65,7 +65,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     res.x0[slot] = c.x; res.y0[slot] = c.y; res.z0[slot] = c.z;
     res.vx0[slot] = c.vx; res.vy0[slot] = c.vy; res.vz0[slot] = c.vz;
     let s = b.stage[slot];
-    const e0 = electrostatic ? 0.5 * c.m * (c.vx * c.vx + c.vy * c.vy + c.vz * c.vz) + c.q * dcPotential(scene, base, s, c.x, c.y, c.z) : 0;
+    const e0 = electrostatic ? 0.5 * c.m * (c.vx * c.vx + c.vy * c.vy + c.vz * c.vz) + c.q * dcPotential(fields, base, s, c.x, c.y, c.z) : 0;
     rec?.push(ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
     // Sample t = 0 before the first kernel runs.
     if (hist.points > 0) { hist.add(0, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz); c.nextHist = 1; }
@@ -77,24 +77,17 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       ctx.gas = gasSteps[s].step;
       ctx.gasField = gasSteps[s].field;
       ctx.hardSphere = gasSteps[s].hardSphere;
-      let code;
-      switch (st.type) {
-        case 'quadrupole':
-          code = run.integrator === 'dopri5' ? trackAdaptive(st, c, ctx, run.tolerance) : trackQuadrupole(st, c, ctx, run.stepsPerCycle);
-          break;
-        case 'trap':
-          code = run.integrator === 'dopri5' ? trackAdaptive(st, c, ctx, run.tolerance) : trackTrap(st, c, ctx, run.stepsPerCycle);
-          break;
-        default: code = trackUniform(st, c, ctx, run.stepNoRf); break;
-      }
+      const kind = kinds[s];
+      const code = kind.track(st, c, ctx, run);
       if (code === Exit.hit) { fate = Fate.hit; break; }
       if (code === Exit.time) { fate = Fate.alive; break; }
-      if (code === Exit.forward) {
-        if (st.type === 'accelerate' && st.closed) { fate = Fate.hit; break; }
+      const forward = code === Exit.forward;
+      const own = kind.exitFate(st, forward);
+      if (own !== undefined) { fate = own; break; }
+      if (forward) {
         if (s === scene.stages.length - 1) { fate = Fate.detected; break; }
         s++;
       } else {
-        if (st.type === 'drift' && st.detectReturning) { fate = Fate.detected; break; }
         // Back out through the entrance of the first stage: lost at the entrance aperture.
         if (s === 0) { fate = Fate.hit; break; }
         s--;
@@ -111,7 +104,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     res.end_stage[slot] = s;
     res.collisions[slot] = b.collisions[slot];
     if (electrostatic) {
-      const e1 = ke + c.q * dcPotential(scene, base, s, c.x, c.y, c.z);
+      const e1 = ke + c.q * dcPotential(fields, base, s, c.x, c.y, c.z);
       const ref = Math.max(Math.abs(e0), Math.abs(e1), ke);
       if (ref > 0) energyError = Math.max(energyError, Math.abs(e1 - e0) / ref);
     }

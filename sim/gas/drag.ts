@@ -16,7 +16,7 @@
 // In a non-uniform or RF field the engine alternates its field step with makeDragStep (operator
 // splitting; exact in the limits E → const or dt → 0).
 
-import type { IonBatch } from '../engine/batch.js';
+import type { IonBatch } from '../core/batch.js';
 import { BOLTZMANN } from '../units/constants.js';
 import { uniformAt } from '../random/counter.js';
 import { checkGasSpec, GasSpecError, type GasFieldStep, type GasSpec, type GasStep } from './model.js';

@@ -32,7 +32,7 @@
 //             else { store v; k.collide(b, i, h, s); s = k.depth; lim = k.limit2; rate = k.rate; reload v }
 //   k.leave(b, i, s);                                                  // before the ion leaves
 
-import type { IonBatch } from '../engine/batch.js';
+import type { IonBatch } from '../core/batch.js';
 import { BOLTZMANN } from '../units/constants.js';
 import { uniformAt } from '../random/counter.js';
 import { checkGasSpec, GasSpecError, type GasSpec, type GasStep } from './model.js';
@@ -46,24 +46,9 @@ const RAISE = 1.25;
 /** Per-ion state: optical depth, V̂², majorant rate ν̂, V̂. */
 const STRIDE = 4;
 
-/** Hard-sphere gas pieces for a stepping loop; `step` is the same physics as a plain GasStep. */
-export interface HardSphereKernel {
-  /** Ion i's state after enter/collide: remaining optical depth, bound V̂² (m²/s²), ν̂ (1/s). */
-  depth: number;
-  limit2: number;
-  rate: number;
-  /** Load ion i's state into depth/limit2/rate (drawn on first use of the slot). */
-  enter(batch: IonBatch, i: number): void;
-  /**
-   * The step of length dt that began with optical depth `depth`, when v² > limit2 or the depth
-   * runs out: raises the bound, runs the candidates, updates batch.vx/vy/vz, gasCounter and
-   * collisions of ion i, and leaves the new state in depth/limit2/rate.
-   */
-  collide(batch: IonBatch, i: number, dt: number, depth: number): void;
-  /** Store the depth carried in a local back into the per-ion scratch. */
-  leave(batch: IonBatch, i: number, depth: number): void;
-  step: GasStep;
-}
+/** The kernel pieces' contract lives with the other stepping types (sim/core/cursor.ts). */
+export type { HardSphereKernel } from '../core/cursor.js';
+import type { HardSphereKernel } from '../core/cursor.js';
 
 export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
   return makeHardSphereKernel(gas, seed).step;

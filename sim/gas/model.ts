@@ -1,7 +1,7 @@
 // The resolved buffer-gas description the engine hands to the gas kernels (SI throughout), and the
 // shape of the per-ion step they return.
 
-import type { IonBatch } from '../engine/batch.js';
+import type { IonBatch } from '../core/batch.js';
 
 export type GasModel = 'hard-sphere' | 'drag';
 

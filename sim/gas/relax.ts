@@ -4,7 +4,7 @@
 // half-steps are the exact ballistic update of a uniform field. The drag model in a field uses its
 // exact OU-with-force step instead.
 
-import { allocateBatch, type IonBatch } from '../engine/batch.js';
+import { allocateBatch, type IonBatch } from '../core/batch.js';
 import { RandomStream, Purpose } from '../random/counter.js';
 import { BOLTZMANN } from '../units/constants.js';
 import { makeDragFieldStep } from './drag.js';

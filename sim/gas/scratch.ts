@@ -3,7 +3,7 @@
 // its remaining optical depth, speed bound and majorant rate there). Keyed by the batch object; a slot is valid while it holds the same global ion index, so a
 // batch refilled with other ions re-initialises those slots instead of inheriting state.
 
-import type { IonBatch } from '../engine/batch.js';
+import type { IonBatch } from '../core/batch.js';
 import { Purpose, streamKey } from '../random/counter.js';
 
 export interface GasScratch {

@@ -4,6 +4,7 @@
 
 import type { Scene } from '../scene/types.js';
 import type { SceneTraits } from './scene-kind.js';
+import { STAGE_KINDS } from '../stages/registry.js';
 
 export const SAFETY_CAUTIONS: readonly string[] = [
   'Simulated operating points are a starting point: verify every one on the bench before relying on it.',
@@ -13,16 +14,14 @@ export const SAFETY_CAUTIONS: readonly string[] = [
 
 export function assumptions(scene: Scene, t: SceneTraits): string[] {
   const out: string[] = [];
+  // Each kind's own field assumptions, RF kinds first, in registry order (sim/stages/registry.ts).
+  const present = STAGE_KINDS.filter((k) => scene.stages.some((s) => s.type === k.type));
   if (t.rf) {
     out.push('Ideal quadrupolar fields: exact hyperbolic electrodes of infinite extent; no rod-shape (round-rod) higher multipoles, no machining or alignment errors.');
-    if (scene.stages.some((s) => s.type === 'quadrupole')) out.push('No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.');
-    if (scene.stages.some((s) => s.type === 'trap')) out.push('No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.');
+    for (const k of present) if (k.hasRf) out.push(...k.assumptions);
     out.push('RF is a pure cosine at one frequency; no supply ripple, amplitude noise or detuning.');
   }
-  if (scene.stages.some((s) => s.type === 'accelerate')) {
-    out.push('Acceleration, source and reflectron regions are uniform fields between ideal, fully transparent grids: no grid scattering, no field penetration through the meshes.');
-  }
-  if (scene.stages.some((s) => s.type === 'drift')) out.push('Drift regions are field-free, with a hard aperture where one is given.');
+  for (const k of present) if (!k.hasRf) out.push(...k.assumptions);
   out.push(t.spaceCharge
     ? `Space charge modelled by a ${scene.spaceCharge!.method} Coulomb sum over macro-ions (weight ${scene.spaceCharge!.weight} charges each); image charges in the electrodes are not included.`
     : 'No space charge: ions move independently; results hold for small ion numbers only.');

@@ -4,7 +4,10 @@
 // an RF ramp gets a row at the start and one at the end of the ramp: the window moves with V.
 
 import { analyzeOperatingPoint, type OperatingPointReport } from '../mathieu/operating-point.js';
-import type { Scene, QuadrupoleStage, TrapStage } from '../scene/types.js';
+import type { Scene } from '../scene/types.js';
+import type { Analyzer } from '../mathieu/parameters.js';
+import type { StageKind } from '../stages/kind.js';
+import { kindOf, rfOf } from '../stages/registry.js';
 
 export interface OperatingPointAxis {
   axis: string;
@@ -22,7 +25,7 @@ export interface OperatingPointAxis {
 
 export interface OperatingPointRow {
   stage: number;
-  analyzer: 'quadrupole' | 'trap';
+  analyzer: Analyzer;
   /** 'fixed' for a constant RF amplitude; 'ramp start' / 'ramp end' for a ramped one. */
   at: 'fixed' | 'ramp start' | 'ramp end';
   population: number;
@@ -41,18 +44,13 @@ export interface OperatingPointRow {
   q_eject: number | null;
 }
 
-function rfStage(s: Scene['stages'][number]): s is QuadrupoleStage | TrapStage {
-  return s.type === 'quadrupole' || s.type === 'trap';
-}
+type Geometry = NonNullable<ReturnType<NonNullable<StageKind['operatingPoint']>>>;
 
-function row(stage: number, st: QuadrupoleStage | TrapStage, at: OperatingPointRow['at'], rf: number, pop: number, mz: number, charge: number): OperatingPointRow {
-  const r: OperatingPointReport = analyzeOperatingPoint({
-    analyzer: st.type, r0: st.r0, z0: st.type === 'trap' ? st.z0 : undefined,
-    freq: st.rf.frequency, rf, dc: st.dc, mz, charge,
-  });
+function row(stage: number, g: Geometry, at: OperatingPointRow['at'], rf: number, pop: number, mz: number, charge: number): OperatingPointRow {
+  const r: OperatingPointReport = analyzeOperatingPoint({ ...g, rf, mz, charge });
   return {
-    stage, analyzer: st.type, at, population: pop, mz, charge,
-    rf_v: rf, dc_v: st.dc, freq_hz: st.rf.frequency,
+    stage, analyzer: g.analyzer, at, population: pop, mz, charge,
+    rf_v: rf, dc_v: g.dc, freq_hz: g.freq,
     stable: r.stable, first_region: r.firstRegion,
     axes: r.axes.map((x) => ({
       axis: x.axis, a: x.a, q: x.q, stable: x.stable, beta: x.beta,
@@ -69,15 +67,17 @@ function row(stage: number, st: QuadrupoleStage | TrapStage, at: OperatingPointR
 export function operatingPointRows(scene: Scene): OperatingPointRow[] {
   const rows: OperatingPointRow[] = [];
   scene.stages.forEach((st, index) => {
-    if (!rfStage(st)) return;
+    const g = kindOf(st).operatingPoint?.(st);
+    const drive = rfOf(st);
+    if (g === undefined || drive === undefined) return;
     const stage = index; // index into the resolved stages, as `iontrail plot --kind stability --stage`
     scene.ions.forEach((p, k) => {
       // A ramp of zero length is no ramp; RF 0 V has no Mathieu point worth a row.
-      if (st.rf.ramp && st.rf.ramp.to !== st.rf.amplitude) {
-        if (st.rf.amplitude > 0) rows.push(row(stage, st, 'ramp start', st.rf.amplitude, k, p.mz, p.charge));
-        rows.push(row(stage, st, 'ramp end', st.rf.ramp.to, k, p.mz, p.charge));
-      } else if (st.rf.amplitude > 0) {
-        rows.push(row(stage, st, 'fixed', st.rf.amplitude, k, p.mz, p.charge));
+      if (drive.ramp && drive.ramp.to !== drive.amplitude) {
+        if (drive.amplitude > 0) rows.push(row(stage, g, 'ramp start', drive.amplitude, k, p.mz, p.charge));
+        rows.push(row(stage, g, 'ramp end', drive.ramp.to, k, p.mz, p.charge));
+      } else if (drive.amplitude > 0) {
+        rows.push(row(stage, g, 'fixed', drive.amplitude, k, p.mz, p.charge));
       }
     });
   });

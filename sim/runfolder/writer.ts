@@ -6,7 +6,7 @@
 import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, join, resolve } from 'node:path';
-import { FATE_NAMES } from '../engine/batch.js';
+import { FATE_NAMES } from '../core/batch.js';
 import { ArrowFileStream } from './arrowFile.js';
 import { CsvFileStream } from './csv.js';
 import {

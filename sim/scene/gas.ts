@@ -2,7 +2,7 @@
 
 import type { Document, Node } from 'yaml';
 import { fail, type Origin } from './schema.js';
-import type { GasSettings } from './types.js';
+import type { GasSettings } from '../gas/settings.js';
 import { findGasSpecies, GAS_SPECIES_NAMES } from '../gas/species-lookup.js';
 
 export function resolveGas(g: Record<string, any>, path: (string | number)[], doc: Document, origin: Origin): GasSettings {

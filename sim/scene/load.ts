@@ -4,79 +4,16 @@
 import { readFileSync } from 'node:fs';
 import { LineCounter, parseDocument, parse as parseYaml, isMap, isSeq, type Document, type Node } from 'yaml';
 import { validate, fail, yamlDocumentErrors, SceneError, type Field, type Origin } from './schema.js';
-import type { Scene, Stage, Population, RunSettings, GasSettings, RfDrive } from './types.js';
+import type { Scene, Stage, Population, RunSettings, GasSettings } from './types.js';
+import { GAS_FIELD } from './fields.js';
+import { STAGE_ENTRIES, firstRf as firstRfOf } from '../stages/registry.js';
 import { resolveGas } from './gas.js';
 
-const rf: Field = {
-  kind: 'object',
-  fields: {
-    amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true },
-    frequency: { kind: 'quantity', dim: 'frequency', positive: true },
-    phase: { kind: 'quantity', dim: 'angle' },
-    ramp: {
-      kind: 'object',
-      fields: { to: { kind: 'quantity', dim: 'voltage', nonNegative: true }, over: { kind: 'quantity', dim: 'time', positive: true } },
-      required: ['to', 'over'],
-    },
-  },
-  required: ['amplitude', 'frequency'],
-};
-
-const gas: Field = {
-  kind: 'object',
-  fields: {
-    species: { kind: 'string' },
-    mass: { kind: 'quantity', dim: 'mass', positive: true },
-    polarizability: { kind: 'quantity', dim: 'volume', nonNegative: true },
-    pressure: { kind: 'quantity', dim: 'pressure', positive: true },
-    temperature: { kind: 'quantity', dim: 'temperature', positive: true },
-    model: { kind: 'enum', values: ['hard-sphere', 'drag'] },
-    cross_section: { kind: 'quantity', dim: 'area', positive: true },
-    reduced_mobility: { kind: 'quantity', dim: 'mobility', positive: true },
-  },
-  required: ['pressure', 'temperature', 'model'],
-};
-
-const length = { kind: 'quantity', dim: 'length', positive: true } as const;
-const aperture = { kind: 'quantity', dim: 'length', positive: true } as const;
-
+// Stage entries come from the stage kinds (sim/stages): their keys, units and resolution.
 const stage: Field = {
   kind: 'tagged',
   tag: 'type',
-  variants: {
-    quadrupole: {
-      fields: { length, r0: length, rf, dc: { kind: 'quantity', dim: 'voltage' }, gas },
-      required: ['length', 'r0', 'rf'],
-    },
-    drift: { fields: { length, aperture, gas, detect_returning: { kind: 'enum', values: ['true', 'false'] } }, required: ['length'] },
-    reflectron: {
-      fields: { length, voltage: { kind: 'quantity', dim: 'voltage', positive: true }, aperture, gas },
-      required: ['length', 'voltage'],
-    },
-    source: {
-      fields: {
-        extraction: { kind: 'object', fields: { length, voltage: { kind: 'quantity', dim: 'voltage' } }, required: ['length', 'voltage'] },
-        acceleration: { kind: 'object', fields: { length, voltage: { kind: 'quantity', dim: 'voltage' } }, required: ['length', 'voltage'] },
-        aperture, gas,
-      },
-      required: ['extraction', 'acceleration'],
-    },
-    accelerate: {
-      fields: { length, voltage: { kind: 'quantity', dim: 'voltage' }, aperture, gas },
-      required: ['length', 'voltage'],
-    },
-    trap: {
-      fields: {
-        r0: length, z0: length, length, rf, dc: { kind: 'quantity', dim: 'voltage' }, aperture, gas,
-        aux: {
-          kind: 'object',
-          fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
-          required: ['amplitude', 'frequency'],
-        },
-      },
-      required: ['r0', 'rf'],
-    },
-  },
+  variants: Object.fromEntries([...STAGE_ENTRIES].map(([name, { entry }]) => [name, { fields: entry.fields, required: entry.required }])),
 };
 
 const population: Field = {
@@ -123,7 +60,7 @@ export const SCENE_SCHEMA: Field = {
     stages: { kind: 'list', item: stage, minItems: 1 },
     ions: { kind: 'list', item: population, minItems: 1 },
     run,
-    gas,
+    gas: GAS_FIELD,
     space_charge: {
       kind: 'object',
       fields: {
@@ -195,58 +132,24 @@ export function parseScene(text: string, file: string, opts: LoadOptions = {}): 
   return resolve(raw, doc, origin, opts);
 }
 
-function resolveRf(r: Record<string, any>): RfDrive {
-  const out: RfDrive = { amplitude: r.amplitude, frequency: r.frequency, phase: r.phase ?? 0 };
-  if (r.ramp) out.ramp = { to: r.ramp.to, over: r.ramp.over };
-  return out;
-}
-
 function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: LoadOptions): Scene {
   const stages: Stage[] = [];
   let z = 0;
   raw.stages.forEach((s: Record<string, any>, i: number) => {
     const node = doc.getIn(['stages', i], true) as Node;
     const stageGas: GasSettings | undefined = s.gas ? resolveGas(s.gas, ['stages', i, 'gas'], doc, origin) : undefined;
-    let st: Stage;
-    switch (s.type) {
-      case 'quadrupole':
-        st = { type: 'quadrupole', length: s.length, r0: s.r0, rf: resolveRf(s.rf), dc: s.dc ?? 0, zStart: z, zEnd: z + s.length };
-        break;
-      case 'drift':
-        st = { type: 'drift', length: s.length, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
-        if (s.detect_returning === 'true') st.detectReturning = true;
-        break;
-      case 'reflectron':
-        // Retarding field: the potential rises by `voltage` towards the closed back plate.
-        st = { type: 'accelerate', role: 'reflectron', closed: true, length: s.length, voltage: -s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
-        break;
-      case 'source': {
-        // Two uniform-field regions (Wiley & McLaren 1955): extraction, then acceleration.
-        const ex: Stage = { type: 'accelerate', role: 'source-extraction', length: s.extraction.length, voltage: s.extraction.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.extraction.length, sceneIndex: i };
-        if (stageGas) ex.gas = stageGas;
-        stages.push(ex);
-        z = ex.zEnd;
-        st = { type: 'accelerate', role: 'source-acceleration', length: s.acceleration.length, voltage: s.acceleration.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.acceleration.length };
-        break;
-      }
-      case 'accelerate':
-        st = { type: 'accelerate', role: 'gap', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: z, zEnd: z + s.length };
-        break;
-      case 'trap': {
-        const z0 = s.z0 ?? s.r0 / Math.SQRT2;
-        const len = s.length ?? 2 * z0;
-        if (len < 2 * z0) fail(origin, node, ['stages', i, 'length'], `must be at least 2·z0 = ${(2 * z0 * 1e3).toPrecision(4)} mm (a length such as 10 mm)`);
-        st = { type: 'trap', r0: s.r0, z0, length: len, rf: resolveRf(s.rf), dc: s.dc ?? 0, aperture: s.aperture ?? Math.min(1e-3, s.r0 / 4), zStart: z, zEnd: z + len };
-        if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
-        break;
-      }
-      default:
-        throw new SceneError(`${origin.file}: stages.${i}.type: unknown stage type`);
+    const found = STAGE_ENTRIES.get(s.type);
+    if (!found) throw new SceneError(`${origin.file}: stages.${i}.type: unknown stage type`);
+    const made = found.entry.resolve(s, {
+      z, index: i, gas: stageGas,
+      fail: (key, msg) => fail(origin, node, ['stages', i, key], msg),
+    });
+    for (const st of made) {
+      if (stageGas) st.gas = stageGas;
+      st.sceneIndex = i;
+      stages.push(st);
+      z = st.zEnd;
     }
-    if (stageGas) st.gas = stageGas;
-    st.sceneIndex = i;
-    stages.push(st);
-    z = st.zEnd;
   });
 
   const ions: Population[] = raw.ions.map((p: Record<string, any>, i: number): Population => {
@@ -264,7 +167,7 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
   if (total > 100_000_000) throw new SceneError(`${origin.file}: ions: ${total} ions in all; at most 100000000 per run`);
 
   const r = raw.run ?? {};
-  const firstRf = stages.find((s) => s.type === 'quadrupole' || s.type === 'trap') as { rf: RfDrive } | undefined;
+  const firstRf = firstRfOf(stages);
   const spc = r.steps_per_cycle ?? 40;
   const rfStep = firstRf ? 1 / firstRf.rf.frequency / spc : undefined;
   const maxTime = r.max_time ?? 1e-3;

@@ -10,6 +10,7 @@
 
 import { directField, type ChargeCloud, type FieldOut } from './direct.js';
 import { CoulombTree } from './tree.js';
+import type { FieldModel } from '../core/field-model.js';
 
 /** Ensemble state, SI, struct of arrays. `alive` = 0 marks an ion removed (hit an electrode). */
 export interface Ensemble {
@@ -60,8 +61,11 @@ export function treeSolver(theta = 0.5): FieldSolver {
 export type ExternalField =
   | { kind: 'none'; lossRadius?: number }
   | {
-      /** Ideal 3D RF trap, DESIGN.md: Φ = (U + V cos(Ωt + φ)) (r² − 2z²)/(r0² + 2z0²), end caps grounded. */
-      kind: 'rf-trap'; r0: number; z0: number; dcVolts: number; rfVolts: number; omega: number; phase?: number;
+      /**
+       * A stage's field model (sim/stages/<kind>/field.ts), positions measured from its reference
+       * point; an ion the model puts on or past an electrode is removed.
+       */
+      kind: 'field'; model: FieldModel;
     }
   | {
       /** Adds the external acceleration, m/s², of every ion at time t into ax, ay, az. */
@@ -140,14 +144,8 @@ export class EnsembleStepper {
       ax.fill(0); ay.fill(0); az.fill(0);
     }
     const ext = this.ext;
-    if (ext.kind === 'rf-trap') {
-      // E = −∇Φ = −(U + V cos(Ωt+φ))/(r0² + 2z0²) · (2x, 2y, −4z)
-      const g = -(ext.dcVolts + ext.rfVolts * Math.cos(ext.omega * t + (ext.phase ?? 0))) / (ext.r0 * ext.r0 + 2 * ext.z0 * ext.z0);
-      const { x, y, z } = e;
-      for (let i = 0; i < n; i++) {
-        const k = qm[i] * g;
-        ax[i] += 2 * k * x[i]; ay[i] += 2 * k * y[i]; az[i] -= 4 * k * z[i];
-      }
+    if (ext.kind === 'field') {
+      ext.model.addAcceleration(t, n, e.x, e.y, e.z, qm, ax, ay, az);
     } else if (ext.kind === 'callback') {
       ext.addAccel(t, e, ax, ay, az);
     }
@@ -160,10 +158,8 @@ export class EnsembleStepper {
     for (let i = 0; i < e.n; i++) {
       if (!e.alive[i]) continue;
       let out = false;
-      if (ext.kind === 'rf-trap') {
-        // Ring surface r² − 2z² = r0², end caps 2z² − r² = 2z0² (DESIGN.md trap geometry).
-        const r2 = e.x[i] * e.x[i] + e.y[i] * e.y[i], z2 = 2 * e.z[i] * e.z[i];
-        out = r2 - z2 >= ext.r0 * ext.r0 || z2 - r2 >= 2 * ext.z0 * ext.z0;
+      if (ext.kind === 'field') {
+        out = ext.model.outside(e.x[i], e.y[i], e.z[i]);
       } else if (ext.kind === 'none') {
         if (ext.lossRadius !== undefined) out = e.x[i] ** 2 + e.y[i] ** 2 + e.z[i] ** 2 >= ext.lossRadius ** 2;
       } else if (ext.lost) {

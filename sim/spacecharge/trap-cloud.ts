@@ -4,9 +4,11 @@
 
 import { runEnsemble, type Ensemble, type EnsembleHistory, type SpaceChargeSettings } from './ensemble-step.js';
 import { SecularSpectrum } from './spectrum.js';
+import type { FieldModel } from '../core/field-model.js';
 
 export interface TrapCloudOptions {
-  r0: number; z0: number; dcVolts: number; rfVolts: number; rfHz: number;
+  /** The trap's field model (sim/stages/trap/field.ts), centred on z = 0, and its RF frequency, Hz. */
+  field: FieldModel; rfHz: number;
   /** Run length, s, and steps per RF period (≥ 20; 40 recommended). */
   duration: number; stepsPerCycle: number;
   spaceCharge: SpaceChargeSettings | null;
@@ -35,7 +37,7 @@ export function trapCloudFigures(e: Ensemble, o: TrapCloudOptions): TrapCloudFig
   const history = runEnsemble(e, {
     tEnd: o.duration, h: 1 / (o.stepsPerCycle * o.rfHz), spaceCharge: o.spaceCharge,
     recordEvery: o.stepsPerCycle,
-    external: { kind: 'rf-trap', r0: o.r0, z0: o.z0, dcVolts: o.dcVolts, rfVolts: o.rfVolts, omega: 2 * Math.PI * o.rfHz },
+    external: { kind: 'field', model: o.field },
     onStep: (t, en) => { if (step++ % every === 0) { specZ.add(t, en); specR.add(t, en); } },
   });
   let sz = 0, sr = 0, k = 0;

@@ -14,7 +14,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { allocateBatch, type IonBatch } from '../../sim/engine/batch.js';
+import { allocateBatch, type IonBatch } from '../../sim/core/batch.js';
 import { findGasSpecies } from '../../sim/gas/species-lookup.js';
 import type { GasSpec, GasStep } from '../../sim/gas/model.js';
 import { makeGasStep } from '../../sim/gas/step.js';

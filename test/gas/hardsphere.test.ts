@@ -2,7 +2,7 @@
 // Ion m/z 100 (1+) in helium at 300 K, σ = 100 Å^2: demo-scale numbers chosen for speed, not data.
 
 import { describe, expect, it } from 'vitest';
-import { allocateBatch } from '../../sim/engine/batch.js';
+import { allocateBatch } from '../../sim/core/batch.js';
 import { BOLTZMANN, ELEMENTARY_CHARGE, ionMassKg, TORR } from '../../sim/units/constants.js';
 import { findGasSpecies } from '../../sim/gas/species-lookup.js';
 import { masonSchampMobility, numberDensity, reducedMass } from '../../sim/gas/mobility.js';

@@ -1,14 +1,15 @@
 // Ion loss on the electrodes of the ideal trap and the IonBatch adapter.
 import { describe, it, expect } from 'vitest';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../../sim/units/constants.js';
-import { allocateBatch, Fate } from '../../sim/engine/batch.js';
+import { allocateBatch, Fate } from '../../sim/core/batch.js';
 import { runEnsemble, ensembleFromBatch, markLosses } from '../../sim/spacecharge/ensemble-step.js';
 import { gaussianCloud } from './clouds.js';
+import { centredTrapField } from './trap-fields.js';
 
 const r0 = 5e-3, z0 = r0 / Math.SQRT2, fRF = 1e6, omega = 2 * Math.PI * fRF;
 const m = ionMassKg(200, 1), e = ELEMENTARY_CHARGE, D = r0 * r0 + 2 * z0 * z0;
 const volts = (qz: number) => (qz * m * D * omega * omega) / (8 * e); // DESIGN.md q_z
-const trap = (qz: number) => ({ kind: 'rf-trap' as const, r0, z0, dcVolts: 0, rfVolts: volts(qz), omega });
+const trap = (qz: number) => ({ kind: 'field' as const, model: centredTrapField(r0, z0, 0, volts(qz), fRF) });
 
 describe('losses in an ideal RF trap', () => {
   it('keeps every ion at q_z = 0.4 and loses every ion beyond the a = 0 edge (q_z = 1.0 > 0.908)', () => {

@@ -4,6 +4,7 @@ import { describe, it, expect } from 'vitest';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../../sim/units/constants.js';
 import { trapCloudFigures, type TrapCloudFigures } from '../../sim/spacecharge/trap-cloud.js';
 import { gaussianCloud } from './clouds.js';
+import { centredTrapField } from './trap-fields.js';
 
 /**
  * β of the Mathieu equation u'' + (a − 2q cos 2ξ) u = 0 from the continued fraction
@@ -36,7 +37,7 @@ describe('RF trap: secular frequency with space charge', () => {
   function figures(weight: number): TrapCloudFigures {
     if (!runs.has(weight)) {
       runs.set(weight, trapCloudFigures(gaussianCloud(nSim, 0.3e-3, 0.15e-3, m, e, 21), {
-        r0, z0, dcVolts: 0, rfVolts, rfHz: fRF, duration: T, stepsPerCycle: 40,
+        field: centredTrapField(r0, z0, 0, rfVolts, fRF), rfHz: fRF, duration: T, stepsPerCycle: 40,
         spaceCharge: weight > 0 ? { method: 'direct', weight } : null,
         bandZ: [0.5 * fz, 1.2 * fz], bandR: [0.5 * fr, 1.2 * fr],
       }));

@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
 import { trackBatch } from '../../sim/engine/track.js';
 import { gasFactory } from '../../sim/engine/gas-hooks.js';
-import { allocateBatch, Fate } from '../../sim/engine/batch.js';
+import { allocateBatch, Fate } from '../../sim/core/batch.js';
 import { startIon } from '../../sim/engine/start.js';
 import { LinearTracker, StartStates, nonLinearReason } from '../../sim/analysis/linear-path.js';
 import { sweepRunSettings } from '../../sim/analysis/direct-path.js';

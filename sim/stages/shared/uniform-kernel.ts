@@ -4,8 +4,9 @@
 // cancellation-free form of the roots (Press et al., Numerical Recipes, 3rd ed., eq. 5.6.4).
 // With gas in the stage the ion is stepped on a fixed step, exact flight between gas events.
 
-import type { AccelerateStage, DriftStage } from '../../scene/types.js';
-import { Exit, observe, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
+import type { AccelerateStage } from '../accelerate/stage.js';
+import type { DriftStage } from '../drift/stage.js';
+import { Exit, observe, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../../core/cursor.js';
 
 /** Smallest t > 0 with z + v t + a t²/2 = zb, or Infinity. */
 export function crossingTime(z: number, v: number, a: number, zb: number): number {

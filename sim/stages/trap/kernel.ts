@@ -9,10 +9,10 @@
 // the geometry factor of real hyperbolic caps; March & Todd 2005, ch. 3); its phase advances by a
 // rotation per half step, so no Math.cos runs per step.
 
-import type { TrapStage } from '../../scene/types.js';
-import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
-import { phaseTable } from '../phase-table.js';
-import type { HardSphereKernel } from '../../gas/hardsphere.js';
+import type { TrapStage } from './stage.js';
+import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext, type HardSphereKernel } from '../../core/cursor.js';
+import { phaseTable } from '../../core/phase-table.js';
+
 
 export function trackTrap(st: TrapStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
   const omega = 2 * Math.PI * st.rf.frequency;

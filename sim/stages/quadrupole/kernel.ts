@@ -12,9 +12,9 @@
 // gives cos, sin; the ion's phase ψ enters once), so a step costs 8 multiplications. vz is
 // constant, so the exit time is known and the last step is shortened to land on the stage end.
 
-import type { QuadrupoleStage } from '../../scene/types.js';
-import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../context.js';
-import { phaseTable } from '../phase-table.js';
+import type { QuadrupoleStage } from './stage.js';
+import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../../core/cursor.js';
+import { phaseTable } from '../../core/phase-table.js';
 
 let gTab = new Float64Array(0);
 let mTab = new Float64Array(0);

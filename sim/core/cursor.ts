@@ -1,9 +1,6 @@
 // What a stage kernel needs besides the ion: limits, recorders, the gas step of the stage.
 
 import type { IonBatch } from './batch.js';
-import type { TrajectoryRecorder } from './recorder.js';
-import type { EnsembleHistory } from './history.js';
-import type { HardSphereKernel } from '../gas/hardsphere.js';
 
 /** Advance ion `slot`'s velocity through gas over dt (see sim/gas); mutates the batch arrays. */
 export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
@@ -33,12 +30,43 @@ export interface IonCursor {
   nextHist: number;
 }
 
+/** Where recorded trajectory points go (sim/engine/recorder.ts). */
+export interface PointSink {
+  push(ion: number, t: number, x: number, y: number, z: number, vx: number, vy: number, vz: number): void;
+}
+
+/** The ensemble-history grid kernels sample (sim/engine/history.ts). */
+export interface HistorySink {
+  readonly points: number;
+  timeOf(k: number): number;
+  add(k: number, m: number, x: number, y: number, z: number, vx: number, vy: number, vz: number): void;
+}
+
+/** Hard-sphere gas pieces for a stepping loop; `step` is the same physics as a plain GasStep. */
+export interface HardSphereKernel {
+  /** Ion i's state after enter/collide: remaining optical depth, bound V̂² (m²/s²), ν̂ (1/s). */
+  depth: number;
+  limit2: number;
+  rate: number;
+  /** Load ion i's state into depth/limit2/rate (drawn on first use of the slot). */
+  enter(batch: IonBatch, i: number): void;
+  /**
+   * The step of length dt that began with optical depth `depth`, when v² > limit2 or the depth
+   * runs out: raises the bound, runs the candidates, updates batch.vx/vy/vz, gasCounter and
+   * collisions of ion i, and leaves the new state in depth/limit2/rate.
+   */
+  collide(batch: IonBatch, i: number, dt: number, depth: number): void;
+  /** Store the depth carried in a local back into the per-ion scratch. */
+  leave(batch: IonBatch, i: number, depth: number): void;
+  step: GasStep;
+}
+
 export interface StepContext {
   batch: IonBatch;
   maxTime: number;
   recordEvery: number;
-  rec: TrajectoryRecorder | null;
-  hist: EnsembleHistory | null;
+  rec: PointSink | null;
+  hist: HistorySink | null;
   /** Gas of the current stage (stage block, else scene block), or null in vacuum. */
   gas: GasStep | null;
   /** Drag model only: exact position-and-velocity step in a uniform field (uniform stages use it). */

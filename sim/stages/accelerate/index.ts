@@ -1,0 +1,52 @@
+// Stage kind `accelerate`: a uniform axial field between ideal grids. The scene file reaches it
+// through three entries: `accelerate` (a plain gap), `reflectron` (a retarding field with a closed
+// back plate) and `source` (the two-field Wiley–McLaren source: extraction, then acceleration).
+
+import { Fate } from '../../core/batch.js';
+import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, VOLTAGE_FIELD } from '../../scene/fields.js';
+import type { StageKind } from '../kind.js';
+import { lengthMm, volts } from '../shared/describe.js';
+import { uniformField } from '../shared/uniform-field.js';
+import { trackUniform } from '../shared/uniform-kernel.js';
+import type { AccelerateStage } from './stage.js';
+
+const region = { kind: 'object', fields: { length: LENGTH_FIELD, voltage: VOLTAGE_FIELD }, required: ['length', 'voltage'] } as const;
+
+export const accelerateKind: StageKind<AccelerateStage> = {
+  type: 'accelerate',
+  entries: {
+    reflectron: {
+      fields: { length: LENGTH_FIELD, voltage: { kind: 'quantity', dim: 'voltage', positive: true }, aperture: APERTURE_FIELD, gas: GAS_FIELD },
+      required: ['length', 'voltage'],
+      // Retarding field: the potential rises by `voltage` towards the closed back plate.
+      resolve: (s, at) => [{ type: 'accelerate', role: 'reflectron', closed: true, length: s.length, voltage: -s.voltage, aperture: s.aperture ?? Infinity, zStart: at.z, zEnd: at.z + s.length }],
+    },
+    source: {
+      fields: { extraction: region, acceleration: region, aperture: APERTURE_FIELD, gas: GAS_FIELD },
+      required: ['extraction', 'acceleration'],
+      resolve(s, at) {
+        // Two uniform-field regions (Wiley & McLaren 1955): extraction, then acceleration.
+        const z1 = at.z + s.extraction.length;
+        const ex: AccelerateStage = { type: 'accelerate', role: 'source-extraction', length: s.extraction.length, voltage: s.extraction.voltage, aperture: s.aperture ?? Infinity, zStart: at.z, zEnd: z1, sceneIndex: at.index };
+        const acc: AccelerateStage = { type: 'accelerate', role: 'source-acceleration', length: s.acceleration.length, voltage: s.acceleration.voltage, aperture: s.aperture ?? Infinity, zStart: z1, zEnd: z1 + s.acceleration.length };
+        return [ex, acc];
+      },
+    },
+    accelerate: {
+      fields: { length: LENGTH_FIELD, voltage: VOLTAGE_FIELD, aperture: APERTURE_FIELD, gas: GAS_FIELD },
+      required: ['length', 'voltage'],
+      resolve: (s, at) => [{ type: 'accelerate', role: 'gap', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: at.z, zEnd: at.z + s.length }],
+    },
+  },
+  hasRf: false,
+  rf: () => undefined,
+  field: (st) => uniformField(st.zStart, st.length, st.voltage, st.aperture),
+  track: (st, c, ctx, run) => trackUniform(st, c, ctx, run.stepNoRf),
+  // A reflectron's closed back plate: an ion that reaches it is lost.
+  exitFate: (st, forward) => (forward && st.closed ? Fate.hit : undefined),
+  uniformField: true,
+  gasPieces: false,
+  describe: (s) => `${s.role === 'reflectron' ? 'reflectron' : 'acceleration'} ${lengthMm(s)} mm${typeof s.voltage === 'number' ? `, ${volts(s.voltage)}` : ''}`,
+  outline: (s) => [{ shape: s.role === 'reflectron' ? 'ring-stack' : 'grid-gap' }],
+  assumptions: ['Acceleration, source and reflectron regions are uniform fields between ideal, fully transparent grids: no grid scattering, no field penetration through the meshes.'],
+};

@@ -1,0 +1,76 @@
+// What a kind of stage provides. Everything the loader, the engine, the fast path, the reports
+// and the renderer need to know about one type of stage is answered here, looked up once per
+// stage (when an ion enters it, or when a figure is drawn), never by switching on its name.
+
+import type { Field } from '../scene/schema.js';
+import type { FieldModel } from '../core/field-model.js';
+import type { ExitCode, IonCursor, StepContext } from '../core/cursor.js';
+import type { FateCode } from '../core/batch.js';
+import type { GasSettings } from '../gas/settings.js';
+import type { Analyzer, OperatingPoint } from '../mathieu/parameters.js';
+import type { RfDrive } from './base.js';
+import type { Stage } from './types.js';
+import type { OutlinePart } from './outline.js';
+
+/** What an entry's resolution gets besides its validated keys. */
+export interface ResolveContext {
+  /** Lab z of the entrance of the first stage this entry makes, m. */
+  z: number;
+  /** Index of the entry in the scene's `stages:` list. */
+  index: number;
+  /** The entry's own gas block, resolved. */
+  gas?: GasSettings;
+  /** Throws the loader's one-line error for key `key` of this entry. */
+  fail(key: string, message: string): never;
+}
+
+/** One `type:` value of the scene file: its keys (with units) and how it resolves to SI stages. */
+export interface StageEntry {
+  fields: Record<string, Field>;
+  required?: readonly string[];
+  /** The resolved stages (one, or more for an entry such as a two-field source), entrance first. */
+  resolve(raw: Record<string, any>, at: ResolveContext): Stage[];
+}
+
+/** Settings of the run a kernel reads. */
+export interface KernelSettings {
+  integrator: 'rk4' | 'dopri5';
+  stepsPerCycle: number;
+  tolerance: number;
+  stepNoRf: number;
+}
+
+export interface StageKind<S extends Stage = Stage> {
+  readonly type: S['type'];
+  /** Scene-file entries this kind reads (a kind may read several, e.g. reflectron and source). */
+  readonly entries: Readonly<Record<string, StageEntry>>;
+  /** Stages of this kind carry an RF drive (the kind's `rf` gives it per stage). */
+  readonly hasRf: boolean;
+  /** The RF drive of the stage, or undefined when it has none. */
+  rf(st: S): RfDrive | undefined;
+  field(st: S): FieldModel;
+  /** Move the ion from its entry to its exit (or loss, or max_time) through the stage. */
+  track(st: S, c: IonCursor, ctx: StepContext, run: KernelSettings): ExitCode;
+  /**
+   * What leaving through the exit (forward) or back through the entrance means before the
+   * engine's own rules (last stage: detected; first stage: returned): a fate, or undefined.
+   */
+  exitFate(st: S, forward: boolean): FateCode | undefined;
+  /** The field is uniform in the stage, so the drag gas model's exact step in a uniform field applies. */
+  readonly uniformField: boolean;
+  /** The kernel takes the hard-sphere gas as kernel pieces (locals), not as a plain step. */
+  readonly gasPieces: boolean;
+  /**
+   * Resolved keys the transfer-matrix fast path understands, or undefined when it never applies;
+   * a key outside the set (a feature added later) sends a scene to direct integration.
+   */
+  readonly fastPathKeys?: ReadonlySet<string>;
+  /** Mathieu geometry of an RF stage (sim/mathieu/parameters.ts), without the ion. */
+  operatingPoint?(st: S): Omit<OperatingPoint, 'mz' | 'charge'> & { analyzer: Analyzer };
+  /** One line for figure subtitles, e.g. "quadrupole 150 mm, r0 4.00 mm". */
+  describe(st: Readonly<Record<string, unknown>>): string;
+  /** Electrode outline for the renderer (scene data: stage-local SI lengths). */
+  outline(st: Readonly<Record<string, unknown>>): OutlinePart[];
+  /** The field-model assumptions a report lists for a scene with a stage of this kind. */
+  readonly assumptions: readonly string[];
+}

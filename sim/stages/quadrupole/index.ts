@@ -1,0 +1,35 @@
+// Stage kind `quadrupole`: the ideal hyperbolic mass filter (stage.ts, field.ts, kernel.ts).
+
+import { GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
+import type { StageKind } from '../kind.js';
+import { trackAdaptive } from '../shared/adaptive.js';
+import { adaptiveQuadrupole } from './adaptive.js';
+import { quadrupoleField } from './field.js';
+import { trackQuadrupole } from './kernel.js';
+import type { QuadrupoleStage } from './stage.js';
+import { lengthMm, mm2 } from '../shared/describe.js';
+
+export const quadrupoleKind: StageKind<QuadrupoleStage> = {
+  type: 'quadrupole',
+  entries: {
+    quadrupole: {
+      fields: { length: LENGTH_FIELD, r0: LENGTH_FIELD, rf: RF_FIELD, dc: VOLTAGE_FIELD, gas: GAS_FIELD },
+      required: ['length', 'r0', 'rf'],
+      resolve: (s, at) => [{ type: 'quadrupole', length: s.length, r0: s.r0, rf: resolveRf(s.rf), dc: s.dc ?? 0, zStart: at.z, zEnd: at.z + s.length }],
+    },
+  },
+  hasRf: true,
+  rf: (st) => st.rf,
+  field: quadrupoleField,
+  track: (st, c, ctx, run) => (run.integrator === 'dopri5'
+    ? trackAdaptive(adaptiveQuadrupole(st, c, ctx), c, ctx, run.tolerance)
+    : trackQuadrupole(st, c, ctx, run.stepsPerCycle)),
+  exitFate: () => undefined,
+  uniformField: false,
+  gasPieces: false,
+  fastPathKeys: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
+  operatingPoint: (st) => ({ analyzer: 'quadrupole', r0: st.r0, z0: undefined, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
+  describe: (s) => `quadrupole ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
+  outline: (s) => [{ shape: 'rod-set', reach: typeof s.r0 === 'number' ? 1.5 * s.r0 : undefined }],
+  assumptions: ['No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.'],
+};

@@ -1,0 +1,9 @@
+import type { RfDrive, StageBase } from '../base.js';
+
+/** Ideal hyperbolic quadrupole; rods at ±(dc + amplitude·cos(2π f t + phase)). */
+export interface QuadrupoleStage extends StageBase {
+  type: 'quadrupole';
+  r0: number;
+  rf: RfDrive;
+  dc: number;
+}

@@ -1,0 +1,49 @@
+// Stage kind `trap`: the ideal 3D RF (Paul) trap with end-cap holes, RF ramp and supplementary
+// dipolar AC (stage.ts, field.ts, kernel.ts, scan.ts).
+
+import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
+import type { StageKind } from '../kind.js';
+import { trackAdaptive } from '../shared/adaptive.js';
+import { mm2 } from '../shared/describe.js';
+import { adaptiveTrap } from './adaptive.js';
+import { trapField } from './field.js';
+import { trackTrap } from './kernel.js';
+import type { TrapStage } from './stage.js';
+
+export const trapKind: StageKind<TrapStage> = {
+  type: 'trap',
+  entries: {
+    trap: {
+      fields: {
+        r0: LENGTH_FIELD, z0: LENGTH_FIELD, length: LENGTH_FIELD, rf: RF_FIELD, dc: VOLTAGE_FIELD, aperture: APERTURE_FIELD, gas: GAS_FIELD,
+        aux: {
+          kind: 'object',
+          fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
+          required: ['amplitude', 'frequency'],
+        },
+      },
+      required: ['r0', 'rf'],
+      resolve(s, at) {
+        const z0 = s.z0 ?? s.r0 / Math.SQRT2;
+        const len = s.length ?? 2 * z0;
+        if (len < 2 * z0) at.fail('length', `must be at least 2·z0 = ${(2 * z0 * 1e3).toPrecision(4)} mm (a length such as 10 mm)`);
+        const st: TrapStage = { type: 'trap', r0: s.r0, z0, length: len, rf: resolveRf(s.rf), dc: s.dc ?? 0, aperture: s.aperture ?? Math.min(1e-3, s.r0 / 4), zStart: at.z, zEnd: at.z + len };
+        if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
+        return [st];
+      },
+    },
+  },
+  hasRf: true,
+  rf: (st) => st.rf,
+  field: trapField,
+  track: (st, c, ctx, run) => (run.integrator === 'dopri5'
+    ? trackAdaptive(adaptiveTrap(st, c, ctx), c, ctx, run.tolerance)
+    : trackTrap(st, c, ctx, run.stepsPerCycle)),
+  exitFate: () => undefined,
+  uniformField: false,
+  gasPieces: true,
+  operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
+  describe: (s) => `RF trap r0 ${mm2(s.r0)} mm, z0 ${mm2(s.z0)} mm`,
+  outline: (s) => [{ shape: 'hyperbolic-trap', reach: typeof s.r0 === 'number' ? s.r0 : undefined }],
+  assumptions: ['No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.'],
+};
