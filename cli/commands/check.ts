@@ -1,6 +1,7 @@
 // iontrail check: Mathieu stability and the design figures of one operating point (or several m/z)
 // of a quadrupole filter or an RF trap. Parsing and formatting only; the physics is sim/mathieu.
 
+import { STAGE_KINDS } from '../../sim/stages/registry.js';
 import { parseArgs, flag, requireFlag, closest } from '../args.js';
 import { UsageError } from '../errors.js';
 import { parseQuantity, formatSI } from '../../sim/units/quantity.js';
@@ -9,7 +10,8 @@ import type { Analyzer, OperatingPoint } from '../../sim/mathieu/parameters.js';
 
 export const describe = 'Mathieu a/q, stability, β, secular frequencies and m/z limits of an operating point';
 
-const ANALYZERS: readonly Analyzer[] = ['quadrupole', 'trap'];
+// The Mathieu geometries of the RF stage kinds (sim/stages/registry.ts), in registry order.
+const ANALYZERS: readonly Analyzer[] = STAGE_KINDS.flatMap((k) => (k.analyzer ? [k.analyzer] : []));
 
 function help(): string {
   return [

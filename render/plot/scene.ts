@@ -3,10 +3,13 @@
 // value gives undefined, never a throw.
 
 import type { RunSummary } from '../../sim/runfolder/index.js';
+import type { Analyzer } from '../../sim/mathieu/parameters.js';
+import { kindNamed } from '../../sim/stages/registry.js';
 
 export interface RfStage {
   index: number;
-  type: 'quadrupole' | 'trap';
+  /** Mathieu geometry of the stage (its kind's, sim/stages). */
+  analyzer: Analyzer;
   r0: number;
   z0?: number;
   amplitude: number;
@@ -28,13 +31,14 @@ export function sceneStages(summary: RunSummary): Record<string, unknown>[] {
 export function rfStages(summary: RunSummary): RfStage[] {
   const out: RfStage[] = [];
   sceneStages(summary).forEach((s, index) => {
-    if (s.type !== 'quadrupole' && s.type !== 'trap') return;
+    const analyzer = kindNamed(s.type)?.analyzer;
+    if (analyzer === undefined) return;
     const rf = (s.rf ?? {}) as Record<string, unknown>;
     const r0 = num(s.r0), amplitude = num(rf.amplitude), frequency = num(rf.frequency);
     if (r0 === undefined || amplitude === undefined || frequency === undefined) return;
     const ramp = (rf.ramp ?? {}) as Record<string, unknown>;
     const to = num(ramp.to), over = num(ramp.over);
-    out.push({ index, type: s.type, r0, z0: num(s.z0), amplitude, frequency, dc: num(s.dc) ?? 0, ...(to !== undefined && over !== undefined ? { ramp: { to, over } } : {}) });
+    out.push({ index, analyzer, r0, z0: num(s.z0), amplitude, frequency, dc: num(s.dc) ?? 0, ...(to !== undefined && over !== undefined ? { ramp: { to, over } } : {}) });
   });
   return out;
 }

@@ -94,7 +94,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
   for (const st of rf) {
     const id = rf.length > 1 ? `stability-stage${st.index}` : 'stability';
     await kindFig(id, `Stability diagram${rf.length > 1 ? `, stage ${st.index}` : ''}`,
-      `First stability region of the ${st.type === 'trap' ? 'trap (z and r stable)' : 'filter (x and y stable)'} with each species' (q, a) at the stage's RF and DC${st.type === 'trap' ? ' at t = 0' : ''}, and the scan line.`,
+      `First stability region of the ${st.analyzer === 'trap' ? 'trap (z and r stable)' : 'filter (x and y stable)'} with each species' (q, a) at the stage's RF and DC${st.analyzer === 'trap' ? ' at t = 0' : ''}, and the scan line.`,
       input.runDir, 'stability', 760, { stage: String(st.index) });
   }
 

@@ -9,6 +9,8 @@
 import * as THREE from 'three';
 import { ELECTRODE_COLORS, type Rgb } from './palette.js';
 import type { PlacedStage } from './runInput.js';
+import { kindNamed } from '../../sim/stages/registry.js';
+import type { OutlinePart } from '../../sim/stages/outline.js';
 
 export const MM = 1000;
 export type RodShape = 'hyperbolic' | 'cylindrical';
@@ -281,7 +283,7 @@ function tubeOutline(a: number, z0: number, z1: number, color: Rgb, name: string
 export function defaultTubeRadius(stages: readonly PlacedStage[]): number {
   let r = 0;
   for (const s of stages) {
-    if (s.r0) r = Math.max(r, s.r0 * MM * (s.type === 'trap' ? 1 : 1.5));
+    if (s.r0) for (const part of outlineOf(s)) if (part.reachR0) r = Math.max(r, s.r0 * MM * part.reachR0);
     if (s.aperture) r = Math.max(r, s.aperture * MM);
   }
   return r > 0 ? r : 5;
@@ -293,18 +295,30 @@ export function buildElectrodes(stages: readonly PlacedStage[], opts: ElectrodeO
   const tubeR = defaultTubeRadius(stages);
   stages.forEach((s, i) => {
     const z0 = s.zStart * MM, z1 = s.zEnd * MM;
-    if (s.type === 'quadrupole') root.add(quadrupole(s, opts));
-    else if (s.type === 'trap') root.add(trap(s, opts));
-    else if (s.type === 'drift') root.add(tubeOutline(s.aperture ? s.aperture * MM : tubeR, z0, z1, ELECTRODE_COLORS.outline, `drift tube ${i}`));
-    else if (s.role === 'reflectron') root.add(reflectron(s, s.aperture ? s.aperture * MM : tubeR, i));
-    else {
+    for (const part of outlineOf(s)) root.add(SHAPES[part.shape](s, opts, i, z0, z1, tubeR));
+  });
+  return root;
+}
+
+/** The stage's outline from its kind (sim/stages); a placed stage always has a known kind. */
+function outlineOf(s: PlacedStage): OutlinePart[] {
+  return kindNamed(s.type)?.outline(s as unknown as Record<string, unknown>) ?? [];
+}
+
+type ShapeBuilder = (s: PlacedStage, opts: ElectrodeOptions, i: number, z0: number, z1: number, tubeR: number) => THREE.Object3D;
+
+/** One builder per electrode shape of sim/stages/outline.ts. */
+const SHAPES: Record<OutlinePart['shape'], ShapeBuilder> = {
+  'rod-set': (s, opts) => quadrupole(s, opts),
+  'hyperbolic-trap': (s, opts) => trap(s, opts),
+  tube: (s, _o, i, z0, z1, tubeR) => tubeOutline(s.aperture ? s.aperture * MM : tubeR, z0, z1, ELECTRODE_COLORS.outline, `drift tube ${i}`),
+  'ring-stack': (s, _o, i, _z0, _z1, tubeR) => reflectron(s, s.aperture ? s.aperture * MM : tubeR, i),
+  'grid-gap': (s, _o, i, z0, z1, tubeR) => {
       const a = s.aperture ? s.aperture * MM : tubeR;
       const grp = new THREE.Group();
       grp.name = `acceleration region ${i}`;
       grp.add(gridLines(a, z0, ELECTRODE_COLORS.grid, `entrance grid ${i}`), gridLines(a, z1, ELECTRODE_COLORS.grid, `exit grid ${i}`));
       grp.add(tubeOutline(a, z0, z1, ELECTRODE_COLORS.grid, `acceleration outline ${i}`));
-      root.add(grp);
-    }
-  });
-  return root;
-}
+      return grp;
+  },
+};

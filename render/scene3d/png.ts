@@ -1,6 +1,8 @@
 // 3D figure as PNG, drawn entirely on the CPU: three.js builds the scene and the camera, our
 // rasteriser draws it (raster/), @napi-rs/canvas adds the labels and encodes the PNG.
 
+import { kindNamed } from '../../sim/stages/registry.js';
+import type { OutlinePart } from '../../sim/stages/outline.js';
 import * as THREE from 'three';
 import { makeCamera, cameraDirection, type CameraName } from './cameras.js';
 import { MM, type RodShape } from './electrodes.js';
@@ -38,20 +40,19 @@ const volts = (v: number) => (Math.abs(v) >= 1000 ? `${(v / 1000).toPrecision(3)
 
 function describeStages(run: RunView): string {
   return run.stages.map((s) => {
-    const L = ((s.zEnd - s.zStart) * MM).toFixed(1);
-    switch (s.type) {
-      case 'quadrupole': return `quadrupole ${L} mm, r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm`;
-      case 'trap': return `RF trap r0 ${((s.r0 ?? 0) * MM).toFixed(2)} mm, z0 ${((s.z0 ?? 0) * MM).toFixed(2)} mm`;
-      case 'drift': return `drift ${L} mm`;
-      case 'accelerate': return `${s.role === 'reflectron' ? 'reflectron' : 'acceleration'} ${L} mm${s.voltage !== undefined ? `, ${volts(s.voltage)}` : ''}`;
-    }
+    return kindNamed(s.type)?.describe(s as unknown as Record<string, unknown>) ?? String(s.type);
   }).join('  →  ');
+}
+
+/** Whether any stage of the run draws an electrode of this shape (sim/stages/outline.ts). */
+function hasShape(run: RunView, shape: OutlinePart['shape']): boolean {
+  return run.stages.some((s) => (kindNamed(s.type)?.outline(s as unknown as Record<string, unknown>) ?? []).some((p) => p.shape === shape));
 }
 
 function openingNote(run: RunView, opened: boolean, marked: boolean): string {
   const notes = marked ? ['dot: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
-  if (opened && run.stages.some((s) => s.type === 'quadrupole')) notes.push('rod nearest the viewer drawn as outline');
-  if (opened && run.stages.some((s) => s.type === 'trap')) notes.push('trap cut open toward the viewer');
+  if (opened && hasShape(run, 'rod-set')) notes.push('rod nearest the viewer drawn as outline');
+  if (opened && hasShape(run, 'hyperbolic-trap')) notes.push('trap cut open toward the viewer');
   return notes.join('; ');
 }
 
@@ -89,7 +90,7 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
   const nPoints = run.traj.t.length;
   const png = drawLabels(rgba, width, height, {
     title: run.sceneName,
-    subtitle: `${describeStages(run)}   ·   ${nTraj} ion${nTraj === 1 ? '' : 's'}, ${nPoints.toLocaleString('en-US')} points${run.every > 1 ? ` (every ${run.every}th${run.autoThinned ? ', thinned automatically' : ''})` : ''}   ·   camera ${opts.camera}${run.stages.some((s) => s.type === 'quadrupole') ? `, ${opts.rods} rods` : ''}`,
+    subtitle: `${describeStages(run)}   ·   ${nTraj} ion${nTraj === 1 ? '' : 's'}, ${nPoints.toLocaleString('en-US')} points${run.every > 1 ? ` (every ${run.every}th${run.autoThinned ? ', thinned automatically' : ''})` : ''}   ·   camera ${opts.camera}${hasShape(run, 'rod-set') ? `, ${opts.rods} rods` : ''}`,
     legend: built.legend,
     scaleBarText: `${built.scaleBarMm} mm${opts.camera === 'iso' ? ' (at bar depth)' : ''}`,
     scaleBarPx: [ax, ay, bx, by],

@@ -5,12 +5,12 @@
 import { join } from 'node:path';
 import { estimateTrajectoryRows, readRunFolder, trajectoryBatches, type RunSummary } from '../../sim/runfolder/index.js';
 import { RenderError } from './errors.js';
-
-export type StageKind = 'quadrupole' | 'drift' | 'accelerate' | 'trap';
+import { kindNamed, STAGE_TYPES } from '../../sim/stages/registry.js';
+import type { StageType } from '../../sim/stages/types.js';
 
 /** One stage placed on the axis, SI (m, V). */
 export interface PlacedStage {
-  type: StageKind;
+  type: StageType;
   zStart: number;
   zEnd: number;
   r0?: number;
@@ -70,13 +70,15 @@ export function placeStages(raw: unknown, where: string): PlacedStage[] {
   const out: PlacedStage[] = [];
   let z = 0;
   raw.forEach((s: Record<string, unknown>, i) => {
-    const type = s.type as StageKind;
-    if (!['quadrupole', 'drift', 'accelerate', 'trap'].includes(type)) {
-      throw new RenderError(`${where}: provenance.scene.stages[${i}].type '${String(s.type)}' is not quadrupole|drift|accelerate|trap`);
+    const kind = kindNamed(s.type);
+    if (kind === undefined) {
+      throw new RenderError(`${where}: provenance.scene.stages[${i}].type '${String(s.type)}' is not ${STAGE_TYPES.join('|')}`);
     }
+    const type = kind.type;
     const z0 = finiteOrUndefined(s.z0);
+    // A trap written without its length spans its end caps.
     let length = typeof s.length === 'number' && s.length > 0 ? s.length : undefined;
-    if (length === undefined && type === 'trap' && z0 !== undefined) length = 2 * z0;
+    if (length === undefined && z0 !== undefined) length = 2 * z0;
     if (length === undefined) throw new RenderError(`${where}: provenance.scene.stages[${i}].length must be a positive length in m`);
     const zStart = typeof s.zStart === 'number' ? s.zStart : z;
     const zEnd = typeof s.zEnd === 'number' ? s.zEnd : zStart + length;

@@ -65,6 +65,8 @@ export interface StageKind<S extends Stage = Stage> {
    * a key outside the set (a feature added later) sends a scene to direct integration.
    */
   readonly fastPathKeys?: ReadonlySet<string>;
+  /** The Mathieu geometry of the kind's RF stages (sim/mathieu/parameters.ts), if it has RF. */
+  readonly analyzer?: Analyzer;
   /** Mathieu geometry of an RF stage (sim/mathieu/parameters.ts), without the ion. */
   operatingPoint?(st: S): Omit<OperatingPoint, 'mz' | 'charge'> & { analyzer: Analyzer };
   /** One line for figure subtitles, e.g. "quadrupole 150 mm, r0 4.00 mm". */

@@ -9,6 +9,9 @@ export interface OutlinePart {
    * (and a back plate when closed); grid-gap: entrance and exit grids.
    */
   shape: 'rod-set' | 'hyperbolic-trap' | 'tube' | 'ring-stack' | 'grid-gap';
-  /** Radius the electrodes reach from the axis, m (sizes tubes of stages without an aperture). */
-  reach?: number;
+  /**
+   * Radius the electrodes reach from the axis as a multiple of the stage's r0 (sizes the tubes
+   * drawn for stages without an aperture).
+   */
+  reachR0?: number;
 }

@@ -140,8 +140,8 @@ export const stability: PlotKind = {
       stage = s;
     } else stage = stages[0];
     const nPts = intFlag(opt, 'points', 160, 8, 5000);
-    const trap = stage.type === 'trap';
-    const op = { analyzer: stage.type, r0: stage.r0, z0: stage.z0, freq: stage.frequency, rf: stage.amplitude, dc: stage.dc };
+    const trap = stage.analyzer === 'trap';
+    const op = { analyzer: stage.analyzer, r0: stage.r0, z0: stage.z0, freq: stage.frequency, rf: stage.amplitude, dc: stage.dc };
     const species = speciesOf(run);
     const points: SpeciesPoint[] = species.map((s, i) => {
       const [ref, other] = mathieuParameters({ ...op, mz: s.mz, charge: s.charge });
@@ -187,7 +187,7 @@ export const stability: PlotKind = {
     const rf = `${fmtV(stage.amplitude)} V RF (0-peak)${stage.ramp ? ` at the start` : ''}, ${fmtV(stage.dc)} V DC, ${fmt(stage.frequency / 1e6)} MHz, r0 ${fmt(stage.r0 * 1e3)} mm${trap && stage.z0 !== undefined ? `, z0 ${fmt(stage.z0 * 1e3)} mm` : ''}`;
     return {
       title: figureTitle(run.summary, 'stability diagram'),
-      subtitle: `stage ${stage.index} (${stage.type}): ${rf}; filled points stable, open points unstable`,
+      subtitle: `stage ${stage.index} (${stage.analyzer}): ${rf}; filled points stable, open points unstable`,
       legend,
       rows: 1, cols: 1,
       panels: [{

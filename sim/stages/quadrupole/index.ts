@@ -19,6 +19,7 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
     },
   },
   hasRf: true,
+  analyzer: 'quadrupole',
   rf: (st) => st.rf,
   field: quadrupoleField,
   track: (st, c, ctx, run) => (run.integrator === 'dopri5'
@@ -30,6 +31,6 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   fastPathKeys: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
   operatingPoint: (st) => ({ analyzer: 'quadrupole', r0: st.r0, z0: undefined, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `quadrupole ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
-  outline: (s) => [{ shape: 'rod-set', reach: typeof s.r0 === 'number' ? 1.5 * s.r0 : undefined }],
+  outline: () => [{ shape: 'rod-set', reachR0: 1.5 }],
   assumptions: ['No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.'],
 };

@@ -34,6 +34,7 @@ export const trapKind: StageKind<TrapStage> = {
     },
   },
   hasRf: true,
+  analyzer: 'trap',
   rf: (st) => st.rf,
   field: trapField,
   track: (st, c, ctx, run) => (run.integrator === 'dopri5'
@@ -44,6 +45,6 @@ export const trapKind: StageKind<TrapStage> = {
   gasPieces: true,
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `RF trap r0 ${mm2(s.r0)} mm, z0 ${mm2(s.z0)} mm`,
-  outline: (s) => [{ shape: 'hyperbolic-trap', reach: typeof s.r0 === 'number' ? s.r0 : undefined }],
+  outline: () => [{ shape: 'hyperbolic-trap', reachR0: 1 }],
   assumptions: ['No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.'],
 };
