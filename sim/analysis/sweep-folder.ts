@@ -4,6 +4,7 @@
 import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
+import { finiteOrNull } from '../core/json.js';
 import { SweepError } from './vary.js';
 import { scanLinePointsCsv, scanLinesCsv, sweepCsv, sweepSummary, SWEEP_FILES, type SweepResult } from './sweep.js';
 
@@ -24,16 +25,11 @@ export function writeSweepFolder(dir: string, r: SweepResult, opts: { force?: bo
     const lines = scanLinesCsv(r), pts = scanLinePointsCsv(r);
     if (lines !== null) writeFileSync(join(temp, SWEEP_FILES.scanLines), lines);
     if (pts !== null) writeFileSync(join(temp, SWEEP_FILES.scanLinePoints), pts);
-    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine }), jsonSafe, 2) + '\n');
+    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine }), finiteOrNull, 2) + '\n');
     swapFolderIntoPlace(temp, target, true); // an existing DIR was allowed (force) by checkSweepFolder
   } catch (e) {
     rmSync(temp, { recursive: true, force: true });
     if (e instanceof SweepError) throw e;
     throw new SweepError(`${dir}: could not write the sweep folder (${(e as Error).message.split('\n')[0]})`);
   }
-}
-
-/** Infinity and NaN have no JSON form: written as null. */
-function jsonSafe(_k: string, v: unknown): unknown {
-  return typeof v === 'number' && !Number.isFinite(v) ? null : v;
 }
