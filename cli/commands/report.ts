@@ -6,9 +6,9 @@
 
 import { firstRf } from '../../sim/stages/registry.js';
 import { isQuadrupole } from '../../sim/stages/guards.js';
-import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { randomBytes } from 'node:crypto';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { parseArgs, flag } from '../args.js';
 import { UsageError } from '../errors.js';
 import { progressBar } from '../progress.js';
@@ -150,8 +150,7 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
   const startedAt = new Date().toISOString();
   const out = resolve(opts.out);
   checkBundleTarget(out, opts.force ?? false);
-  const tmp = join(dirname(out), `.${basename(out)}.report-${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
-  mkdirSync(tmp);
+  const tmp = folderBeside(out);
   // Ctrl-C between the runs (while figures are drawn) must not leave the temporary folder behind:
   // note it and stop at the next step; during a run the engine's own handler finishes the run early.
   let stop = false;
@@ -201,15 +200,8 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     writeFileSync(join(tmp, 'report.md'), reportMarkdown(doc));
     writeFileSync(join(tmp, 'report.html'), reportHtml(doc, new Map(figures.map((f) => [f.id, f.png]))));
 
-    // Swap into place: the old bundle (with --force) leaves only after the new one is complete.
-    if (existsSync(out)) {
-      const old = join(dirname(out), `.${basename(out)}.old-${process.pid}-${randomBytes(4).toString('hex')}`);
-      renameSync(out, old);
-      renameSync(tmp, out);
-      rmSync(old, { recursive: true, force: true });
-    } else {
-      renameSync(tmp, out);
-    }
+    // The old bundle (allowed by checkBundleTarget with --force) leaves only now the new one is complete.
+    swapFolderIntoPlace(tmp, out, true);
     return { dir: out, results, complete: true };
   } catch (e) {
     rmSync(tmp, { recursive: true, force: true });

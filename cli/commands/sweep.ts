@@ -8,6 +8,7 @@ import { SceneError } from '../../sim/scene/schema.js';
 import { runSweep, sweepSummary, type SweepMethod } from '../../sim/analysis/sweep.js';
 import { checkSweepFolder, writeSweepFolder } from '../../sim/analysis/sweep-folder.js';
 import { parseCount } from './run.js';
+import { finiteOrNull } from '../../sim/core/json.js';
 
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
 
@@ -60,7 +61,7 @@ export async function run(argv: string[]): Promise<number> {
   writeSweepFolder(out, result, { force, commandLine });
   for (const w of result.warnings) process.stderr.write(`warning: ${w}\n`);
   if (a.switches.has('json')) {
-    process.stdout.write(JSON.stringify(sweepSummary(result, { commandLine }), (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
+    process.stdout.write(JSON.stringify(sweepSummary(result, { commandLine }), finiteOrNull) + '\n');
     return 0;
   }
   const f = (v: number | null | undefined, d = 4) => (v === null || v === undefined ? 'n/a' : Number(v.toPrecision(d)).toString());

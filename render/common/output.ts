@@ -1,9 +1,9 @@
-// Figure files appear whole or not at all: encode in memory, write a temp file beside the target,
-// rename (atomic on one filesystem, POSIX rename(2)); the temp file is removed on any failure.
+// Figure files appear whole or not at all: encoded in memory, then written atomically
+// (sim/core/atomic.ts) after a one-line check of the output folder.
 
-import { existsSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { randomBytes } from 'node:crypto';
-import { basename, dirname, extname, join, resolve } from 'node:path';
+import { existsSync, statSync } from 'node:fs';
+import { dirname, extname, resolve } from 'node:path';
+import { writeFileAtomic as writeAtomic } from '../../sim/core/atomic.js';
 
 export class OutputError extends Error {
   override name = 'UsageError'; // printed as a one-line user error by the CLI (exit 2)
@@ -30,13 +30,5 @@ export function checkOutputFolder(path: string): void {
 
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   checkOutputFolder(path);
-  const target = resolve(path);
-  const tmp = join(dirname(target), `.${basename(target)}.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
-  try {
-    writeFileSync(tmp, data);
-    renameSync(tmp, target);
-  } catch (err) {
-    rmSync(tmp, { force: true });
-    throw err;
-  }
+  writeAtomic(path, data);
 }

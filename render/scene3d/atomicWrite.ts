@@ -1,9 +1,9 @@
-// Outputs appear whole or not at all: write a temp file beside the target, then rename (atomic on
-// one filesystem, POSIX rename(2)). A failure removes the temp file so no partial output is left.
+// Outputs appear whole or not at all (sim/core/atomic.ts), after this module's own one-line check
+// of the output folder.
 
 import { existsSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
-import { writeFileAtomic as commonWriteFileAtomic } from '../common/output.js';
+import { writeFileAtomic as writeAtomic } from '../../sim/core/atomic.js';
 import { RenderError } from './errors.js';
 
 /** Throws a one-line RenderError when the folder that should hold `path` does not exist. */
@@ -14,8 +14,8 @@ export function checkOutputFolder(path: string): void {
   }
 }
 
-/** Atomic write (render/common/output.ts), after this module's own folder check and message. */
+/** Atomic write, after this module's own folder check and message. */
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   checkOutputFolder(path);
-  commonWriteFileAtomic(path, data);
+  writeAtomic(path, data);
 }

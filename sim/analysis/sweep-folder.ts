@@ -1,9 +1,10 @@
 // The sweep's output folder, written atomically: every file goes into a temp folder beside DIR,
 // which is renamed into place at the end, so DIR is absent, the old folder, or a complete new one.
 
-import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { randomBytes } from 'node:crypto';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
+import { finiteOrNull } from '../core/json.js';
 import { SweepError } from './vary.js';
 import { scanLinePointsCsv, scanLinesCsv, sweepCsv, sweepSummary, SWEEP_FILES, type SweepResult } from './sweep.js';
 
@@ -18,32 +19,17 @@ export function checkSweepFolder(dir: string, force: boolean): void {
 export function writeSweepFolder(dir: string, r: SweepResult, opts: { force?: boolean; commandLine?: string } = {}): void {
   checkSweepFolder(dir, opts.force ?? false);
   const target = resolve(dir);
-  const temp = join(dirname(target), `${basename(target)}.partial-${process.pid}-${randomBytes(4).toString('hex')}`);
-  mkdirSync(temp);
+  const temp = folderBeside(target);
   try {
     writeFileSync(join(temp, SWEEP_FILES.csv), sweepCsv(r));
     const lines = scanLinesCsv(r), pts = scanLinePointsCsv(r);
     if (lines !== null) writeFileSync(join(temp, SWEEP_FILES.scanLines), lines);
     if (pts !== null) writeFileSync(join(temp, SWEEP_FILES.scanLinePoints), pts);
-    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine }), jsonSafe, 2) + '\n');
-    if (!existsSync(target)) { renameSync(temp, target); return; }
-    const old = `${temp}.old`;
-    renameSync(target, old);
-    try {
-      renameSync(temp, target);
-    } catch (e) {
-      renameSync(old, target);
-      throw e;
-    }
-    rmSync(old, { recursive: true, force: true });
+    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine }), finiteOrNull, 2) + '\n');
+    swapFolderIntoPlace(temp, target, true); // an existing DIR was allowed (force) by checkSweepFolder
   } catch (e) {
     rmSync(temp, { recursive: true, force: true });
     if (e instanceof SweepError) throw e;
     throw new SweepError(`${dir}: could not write the sweep folder (${(e as Error).message.split('\n')[0]})`);
   }
-}
-
-/** Infinity and NaN have no JSON form: written as null. */
-function jsonSafe(_k: string, v: unknown): unknown {
-  return typeof v === 'number' && !Number.isFinite(v) ? null : v;
 }

@@ -7,6 +7,7 @@ import type { Scene } from '../scene/types.js';
 import { RunFolderWriter } from '../runfolder/writer.js';
 import type { RunSummary, SpeciesSummary } from '../runfolder/summary.js';
 import { TOOL_VERSION } from '../version.js';
+import { finiteOrNull } from '../core/json.js';
 import { planBatches } from './batches.js';
 import { runBatches } from './pool.js';
 import { Fate } from '../core/batch.js';
@@ -187,5 +188,5 @@ function splitPoints(d: Float64Array) {
 
 /** The resolved scene as JSON-safe data (Infinity → null). */
 export function sceneForJson(scene: Scene): unknown {
-  return JSON.parse(JSON.stringify(scene, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
+  return JSON.parse(JSON.stringify(scene, finiteOrNull));
 }

@@ -4,6 +4,7 @@
 
 import type { Scene } from '../scene/types.js';
 import type { RunSummary } from '../runfolder/summary.js';
+import { finiteOrNull } from '../core/json.js';
 import { operatingPointRows, type OperatingPointRow } from './operating-points.js';
 import { sceneTraits, type SceneKind } from './scene-kind.js';
 import { assumptions, SAFETY_CAUTIONS } from './assumptions.js';
@@ -123,5 +124,5 @@ export function buildResults(inp: ReportInputs): ReportResults {
 
 /** results.json text: two-space indent, non-finite numbers as null, final newline. */
 export function formatResults(r: ReportResults): string {
-  return JSON.stringify(r, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n';
+  return JSON.stringify(r, finiteOrNull, 2) + '\n';
 }

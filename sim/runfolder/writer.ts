@@ -3,9 +3,9 @@
 // With `force`, the old DIR is swapped out only at that moment. Ion rows and trajectory points are
 // streamed to disk batch by batch (see arrowFile.ts).
 
-import { existsSync, mkdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { randomBytes } from 'node:crypto';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
 import { FATE_NAMES } from '../core/batch.js';
 import { ArrowFileStream } from './arrowFile.js';
 import { CsvFileStream } from './csv.js';
@@ -62,8 +62,7 @@ export class RunFolderWriter {
     if (existsSync(target) && !options.force) {
       throw new RunFolderError(`${dir}: already exists (give --force to replace it)`);
     }
-    const temp = join(parent, `${basename(target)}.partial-${process.pid}-${randomBytes(4).toString('hex')}`);
-    mkdirSync(temp);
+    const temp = folderBeside(target);
     try {
       return new RunFolderWriter(target, temp, options);
     } catch (err) {
@@ -147,29 +146,14 @@ export class RunFolderWriter {
         t.csv?.close();
       }
       writeFileSync(join(this.tempDir, FILES.summary), formatSummary(summary));
-      this.swapIntoPlace();
+      if (!swapFolderIntoPlace(this.tempDir, this.dir, this.options.force ?? false)) {
+        throw new RunFolderError(`${this.dir}: already exists (give --force to replace it)`);
+      }
     } catch (err) {
       this.removeTemp();
       if (err instanceof RunFolderError) throw err;
       throw new RunFolderError(`${this.dir}: could not write the run folder (${(err as Error).message.split('\n')[0]})`);
     }
-  }
-
-  private swapIntoPlace(): void {
-    if (!existsSync(this.dir)) {
-      renameSync(this.tempDir, this.dir);
-      return;
-    }
-    if (!this.options.force) throw new RunFolderError(`${this.dir}: already exists (give --force to replace it)`);
-    const old = `${this.tempDir}.old`;
-    renameSync(this.dir, old);
-    try {
-      renameSync(this.tempDir, this.dir);
-    } catch (err) {
-      renameSync(old, this.dir); // put the old folder back
-      throw err;
-    }
-    rmSync(old, { recursive: true, force: true });
   }
 
   /** Drop everything written so far; an existing `dir` is left untouched. */

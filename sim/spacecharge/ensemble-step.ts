@@ -266,7 +266,7 @@ export function kineticEnergy(e: Ensemble, weight = 1): number {
   return 0.5 * weight * k;
 }
 
-/** Fields of an IonBatch (sim/engine/batch.ts) the ensemble needs; structural, to keep sim/engine optional. */
+/** Fields of an IonBatch (sim/core/batch.ts) the ensemble needs; structural. */
 export interface BatchLike {
   n: number;
   x: Float64Array; y: Float64Array; z: Float64Array;

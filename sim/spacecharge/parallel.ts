@@ -8,11 +8,9 @@
 // blocks and run concurrently, with a barrier between anti-diagonals (a wavefront). The result
 // does not depend on the thread count or on B.
 
-import { Worker } from 'node:worker_threads';
-import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { fieldTile, COULOMB_K, type ChargeCloud, type FieldOut } from './direct.js';
 import type { FieldSolver } from './ensemble-step.js';
+import { Executor, workerScript } from '../core/executor.js';
 
 /** Control words in the shared Int32Array. */
 export const CTRL = { gen: 0, n: 1, stop: 2, threads: 3, block: 4, barCount: 5, barGen: 6 } as const;
@@ -63,19 +61,11 @@ export function wavefront(v: ReturnType<typeof views>, rank: number): void {
   }
 }
 
-function workerScript(): string {
-  const here = fileURLToPath(import.meta.url);
-  if (here.endsWith('.js')) return here.replace(/parallel\.js$/, 'direct-worker.js');
-  const dist = here.replace(/\/sim\/spacecharge\/parallel\.ts$/, '/dist/sim/spacecharge/direct-worker.js');
-  if (!existsSync(dist)) throw new Error(`worker script ${dist} missing: run 'npm run build' first`);
-  return dist;
-}
-
 export class ParallelDirect implements FieldSolver {
   private readonly v: ReturnType<typeof views>;
   private gen = 0;
 
-  private constructor(private readonly layout: SharedLayout, private readonly workers: Worker[], readonly threads: number) {
+  private constructor(private readonly layout: SharedLayout, private readonly exec: Executor<never, never>, readonly threads: number) {
     this.v = views(layout);
   }
 
@@ -86,18 +76,14 @@ export class ParallelDirect implements FieldSolver {
       ctrl: new SharedArrayBuffer(4 * 8), data: new SharedArrayBuffer(8 * (7 * capacity + 1)), capacity,
     };
     new Int32Array(layout.ctrl)[CTRL.threads] = P;
-    const workers: Worker[] = [];
-    if (P > 1) {
-      const script = workerScript();
-      await Promise.all(Array.from({ length: P - 1 }, (_, k) => new Promise<void>((resolve, reject) => {
-        const w = new Worker(script, { workerData: { layout, rank: k + 1 } });
-        workers.push(w);
-        w.unref(); // a forgotten close() must not keep the process alive
-        w.once('message', () => resolve());
-        w.once('error', reject);
-      })));
-    }
-    return new ParallelDirect(layout, workers, P);
+    // The workers take their work through the shared control words, not task messages; a forgotten
+    // close() must not keep the process alive.
+    const exec = new Executor<never, never>({
+      workers: P - 1, script: P > 1 ? workerScript(new URL('./direct-worker.js', import.meta.url)) : undefined,
+      workerData: (rank) => ({ layout, rank }), unref: true,
+    });
+    await exec.ready();
+    return new ParallelDirect(layout, exec, P);
   }
 
   field(c: ChargeCloud, softening: number, out: FieldOut): void {
@@ -121,11 +107,10 @@ export class ParallelDirect implements FieldSolver {
   }
 
   async close(): Promise<void> {
-    for (const w of this.workers) w.ref(); // keep the loop alive until they have exited
-    const exited = this.workers.map((w) => new Promise<void>((r) => { w.once('exit', () => r()); }));
-    Atomics.store(this.v.ctrl, CTRL.stop, 1);
-    Atomics.add(this.v.ctrl, CTRL.gen, 1);
-    Atomics.notify(this.v.ctrl, CTRL.gen);
-    await Promise.all(exited);
+    await this.exec.close(() => {
+      Atomics.store(this.v.ctrl, CTRL.stop, 1);
+      Atomics.add(this.v.ctrl, CTRL.gen, 1);
+      Atomics.notify(this.v.ctrl, CTRL.gen);
+    });
   }
 }

@@ -1,6 +1,6 @@
 // Cost of the hard-sphere buffer gas (issue 4): ion-steps per second of a trap-like harmonic RF
 // RK4 loop (ideal 3D trap, m/z 300, q_z = 0.4 at 1 MHz, 20 steps per cycle, the loop shape of
-// sim/engine/kernels/trap.ts) without gas and with the hard-sphere GasStep at 1 mTorr He, 300 K,
+// sim/stages/trap/kernel.ts) without gas and with the hard-sphere GasStep at 1 mTorr He, 300 K,
 // σ = 150 Å^2 after every step, called two ways: the plain GasStep (velocity stored to the batch,
 // call, reload) and the kernel pieces of sim/gas/hardsphere.ts (optical depth and velocity kept in
 // locals, memory touched only at a candidate). Goal: with gas ≥ 2/3 of the rate without. The same
