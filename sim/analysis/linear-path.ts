@@ -74,6 +74,15 @@ export interface LinearOptions {
 
 interface AxisPair { x: PeriodTable; y: PeriodTable }
 
+/**
+ * Offsets of the doubles quadrupole() hands to periods() in LinearTracker.arg. periods() is too
+ * big to be inlined, and a double passed as a call argument is boxed (a heap number per value
+ * and ion): a typed array is not. cx, cy: the ion in phase-0 coordinates; env: the tier-1
+ * envelopes; eps: offset of the entry phase from its grid point; qx, qy: first rows of F(ψ);
+ * the entry time, step, entry z, vz and r0 for the hit state.
+ */
+const enum Arg { cx1, cx2, cy1, cy2, envX, envY, eps, qx1, qx2, qy1, qy2, tEntry, h, z, vz, r0, count }
+
 /** The one-ion batch and context the drift kernel reads (shared: trackers never run at once). */
 const ONE_ION = allocateBatch(1);
 
@@ -174,6 +183,7 @@ export class LinearTracker {
   private readonly row = new Float64Array(2);
   private readonly fm = mat2();
   private readonly v = new Float64Array(2);
+  private readonly arg = new Float64Array(Arg.count);
   /** Ions decided by tier 1 / tier 2-3 in quadrupole stages (for the benchmark's breakdown). */
   envelopeCleared = 0;
   periodLoops = 0;
@@ -414,9 +424,11 @@ export class LinearTracker {
   }
 
   /** Tiers 2–3 of a quadrupole stage (see the file head); Exit.hit, or 0 when no check hits. */
-  private periods(tx: PeriodTable, ty: PeriodTable, c: IonCursor, cx1: number, cx2: number, cy1: number, cy2: number,
-    envX: number, envY: number, full: number, i0: number, eps: number, qx1: number, qx2: number, qy1: number, qy2: number,
-    tEntry: number, h: number, z: number, vz: number, r0: number): ExitCode | 0 {
+  private periods(tx: PeriodTable, ty: PeriodTable, c: IonCursor, full: number, i0: number): ExitCode | 0 {
+    const a = this.arg;
+    const cx1 = a[Arg.cx1], cx2 = a[Arg.cx2], cy1 = a[Arg.cy1], cy2 = a[Arg.cy2], envX = a[Arg.envX], envY = a[Arg.envY];
+    const eps = a[Arg.eps], qx1 = a[Arg.qx1], qx2 = a[Arg.qx2], qy1 = a[Arg.qy1], qy2 = a[Arg.qy2];
+    const tEntry = a[Arg.tEntry], h = a[Arg.h], z = a[Arg.z], vz = a[Arg.vz], r0 = a[Arg.r0];
     const M = tx.checks, R2 = this.r2, g = 1 + ENVELOPE_MARGIN;
     this.periodLoops++;
     // Tiers 2–3, period by period. Upper bound per axis: U² ≤ min(d·E·d, envelope) (the row
@@ -548,7 +560,11 @@ export class LinearTracker {
     const safe = envX + envY < R2;
     if (safe) this.envelopeCleared++;
     else if (full > 0) {
-      const code = this.periods(tx, ty, c, cx1, cx2, cy1, cy2, envX, envY, full, i0, eps, qx1, qx2, qy1, qy2, tEntry, h, z, vz, r0);
+      const a = this.arg;
+      a[Arg.cx1] = cx1; a[Arg.cx2] = cx2; a[Arg.cy1] = cy1; a[Arg.cy2] = cy2; a[Arg.envX] = envX; a[Arg.envY] = envY;
+      a[Arg.eps] = eps; a[Arg.qx1] = qx1; a[Arg.qx2] = qx2; a[Arg.qy1] = qy1; a[Arg.qy2] = qy2;
+      a[Arg.tEntry] = tEntry; a[Arg.h] = h; a[Arg.z] = z; a[Arg.vz] = vz; a[Arg.r0] = r0;
+      const code = this.periods(tx, ty, c, full, i0);
       if (code !== 0) return code;
     }
 
