@@ -26,7 +26,7 @@
 // The exit state is F(θ_exit mod 2π)·M0^K·c with M0^K by repeated squaring.
 
 import type { DriftStage, QuadrupoleStage, Scene } from '../scene/types.js';
-import { allocateBatch, Fate } from '../core/batch.js';
+import { allocateBatch, Fate, type IonBatch } from '../core/batch.js';
 import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../core/cursor.js';
 import { populationOffsets, referenceOmega, startIon } from '../engine/start.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
@@ -72,33 +72,57 @@ export interface LinearOptions {
    * find ions whose fate does not hinge on the exact loss radius.
    */
   radiusScale?: number;
+  /** Working memory shared with the other trackers of a sweep (default: the tracker's own). */
+  scratch?: LinearScratch;
 }
 
 interface AxisPair { x: PeriodTable; y: PeriodTable }
 
-/** The one-ion batch and context the drift kernel reads (shared: trackers never run at once). */
-const ONE_ION = allocateBatch(1);
+/**
+ * Offsets of the doubles quadrupole() hands to periods() in LinearTracker.arg. periods() is too
+ * big to be inlined, and a double passed as a call argument is boxed (a heap number per value
+ * and ion): a typed array is not. cx, cy: the ion in phase-0 coordinates; env: the tier-1
+ * envelopes; eps: offset of the entry phase from its grid point; qx, qy: first rows of F(ψ);
+ * the entry time, step, entry z, vz and r0 for the hit state.
+ */
+const enum Arg { cx1, cx2, cy1, cy2, envX, envY, eps, qx1, qx2, qy1, qy2, tEntry, h, z, vz, r0, count }
 
 /**
- * Scratch shared by every tracker, grown on demand: the ion's sampled first rows of F per axis
- * (stamped per ion), candidate checks, the batch pass's done mask. track() runs start to end
- * without yielding, so trackers in one thread never interleave; sharing saves a sweep the
- * allocation (and collection) of these arrays at every point.
+ * Working memory of the trackers of one sweep (or of one test), made by whoever runs them and
+ * handed to each LinearTracker of the run. A sweep makes a tracker per point; keeping these here
+ * saves it the allocation (and collection) of the arrays at every point and lets a point start
+ * from what the previous one learnt. Trackers sharing one never run at once: track() runs start
+ * to end without yielding. Fates do not depend on what it holds (buffers are overwritten before
+ * they are read; the hint only orders work).
  */
-const SCRATCH = {
-  rx1: new Float64Array(0), rx2: new Float64Array(0), ry1: new Float64Array(0), ry2: new Float64Array(0),
-  rowStamp: new Float64Array(0), stamp: 0, cand: new Int32Array(0), doneMask: new Uint8Array(0),
-};
+export class LinearScratch {
+  /** The one-ion batch that startIon fills and the drift kernel reads. */
+  readonly oneIon: IonBatch = allocateBatch(1);
+  /** The current ion's sampled first rows of F per axis at check m, stamped per ion (rowStamp[m] === stamp). */
+  rx1 = new Float64Array(0); rx2 = new Float64Array(0); ry1 = new Float64Array(0); ry2 = new Float64Array(0);
+  rowStamp = new Float64Array(0);
+  stamp = 0;
+  /** Candidate checks of the per-ion scan. */
+  cand = new Int32Array(0);
+  /** The batch pass's done mask, per ion of a track() call. */
+  doneMask = new Uint8Array(0);
+  /**
+   * The axis (0 = x, 1 = y) that was the growing one at the last point the batch pass saw: in an
+   * m/z sweep the next point is likely the same, so its table is built first. Speed only.
+   */
+  growingHint = 0;
+  /** Tables of finished trackers, whose arrays the next point's tables reuse. */
+  readonly spareTables: PeriodTable[] = [];
 
-/**
- * The axis (0 = x, 1 = y) that was the growing one at the last point the batch pass saw: in an
- * m/z sweep the next point is likely the same, so its table is built first. Speed only; the
- * fates do not depend on it.
- */
-let growingHint = 0;
-
-/** Tables of finished trackers, whose arrays the next point's tables reuse. */
-const spareTables: PeriodTable[] = [];
+  /** Room for the rows and candidates of checks 1..M (fresh stamps are 0, which no ion's is). */
+  rows(M: number): void {
+    if (this.rx1.length >= M + 1) return;
+    this.rx1 = new Float64Array(M + 1); this.rx2 = new Float64Array(M + 1);
+    this.ry1 = new Float64Array(M + 1); this.ry2 = new Float64Array(M + 1);
+    this.rowStamp = new Float64Array(M + 1);
+    this.cand = new Int32Array(M + 1);
+  }
+}
 
 /**
  * Every ion's start state as startIon gives it, kept so that later points of a sweep can reuse
@@ -169,13 +193,15 @@ export class LinearTracker {
   private readonly needBefore: boolean[];
   private readonly openTail: boolean[];
   private readonly offsets: number[];
-  private readonly b = ONE_ION;
+  private readonly sc: LinearScratch;
+  private readonly b: IonBatch;
   private readonly ctx: StepContext;
   private readonly c: IonCursor = { ion: 0, slot: 0, m: 0, q: 0, tau: 0, t: 0, x: 0, y: 0, z: 0, vx: 0, vy: 0, vz: 0, steps: 0, sinceRecord: 0, nextHist: 0 };
-  // Scratch: a matrix, a vector (the row scratch is shared, see SCRATCH).
+  // Scratch: a matrix, a vector (the row scratch is the sweep's, see LinearScratch).
   private readonly row = new Float64Array(2);
   private readonly fm = mat2();
   private readonly v = new Float64Array(2);
+  private readonly arg = new Float64Array(Arg.count);
   /** Ions decided by tier 1 / tier 2-3 in quadrupole stages (for the benchmark's breakdown). */
   envelopeCleared = 0;
   periodLoops = 0;
@@ -187,6 +213,8 @@ export class LinearTracker {
     if (why !== null) throw new Error(`transfer-matrix path needs a linear scene (${why})`);
     const s = opts.radiusScale ?? 1;
     this.r2 = s * s;
+    this.sc = opts.scratch ?? new LinearScratch();
+    this.b = this.sc.oneIon;
     this.offsets = populationOffsets(scene);
     const looks = scene.stages.map((st) => hasRf(st) || Number.isFinite((st as DriftStage).aperture));
     this.needAfter = looks.map((_, s) => looks.slice(s + 1).some(Boolean));
@@ -286,7 +314,7 @@ export class LinearTracker {
       const omega = 2 * Math.PI * st.rf.frequency;
       const k = q / (m * st.r0 * st.r0 * omega * omega);
       const a = 8 * k * st.dc, qq = 4 * k * st.rf.amplitude, sg = axis === 0 ? 1 : -1;
-      t = periodTable(sg * a, sg * qq, this.stepsPerCycle, undefined, spareTables.pop());
+      t = periodTable(sg * a, sg * qq, this.stepsPerCycle, undefined, this.sc.spareTables.pop());
       p[axis] = t;
     }
     return t;
@@ -298,15 +326,9 @@ export class LinearTracker {
     const key = s * this.popCount + pop;
     let t = this.tables.get(key);
     if (!t) {
-      const M = this.stepsPerCycle;
       t = { x: this.axisTable(s, pop, st, m, q, 0), y: this.axisTable(s, pop, st, m, q, 1) };
       this.tables.set(key, t);
-      if (SCRATCH.rx1.length < M + 1) {
-        SCRATCH.rx1 = new Float64Array(M + 1); SCRATCH.rx2 = new Float64Array(M + 1);
-        SCRATCH.ry1 = new Float64Array(M + 1); SCRATCH.ry2 = new Float64Array(M + 1);
-        SCRATCH.rowStamp = new Float64Array(M + 1);
-        SCRATCH.cand = new Int32Array(M + 1);
-      }
+      this.sc.rows(this.stepsPerCycle);
     }
     return t;
   }
@@ -348,7 +370,7 @@ export class LinearTracker {
       for (const t of p) {
         if (t === null) continue;
         releaseSpectral(t); releaseTwiss(t);
-        if (spareTables.length < 16) spareTables.push(t);
+        if (this.sc.spareTables.length < 16) this.sc.spareTables.push(t);
       }
     }
     this.halves.clear();
@@ -360,16 +382,16 @@ export class LinearTracker {
     let i = i0 + m * tx.sub;
     const wrap = i >= tx.n;
     if (wrap) i -= tx.n;
-    const r = this.row;
+    const r = this.row, sc = this.sc;
     rowAt(tx, i, eps, r);
     let u1 = r[0], u2 = r[1];
     if (wrap) { const w1 = u1 * tx.m11 + u2 * tx.m21; u2 = u1 * tx.m12 + u2 * tx.m22; u1 = w1; }
-    SCRATCH.rx1[m] = u1; SCRATCH.rx2[m] = u2;
+    sc.rx1[m] = u1; sc.rx2[m] = u2;
     rowAt(ty, i, eps, r);
     u1 = r[0]; u2 = r[1];
     if (wrap) { const w1 = u1 * ty.m11 + u2 * ty.m21; u2 = u1 * ty.m12 + u2 * ty.m22; u1 = w1; }
-    SCRATCH.ry1[m] = u1; SCRATCH.ry2[m] = u2;
-    SCRATCH.rowStamp[m] = stamp;
+    sc.ry1[m] = u1; sc.ry2[m] = u2;
+    sc.rowStamp[m] = stamp;
   }
 
 
@@ -378,8 +400,9 @@ export class LinearTracker {
    * quadrupole stage that only open drifts follow; returns done[k] = 1 for the ions it decided.
    */
   private tier1Batch(start: number, count: number, st0: StartStates, scale: Float64Array, mass: Float64Array, charge: Float64Array, fate: Int8Array): Uint8Array {
-    if (SCRATCH.doneMask.length < count) SCRATCH.doneMask = new Uint8Array(count);
-    const done = SCRATCH.doneMask;
+    const sc = this.sc;
+    if (sc.doneMask.length < count) sc.doneMask = new Uint8Array(count);
+    const done = sc.doneMask;
     done.fill(0, 0, count);
     const stages = this.stages;
     const counts: BatchCounts = { envelopeCleared: 0, periodLoops: 0 };
@@ -396,9 +419,10 @@ export class LinearTracker {
       const st = s0 >= 0 ? stages[s0] : null;
       if (st !== null && isQuadrupole(st) && (s0 === stages.length - 1 || this.openTail[s0])) {
         // The axis that grew at the last point first; the other table only when needed.
-        const first = this.axisTable(s0, pop, st, mass[pop], charge[pop], growingHint);
+        const hint = sc.growingHint;
+        const first = this.axisTable(s0, pop, st, mass[pop], charge[pop], hint);
         const run: Run = {
-          tx: growingHint === 0 ? first : null, ty: growingHint === 1 ? first : null,
+          tx: hint === 0 ? first : null, ty: hint === 1 ? first : null,
           stage: st, s0, stages, sc: scale[pop], maxTime: this.ctx.maxTime, R2: this.r2,
           complete: (r: Run) => {
             r.tx = this.axisTable(s0, pop, st, mass[pop], charge[pop], 0);
@@ -406,7 +430,7 @@ export class LinearTracker {
           },
         };
         batchRun(run, st0, start, k, end, fate, done, counts);
-        if (run.tx !== null && run.ty !== null && run.tx.stable !== run.ty.stable) growingHint = run.tx.stable ? 1 : 0;
+        if (run.tx !== null && run.ty !== null && run.tx.stable !== run.ty.stable) sc.growingHint = run.tx.stable ? 1 : 0;
       }
       k = end;
     }
@@ -416,10 +440,14 @@ export class LinearTracker {
   }
 
   /** Tiers 2–3 of a quadrupole stage (see the file head); Exit.hit, or 0 when no check hits. */
-  private periods(tx: PeriodTable, ty: PeriodTable, c: IonCursor, cx1: number, cx2: number, cy1: number, cy2: number,
-    envX: number, envY: number, full: number, i0: number, eps: number, qx1: number, qx2: number, qy1: number, qy2: number,
-    tEntry: number, h: number, z: number, vz: number, r0: number): ExitCode | 0 {
+  private periods(tx: PeriodTable, ty: PeriodTable, c: IonCursor, full: number, i0: number): ExitCode | 0 {
+    const a = this.arg;
+    const cx1 = a[Arg.cx1], cx2 = a[Arg.cx2], cy1 = a[Arg.cy1], cy2 = a[Arg.cy2], envX = a[Arg.envX], envY = a[Arg.envY];
+    const eps = a[Arg.eps], qx1 = a[Arg.qx1], qx2 = a[Arg.qx2], qy1 = a[Arg.qy1], qy2 = a[Arg.qy2];
+    const tEntry = a[Arg.tEntry], h = a[Arg.h], z = a[Arg.z], vz = a[Arg.vz], r0 = a[Arg.r0];
     const M = tx.checks, R2 = this.r2, g = 1 + ENVELOPE_MARGIN;
+    // The rows and candidates (sized by pair() for M; fillRow writes into these same arrays).
+    const sc = this.sc, rx1 = sc.rx1, rx2 = sc.rx2, ry1 = sc.ry1, ry2 = sc.ry2, rowStamp = sc.rowStamp;
     this.periodLoops++;
     // Tiers 2–3, period by period. Upper bound per axis: U² ≤ min(d·E·d, envelope) (the row
     // curve's ellipse, transfer-matrix.ts). Where it reaches r0², four probe checks (m = M, M/2,
@@ -428,7 +456,7 @@ export class LinearTracker {
     // flagged periods runs only if no probe hits (ions that come close and pass).
     const ax11 = g * tx.e11, ax12 = 2 * g * tx.e12, ax22 = g * tx.e22;
     const ay11 = g * ty.e11, ay12 = 2 * g * ty.e12, ay22 = g * ty.e22;
-    const stamp = ++SCRATCH.stamp;
+    const stamp = ++sc.stamp;
     const probes = this.probes(M);
     let dx1 = cx1, dx2 = cx2, dy1 = cy1, dy2 = cy2;
     // With an unstable axis, skip the periods in which even the eigen-bound
@@ -447,7 +475,7 @@ export class LinearTracker {
     let nx = Math.min(envX, ax11 * dx1 * dx1 + ax12 * dx1 * dx2 + ax22 * dx2 * dx2);
     let ny = Math.min(envY, ay11 * dy1 * dy1 + ay12 * dy1 * dy2 + ay22 * dy2 * dy2);
     let pend = -1, px1 = 0, px2 = 0, py1 = 0, py2 = 0;
-    const cand = SCRATCH.cand;
+    const cand = sc.cand;
     let nc = 0;
     for (let pass = 0; pass < 2; pass++) {
       for (let base = pass === 0 ? base0 : pend; base < full; base += M) {
@@ -466,8 +494,8 @@ export class LinearTracker {
             for (let j = 1; j < probes.length; j++) {
               const m = probes[j];
               if (m > mmax) continue;
-              if (SCRATCH.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
-              const X = SCRATCH.rx1[m] * dx1 + SCRATCH.rx2[m] * dx2, Y = SCRATCH.ry1[m] * dy1 + SCRATCH.ry2[m] * dy2;
+              if (rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+              const X = rx1[m] * dx1 + rx2[m] * dx2, Y = ry1[m] * dy1 + ry2[m] * dy2;
               if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
             }
             if (pend < 0) { pend = base; px1 = dx1; px2 = dx2; py1 = dy1; py2 = dy2; }
@@ -475,7 +503,7 @@ export class LinearTracker {
             for (let j = 0; j < nc; j++) {
               const m = cand[j];
               if (m > mmax) break;
-              const X = SCRATCH.rx1[m] * dx1 + SCRATCH.rx2[m] * dx2, Y = SCRATCH.ry1[m] * dy1 + SCRATCH.ry2[m] * dy2;
+              const X = rx1[m] * dx1 + rx2[m] * dx2, Y = ry1[m] * dy1 + ry2[m] * dy2;
               if (X * X + Y * Y >= R2) return this.hitAt(c, tEntry, base + m, h, X * r0, Y * r0, z, vz);
             }
           }
@@ -491,9 +519,9 @@ export class LinearTracker {
       const ixx = tx.stable ? tx.gamma * cx1 * cx1 + 2 * tx.alpha * cx1 * cx2 + tx.beta * cx2 * cx2 : 0;
       const iyy = ty.stable ? ty.gamma * cy1 * cy1 + 2 * ty.alpha * cy1 * cy2 + ty.beta * cy2 * cy2 : 0;
       for (let m = 1; m <= M; m++) {
-        if (SCRATCH.rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
+        if (rowStamp[m] !== stamp) this.fillRow(tx, ty, m, i0, eps, stamp);
         if (tx.stable && ty.stable) {
-          const a1 = SCRATCH.rx1[m], a2 = SCRATCH.rx2[m], b1 = SCRATCH.ry1[m], b2 = SCRATCH.ry2[m];
+          const a1 = rx1[m], a2 = rx2[m], b1 = ry1[m], b2 = ry2[m];
           const wx = tx.beta * a1 * a1 - 2 * tx.alpha * a1 * a2 + tx.gamma * a2 * a2;
           const wy = ty.beta * b1 * b1 - 2 * ty.alpha * b1 * b2 + ty.gamma * b2 * b2;
           // Margin for the invariant's drift under the (non-symplectic) RK4 table, ≲ 1e-12 per period.
@@ -550,7 +578,11 @@ export class LinearTracker {
     const safe = envX + envY < R2;
     if (safe) this.envelopeCleared++;
     else if (full > 0) {
-      const code = this.periods(tx, ty, c, cx1, cx2, cy1, cy2, envX, envY, full, i0, eps, qx1, qx2, qy1, qy2, tEntry, h, z, vz, r0);
+      const a = this.arg;
+      a[Arg.cx1] = cx1; a[Arg.cx2] = cx2; a[Arg.cy1] = cy1; a[Arg.cy2] = cy2; a[Arg.envX] = envX; a[Arg.envY] = envY;
+      a[Arg.eps] = eps; a[Arg.qx1] = qx1; a[Arg.qx2] = qx2; a[Arg.qy1] = qy1; a[Arg.qy2] = qy2;
+      a[Arg.tEntry] = tEntry; a[Arg.h] = h; a[Arg.z] = z; a[Arg.vz] = vz; a[Arg.r0] = r0;
+      const code = this.periods(tx, ty, c, full, i0);
       if (code !== 0) return code;
     }
 

@@ -22,7 +22,7 @@ import { mzWindow } from '../mathieu/operating-point.js';
 import { TOOL_VERSION } from '../version.js';
 import { grid, parseVary, SweepError, MAX_POINTS, type SweepAxis } from './vary.js';
 import { peakFigures, type PeakFigures } from './peak.js';
-import { LinearTracker, nonLinearReason, StartStates } from './linear-path.js';
+import { LinearScratch, LinearTracker, nonLinearReason, StartStates } from './linear-path.js';
 import { DirectPool, sweepRunSettings } from './direct-path.js';
 
 export { SweepError } from './vary.js';
@@ -221,10 +221,14 @@ function pointMethod(scene: Scene, requested: SweepMethod): { method: PointMetho
   return reason === null ? { method: 'matrix', reason: null } : { method: 'direct', reason };
 }
 
-/** Runs one point by either method; keeps the start-state draws for reuse by the matrix path. */
+/**
+ * Runs one point by either method; keeps the start-state draws and the trackers' working memory
+ * for reuse by the matrix path at the next point.
+ */
 class PointRunner {
   private pool: DirectPool | null = null;
   private starts: StartStates | null = null;
+  private linear: LinearScratch | null = null;
   private fate = new Int8Array(0);
   directBecause: string | null = null;
 
@@ -265,7 +269,8 @@ class PointRunner {
   private matrix(scene: Scene, total: number): number {
     // Reuse the start draws while they serve the point (at most 4 million ions kept).
     if (total <= 4_000_000 && (this.starts === null || !this.starts.serves(scene))) this.starts = new StartStates(scene);
-    const tracker = new LinearTracker(scene);
+    this.linear ??= new LinearScratch();
+    const tracker = new LinearTracker(scene, { scratch: this.linear });
     if (this.fate.length < Math.min(total, 65536)) this.fate = new Int8Array(Math.min(total, 65536));
     const fate = this.fate;
     let d = 0;
