@@ -2,7 +2,7 @@
 // numbers as values ("--dc -12V"). Positional arguments are kept in order.
 
 import { UsageError } from './errors.js';
-import { closest } from '../sim/scene/closest.js';
+import { closest } from '../sim/core/closest.js';
 
 export interface FlagSpec {
   /** Flags that take a value. */
@@ -84,4 +84,4 @@ export function requireFlag(args: ParsedArgs, name: string, command: string, exa
   return v;
 }
 
-export { closest } from '../sim/scene/closest.js';
+export { closest } from '../sim/core/closest.js';

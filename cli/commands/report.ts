@@ -15,7 +15,7 @@ import { progressBar } from '../progress.js';
 import { parseCount } from './run.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import type { Scene } from '../../sim/scene/types.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { mzWindow } from '../../sim/mathieu/operating-point.js';
 import { sceneTraits } from '../../sim/report/scene-kind.js';
 import { buildResults, formatResults, type ReportResults, type SweepResult } from '../../sim/report/results.js';
@@ -105,16 +105,16 @@ const SWEEP_POINTS = 121;
 
 /**
  * The quadrupole peak: an m/z sweep of the scene over its Mathieu m/z window (sim/mathieu) widened
- * by 10 % on each side, through sim/analysis/sweep.ts on the exact transfer-matrix path. A scene
+ * by 10 % on each side, through sim/sweeps/sweep.ts on the exact transfer-matrix path. A scene
  * that path cannot take (gas, RF ramp, ...) gets no sweep here and the report says why; `iontrail
  * sweep --method direct` does it by integration.
  */
 async function quadrupoleSweep(scene: Scene, opts: BundleOptions): Promise<{ result: SweepResult; curve: SweepCurve | null }> {
   const none = (reason: string) => ({ result: { status: 'unavailable' as const, reason }, curve: null });
   if (opts.sceneText === undefined || opts.sceneFile === null) return none('no scene file text to sweep');
-  let sweepMod: typeof import('../../sim/analysis/sweep.js');
+  let sweepMod: typeof import('../../sim/sweeps/sweep.js');
   try {
-    sweepMod = await import('../../sim/analysis/sweep.js');
+    sweepMod = await import('../../sim/sweeps/sweep.js');
   } catch (e) {
     return none(`the m/z sweep module could not be loaded (${firstLine(e)})`);
   }

@@ -3,7 +3,7 @@
 import { parseArgs, flag } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { progressBar } from '../progress.js';
 
 export const describe = 'integrate the ions of a scene file and write a run folder';

@@ -5,8 +5,8 @@ import { readFileSync } from 'node:fs';
 import { parseArgs, flag } from '../args.js';
 import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
-import { runSweep, sweepSummary, type SweepMethod } from '../../sim/analysis/sweep.js';
-import { checkSweepFolder, writeSweepFolder } from '../../sim/analysis/sweep-folder.js';
+import { runSweep, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
+import { checkSweepFolder, writeSweepFolder } from '../../sim/sweeps/sweep-folder.js';
 import { parseCount } from './run.js';
 import { finiteOrNull } from '../../sim/core/json.js';
 

@@ -3,7 +3,7 @@
 
 import { isMap, isScalar, isSeq, LineCounter, type Document, type Node } from 'yaml';
 import { parseQuantity, QuantityError, DIMENSION_INFO, type Dimension } from '../units/quantity.js';
-import { closest } from './closest.js';
+import { closest } from '../core/closest.js';
 
 export class SceneError extends Error {
   override name = 'SceneError';

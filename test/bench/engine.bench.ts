@@ -9,7 +9,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { buildC, runC } from './cbuild.js';

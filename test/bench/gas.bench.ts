@@ -154,7 +154,7 @@ run: { steps_per_cycle: 20, max_time: 1 ms, record_every: 0 }
 async function engineRates(): Promise<string> {
   try {
     const { parseScene } = await import('../../sim/scene/load.js');
-    const { runScene } = await import('../../sim/engine/run.js');
+    const { runScene } = await import('../../sim/runs/run-scene.js');
     const out = [0, 0];
     const stepsSeen = [0, 0];
     // Warm-up, then two alternating rounds; the faster of each is kept.

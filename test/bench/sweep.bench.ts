@@ -15,7 +15,7 @@
 
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { runSweep, type SweepResult } from '../../sim/analysis/sweep.js';
+import { runSweep, type SweepResult } from '../../sim/sweeps/sweep.js';
 import { repoRoot } from './cbuild.js';
 
 async function fastest(n: number, f: () => Promise<SweepResult>): Promise<SweepResult> {

@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { readTrajectories, readIons } from '../../sim/runfolder/reader.js';
 import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';

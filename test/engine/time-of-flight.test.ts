@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { readIons } from '../../sim/runfolder/reader.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { tempDir } from '../helpers/cli.js';

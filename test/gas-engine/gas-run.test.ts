@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseScene, loadSceneFile } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { readIons } from '../../sim/runfolder/reader.js';
 import { iontrail, tempDir, ROOT } from '../helpers/cli.js';
 

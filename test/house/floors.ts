@@ -5,14 +5,15 @@
 
 export const FLOORS: readonly { floor: number; name: string; paths: readonly string[] }[] = [
   { floor: 0, name: 'ground: core types, units, random streams, integrators, Mathieu', paths: ['sim/core/', 'sim/units/', 'sim/random/', 'sim/integrate/', 'sim/mathieu/', 'sim/version.ts'] },
-  { floor: 1, name: 'physics models and file formats', paths: ['sim/gas/', 'sim/spacecharge/', 'sim/runfolder/', 'sim/scene/schema.ts', 'sim/scene/closest.ts', 'sim/scene/gas.ts'] },
+  { floor: 1, name: 'physics models and file formats', paths: ['sim/gas/', 'sim/spacecharge/', 'sim/runfolder/', 'sim/scene/schema.ts', 'sim/scene/gas.ts'] },
   { floor: 2, name: 'stage kinds', paths: ['sim/stages/', 'sim/scene/fields.ts'] },
-  { floor: 3, name: 'loader and engine', paths: ['sim/scene/', 'sim/engine/'] },
-  { floor: 4, name: 'figures of merit, sweeps, fast path', paths: ['sim/analysis/'] },
-  { floor: 5, name: 'whole runs', paths: ['sim/runs/'] },
-  { floor: 6, name: 'review data', paths: ['sim/report/'] },
-  { floor: 7, name: 'renderer', paths: ['render/'] },
-  { floor: 8, name: 'command line', paths: ['cli/'] },
+  { floor: 3, name: 'loader, engine and the linear fast path beside it', paths: ['sim/scene/', 'sim/engine/', 'sim/fastpath/'] },
+  { floor: 4, name: 'figures of merit', paths: ['sim/analysis/'] },
+  { floor: 5, name: 'whole runs and their summaries', paths: ['sim/runs/'] },
+  { floor: 6, name: 'sweeps: plan, run a point range, reduce', paths: ['sim/sweeps/'] },
+  { floor: 7, name: 'review data', paths: ['sim/report/'] },
+  { floor: 8, name: 'renderer', paths: ['render/'] },
+  { floor: 9, name: 'command line', paths: ['cli/'] },
 ];
 
 /** Floor of a repository-relative path (the most specific prefix wins), or undefined. */

@@ -9,7 +9,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { runSweep } from '../../sim/analysis/sweep.js';
+import { runSweep } from '../../sim/sweeps/sweep.js';
 import { cachedQuadrupoleApex, mzWindow } from '../../sim/mathieu/operating-point.js';
 import { mzAtQ } from '../../sim/mathieu/parameters.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';

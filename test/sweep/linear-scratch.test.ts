@@ -1,4 +1,4 @@
-// The trackers' working memory (LinearScratch in sim/analysis/linear-path.ts) is owned by whoever
+// The trackers' working memory (LinearScratch in sim/fastpath/linear-path.ts) is owned by whoever
 // runs a sweep and lives from point to point: row buffers, stamps, the growing-axis hint and the
 // spare tables a later point rebuilds in place. A fate must be a function of the scene and the ion
 // only, so the same points tracked in any order through one scratch give, ion by ion, the fates
@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { LinearScratch, LinearTracker, StartStates } from '../../sim/analysis/linear-path.js';
+import { LinearScratch, LinearTracker, StartStates } from '../../sim/fastpath/linear-path.js';
 import type { Scene } from '../../sim/scene/types.js';
 import { repoRoot } from '../bench/cbuild.js';
 

@@ -15,10 +15,10 @@ import { trackBatch } from '../../sim/engine/track.js';
 import { gasFactory } from '../../sim/engine/gas-hooks.js';
 import { allocateBatch, Fate } from '../../sim/core/batch.js';
 import { startIon } from '../../sim/engine/start.js';
-import { LinearTracker, StartStates, nonLinearReason } from '../../sim/analysis/linear-path.js';
-import { sweepRunSettings } from '../../sim/analysis/direct-path.js';
+import { LinearTracker, StartStates, nonLinearReason } from '../../sim/fastpath/linear-path.js';
+import { sweepRunSettings } from '../../sim/sweeps/direct-path.js';
 import type { QuadrupoleStage, Scene } from '../../sim/scene/types.js';
-import { fAt, mat2, periodTable } from '../../sim/analysis/transfer-matrix.js';
+import { fAt, mat2, periodTable } from '../../sim/fastpath/transfer-matrix.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../../sim/units/constants.js';
 import { repoRoot } from '../bench/cbuild.js';
 

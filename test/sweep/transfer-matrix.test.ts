@@ -1,9 +1,9 @@
-// The one-period transfer matrices of the ideal quadrupole (sim/analysis/transfer-matrix.ts)
+// The one-period transfer matrices of the ideal quadrupole (sim/fastpath/transfer-matrix.ts)
 // against an outside reference: the Mathieu equation integrated with odex 2.0.4 (Hairer & Wanner's
 // extrapolation code, rtol = atol = 1e-13), and the textbook properties of Hill's equation.
 
 import { describe, expect, it } from 'vitest';
-import { fAt, mat2, periodTable, powerApply, rowAt, spectralRows, twissRows } from '../../sim/analysis/transfer-matrix.js';
+import { fAt, mat2, periodTable, powerApply, rowAt, spectralRows, twissRows } from '../../sim/fastpath/transfer-matrix.js';
 import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
 
 /** F(θ) by odex: U'' = −(a/4 + (q/2) cos θ) U from 0 to θ, both fundamental solutions. */

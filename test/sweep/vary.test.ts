@@ -5,8 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { parseVary, grid, SweepError } from '../../sim/analysis/vary.js';
-import { parseRatios } from '../../sim/analysis/sweep.js';
+import { parseVary, grid, SweepError } from '../../sim/sweeps/vary.js';
+import { parseRatios } from '../../sim/sweeps/sweep.js';
 import { repoRoot } from '../bench/cbuild.js';
 
 // The repository root from the sources or from dist/ (vitest may collect both).

@@ -9,7 +9,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { readIons } from '../../sim/runfolder/reader.js';
 import { flightTime, spaceFocusDistance, extractionFieldForFocus } from '../../sim/analysis/wiley-mclaren.js';
 import { fitMassCalibration } from '../../sim/analysis/arrival.js';

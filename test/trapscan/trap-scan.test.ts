@@ -11,7 +11,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/engine/run.js';
+import { runScene } from '../../sim/runs/run-scene.js';
 import { floquet } from '../../sim/mathieu/floquet.js';
 import { tempDir } from '../helpers/cli.js';
 

@@ -1,5 +1,5 @@
 // Peak shape of a quadrupole filter: transmission against m/z from an m/z sweep of the scene
-// (sim/analysis/sweep.ts), with the peak figures the sweep reports (centre, FWHM, m/Δm at 50 % and
+// (sim/sweeps/sweep.ts), with the peak figures the sweep reports (centre, FWHM, m/Δm at 50 % and
 // 10 % height, transmission at the peak).
 
 import type { RunSummary } from '../../../sim/runfolder/index.js';

@@ -16,17 +16,17 @@ import { parseScene } from '../scene/load.js';
 import { SceneError } from '../scene/schema.js';
 import type { QuadrupoleStage, Scene } from '../scene/types.js';
 import { entryMakesQuadrupole, isQuadrupole } from '../stages/guards.js';
-import { checkStartsInside, runScene, sceneForJson, sceneWarnings } from '../engine/run.js';
+import { checkStartsInside, runScene, sceneForJson, sceneWarnings } from '../runs/run-scene.js';
 import { Fate } from '../core/batch.js';
 import { mzWindow } from '../mathieu/operating-point.js';
 import { TOOL_VERSION } from '../version.js';
 import { grid, parseVary, SweepError, MAX_POINTS, type SweepAxis } from './vary.js';
-import { peakFigures, type PeakFigures } from './peak.js';
-import { LinearScratch, LinearTracker, nonLinearReason, StartStates } from './linear-path.js';
+import { peakFigures, type PeakFigures } from '../analysis/peak.js';
+import { LinearScratch, LinearTracker, nonLinearReason, StartStates } from '../fastpath/linear-path.js';
 import { DirectPool, sweepRunSettings } from './direct-path.js';
 
 export { SweepError } from './vary.js';
-export type { PeakFigures } from './peak.js';
+export type { PeakFigures } from '../analysis/peak.js';
 
 export type SweepMethod = 'auto' | 'direct' | 'matrix';
 export type PointMethod = 'direct' | 'matrix';
