@@ -98,9 +98,40 @@ export interface SweepResult {
   warnings: string[];
 }
 
-/** Run a sweep. Validates every request detail before the first point runs. */
-export async function runSweep(req: SweepRequest): Promise<SweepResult> {
-  const started = new Date();
+/** One point of a sweep: a grid index on the main grid (line −1) or on scan line `line`. */
+export interface SweepTask {
+  line: number;
+  idx: number[];
+  /** --set overrides of the line (its DC), applied after the varied keys. */
+  extra: string[];
+}
+
+/**
+ * What a sweep will run, validated in full before the first point: the axes, the scan lines and
+ * the points in run order (the main grid, then each scan line's grid). Any contiguous range of
+ * `tasks` can run on its own (runPointRange) and the ranges' points reduce to the whole sweep.
+ */
+export interface SweepPlan {
+  req: SweepRequest;
+  requested: SweepMethod;
+  axes: SweepAxis[];
+  scenes: PointScenes;
+  /** The scene at the first point. */
+  base: Scene;
+  scan: { stage: number; fileIndex: number; rf: number; ratios: number[] } | null;
+  workers: number;
+  collect: string[];
+  tasks: SweepTask[];
+  warnings: string[];
+  /** Why direct integration ran, as the first point that needed it said (filled while running). */
+  directBecause?: string | null;
+  startedAt: Date;
+  t0: number;
+}
+
+/** Plan a sweep. Validates every request detail before the first point runs. */
+export function planSweep(req: SweepRequest): SweepPlan {
+  const startedAt = new Date();
   const t0 = performance.now();
   const requested = req.method ?? 'auto';
   if (!['auto', 'direct', 'matrix'].includes(requested)) throw new SweepError(`--method expects auto, direct or matrix, got '${requested}'`);
@@ -110,13 +141,13 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
   const nPoints = axes.reduce((a, x) => a * x.values.length, 1);
   if (nPoints > MAX_POINTS) throw new SweepError(`the sweep has ${nPoints} points; at most ${MAX_POINTS}`);
 
-  const points = new PointScenes(req);
+  const scenes = new PointScenes(req);
   // Validate the corners (units, ranges, keys) and the method before any work.
   const corners = cornerIndices(axes);
-  for (const idx of corners) pointMethod(points.scene(axes, idx, []), requested);
-  const base = points.scene(axes, axes.map(() => 0), []);
+  for (const idx of corners) pointMethod(scenes.scene(axes, idx, []), requested);
+  const base = scenes.scene(axes, axes.map(() => 0), []);
 
-  let scan: { stage: number; fileIndex: number; rf: number; ratios: number[] } | null = null;
+  let scan: SweepPlan['scan'] = null;
   if (req.scanLines !== undefined) {
     if (axes.length !== 1 || axes[0].key !== 'mz') throw new SweepError('--scan-lines needs exactly one --vary mz=A..B:N (the m/z range of each line)');
     const ratios = parseRatios(req.scanLines);
@@ -126,7 +157,7 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
     const rf = (base.stages[stage] as QuadrupoleStage).rf.amplitude;
     if (!(rf > 0)) throw new SweepError(`--scan-lines: stage ${fileIndex} has no RF amplitude`);
     scan = { stage: fileIndex, fileIndex, rf, ratios };
-    for (const r of [ratios[0], ratios[ratios.length - 1]]) pointMethod(points.scene(axes, [0], scanSet(scan.fileIndex, r, rf)), requested);
+    for (const r of [ratios[0], ratios[ratios.length - 1]]) pointMethod(scenes.scene(axes, [0], scanSet(scan.fileIndex, r, rf)), requested);
   }
 
   const workers = Math.max(1, req.workers ?? availableParallelism());
@@ -134,80 +165,101 @@ export async function runSweep(req: SweepRequest): Promise<SweepResult> {
   if (collect.length > 0 && requested === 'matrix') throw new SweepError('--collect runs every point in full; it does not combine with --method matrix');
   if (collect.length > 0 && scan) throw new SweepError('--collect does not combine with --scan-lines');
   for (const c of collect) if (!/^[A-Za-z_][\w]*(\.[\w]+)*$/.test(c)) throw new SweepError(`--collect expects dot paths into summary.json such as space_charge.frequency_shift_z, got '${c}'`);
-  const runner = new PointRunner(collect.length > 0 ? 'direct' : requested, workers, collect);
-  const totalWork = nPoints * (1 + (scan ? scan.ratios.length : 0));
-  let done = 0;
-  const warnings = new Set<string>(sceneWarnings(base).filter((w) => !w.startsWith('space_charge')));
+  const tasks: SweepTask[] = gridTasks(axes, -1, []);
+  if (scan) scan.ratios.forEach((ratio, line) => tasks.push(...gridTasks(axes, line, scanSet(scan!.fileIndex, ratio, scan!.rf))));
+  const warnings = sceneWarnings(base).filter((w) => !w.startsWith('space_charge'));
+  return { req, requested, axes, scenes, base, scan, workers, collect, tasks, warnings, startedAt, t0 };
+}
+
+/** Grid points in run order: first key outer, second inner. */
+function gridTasks(axes: SweepAxis[], line: number, extra: string[]): SweepTask[] {
+  const out: SweepTask[] = [];
+  const n0 = axes[0].values.length, n1 = axes.length > 1 ? axes[1].values.length : 1;
+  for (let i = 0; i < n0; i++) for (let j = 0; j < n1; j++) out.push({ line, idx: axes.length > 1 ? [i, j] : [i], extra });
+  return out;
+}
+
+/** Run the plan's points from..to−1 (one runner: its workers and fast-path state serve them all). */
+export async function runPointRange(plan: SweepPlan, from: number, to: number, tick: () => void = () => {}): Promise<SweepPoint[]> {
+  const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect);
+  const out: SweepPoint[] = [];
   try {
-    const main = await runGrid(axes, points, runner, [], () => req.progress?.(++done, totalWork));
-    let lines: ScanLine[] | null = null;
-    if (scan) {
-      lines = [];
-      for (const ratio of scan.ratios) {
-        const extra = scanSet(scan.fileIndex, ratio, scan.rf);
-        const pts = await runGrid(axes, points, runner, extra, () => req.progress?.(++done, totalWork));
-        const peak = peakOf(axes[0].values, pts);
-        const st = base.stages[scan.stage] as QuadrupoleStage;
-        const win = mzWindow({ analyzer: 'quadrupole', r0: st.r0, freq: st.rf.frequency, rf: scan.rf, dc: ratio * scan.rf, mz: peak?.mz ?? axes[0].values[0], charge: base.ions[0].charge });
-        lines.push({ u_over_v: ratio, dc_v: ratio * scan.rf, peak, mathieu_window: win, points: pts });
-        if (peak && peak.fwhm_mz === null) warnings.add(`scan line U/V = ${ratio}: the peak is wider than the m/z range; widen --vary mz`);
-      }
+    for (let k = from; k < to; k++) {
+      const t = plan.tasks[k];
+      const r = await runner.run(plan.scenes.scene(plan.axes, t.idx, t.extra));
+      out.push({ values: t.idx.map((i, a) => plan.axes[a].values[i]), ...r });
+      tick();
     }
-    const peak = axes.length === 1 && axes[0].key === 'mz' ? peakOf(axes[0].values, main) : null;
-    if (peak && peak.fwhm_mz === null) warnings.add('the peak is not bounded at half height inside the m/z range; widen --vary mz');
-    const step = axes[0].values.length > 1 ? Math.abs(axes[0].values[1] - axes[0].values[0]) : 0;
-    if (peak && peak.fwhm_mz !== null && peak.fwhm_mz < 3 * step) {
-      warnings.add(`the FWHM (${Number(peak.fwhm_mz.toPrecision(3))}) spans fewer than 3 sweep steps of ${step}; the widths and resolutions are coarse, refine the m/z step`);
-    }
-    if (axes.length === 1 && axes[0].key === 'mz' && peak === null) warnings.add('no ion is transmitted at any m/z of the sweep');
-    let peaks: SweepResult['peaks'] = null;
-    if (axes.length === 2 && (axes[0].key === 'mz' || axes[1].key === 'mz')) {
-      const mzAxis = axes[0].key === 'mz' ? 0 : 1, other = 1 - mzAxis;
-      peaks = axes[other].values.map((value, j) => {
-        const row = main.filter((_, k) => (other === 0 ? Math.floor(k / axes[1].values.length) : k % axes[1].values.length) === j);
-        return { key: axes[other].key, value, peak: peakOf(axes[mzAxis].values, row) };
-      });
-    }
-    const all = [...main, ...(lines ?? []).flatMap((l) => l.points)];
-    const used = new Set(all.map((p) => p.method));
-    return {
-      axes: axes.map((a) => ({ key: a.key, unit: a.unit, values: a.values })),
-      points: main,
-      peak, peaks,
-      scanLines: scan && lines ? { stage: scan.fileIndex, rf_amplitude_v: scan.rf, lines } : null,
-      collect,
-      method: { requested, used: used.size === 1 ? [...used][0] : 'mixed', direct_because: used.has('direct') ? runner.directBecause : null },
-      scene: base,
-      sceneFile: req.sceneFile,
-      seed: base.seed,
-      ionsPerPoint: base.ions.reduce((a, p) => a + p.count, 0),
-      workers,
-      startedAt: started.toISOString(),
-      wallSeconds: (performance.now() - t0) / 1000,
-      warnings: [...warnings],
-    };
+    plan.directBecause ??= runner.directBecause;
+    return out;
   } finally {
     await runner.close();
   }
 }
 
-function peakOf(x: number[], pts: SweepPoint[]): PeakFigures | null {
-  return peakFigures(x, pts.map((p) => p.transmission));
-}
-
-async function runGrid(axes: SweepAxis[], scenes: PointScenes, runner: PointRunner, extra: string[], tick: () => void): Promise<SweepPoint[]> {
-  const out: SweepPoint[] = [];
-  const n0 = axes[0].values.length, n1 = axes.length > 1 ? axes[1].values.length : 1;
-  for (let i = 0; i < n0; i++) {
-    for (let j = 0; j < n1; j++) {
-      const idx = axes.length > 1 ? [i, j] : [i];
-      const scene = scenes.scene(axes, idx, extra);
-      const r = await runner.run(scene);
-      out.push({ values: idx.map((k, a) => axes[a].values[k]), ...r });
-      tick();
+/** The whole sweep's figures from all its points (in plan order). */
+export function reduceSweep(plan: SweepPlan, all: SweepPoint[]): SweepResult {
+  const { axes, scan, base } = plan;
+  if (all.length !== plan.tasks.length) throw new SweepError(`a sweep of ${plan.tasks.length} points got ${all.length}`);
+  const warnings = new Set<string>(plan.warnings);
+  const main = all.filter((_, k) => plan.tasks[k].line === -1);
+  let lines: ScanLine[] | null = null;
+  if (scan) {
+    lines = [];
+    for (let line = 0; line < scan.ratios.length; line++) {
+      const ratio = scan.ratios[line];
+      const pts = all.filter((_, k) => plan.tasks[k].line === line);
+      const peak = peakOf(axes[0].values, pts);
+      const st = base.stages[scan.stage] as QuadrupoleStage;
+      const win = mzWindow({ analyzer: 'quadrupole', r0: st.r0, freq: st.rf.frequency, rf: scan.rf, dc: ratio * scan.rf, mz: peak?.mz ?? axes[0].values[0], charge: base.ions[0].charge });
+      lines.push({ u_over_v: ratio, dc_v: ratio * scan.rf, peak, mathieu_window: win, points: pts });
+      if (peak && peak.fwhm_mz === null) warnings.add(`scan line U/V = ${ratio}: the peak is wider than the m/z range; widen --vary mz`);
     }
   }
-  return out;
+  const peak = axes.length === 1 && axes[0].key === 'mz' ? peakOf(axes[0].values, main) : null;
+  if (peak && peak.fwhm_mz === null) warnings.add('the peak is not bounded at half height inside the m/z range; widen --vary mz');
+  const step = axes[0].values.length > 1 ? Math.abs(axes[0].values[1] - axes[0].values[0]) : 0;
+  if (peak && peak.fwhm_mz !== null && peak.fwhm_mz < 3 * step) {
+    warnings.add(`the FWHM (${Number(peak.fwhm_mz.toPrecision(3))}) spans fewer than 3 sweep steps of ${step}; the widths and resolutions are coarse, refine the m/z step`);
+  }
+  if (axes.length === 1 && axes[0].key === 'mz' && peak === null) warnings.add('no ion is transmitted at any m/z of the sweep');
+  let peaks: SweepResult['peaks'] = null;
+  if (axes.length === 2 && (axes[0].key === 'mz' || axes[1].key === 'mz')) {
+    const mzAxis = axes[0].key === 'mz' ? 0 : 1, other = 1 - mzAxis;
+    peaks = axes[other].values.map((value, j) => {
+      const row = main.filter((_, k) => (other === 0 ? Math.floor(k / axes[1].values.length) : k % axes[1].values.length) === j);
+      return { key: axes[other].key, value, peak: peakOf(axes[mzAxis].values, row) };
+    });
+  }
+  const used = new Set(all.map((p) => p.method));
+  return {
+    axes: axes.map((a) => ({ key: a.key, unit: a.unit, values: a.values })),
+    points: main,
+    peak, peaks,
+    scanLines: scan && lines ? { stage: scan.fileIndex, rf_amplitude_v: scan.rf, lines } : null,
+    collect: plan.collect,
+    method: { requested: plan.requested, used: used.size === 1 ? [...used][0] : 'mixed', direct_because: used.has('direct') ? plan.directBecause ?? null : null },
+    scene: base,
+    sceneFile: plan.req.sceneFile,
+    seed: base.seed,
+    ionsPerPoint: base.ions.reduce((a, p) => a + p.count, 0),
+    workers: plan.workers,
+    startedAt: plan.startedAt.toISOString(),
+    wallSeconds: (performance.now() - plan.t0) / 1000,
+    warnings: [...warnings],
+  };
+}
+
+/** Run a sweep: plan (every check first), run all its points, reduce. */
+export async function runSweep(req: SweepRequest): Promise<SweepResult> {
+  const plan = planSweep(req);
+  let done = 0;
+  const points = await runPointRange(plan, 0, plan.tasks.length, () => req.progress?.(++done, plan.tasks.length));
+  return reduceSweep(plan, points);
+}
+
+function peakOf(x: number[], pts: SweepPoint[]): PeakFigures | null {
+  return peakFigures(x, pts.map((p) => p.transmission));
 }
 
 /** The method of a point, or a SweepError when --method matrix meets a non-linear scene. */
