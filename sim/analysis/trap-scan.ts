@@ -8,8 +8,8 @@
 import type { Scene, TrapStage } from '../scene/types.js';
 import { isTrap } from '../stages/guards.js';
 import { floquet } from '../mathieu/floquet.js';
+import { trapAz, trapMzPerVolt, trapQz } from '../mathieu/parameters.js';
 import { brentRoot } from '../mathieu/root-find.js';
-import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../units/constants.js';
 import { peakOf } from './arrival.js';
 
 /** The ramped trap of a scene, if any. */
@@ -17,11 +17,9 @@ export function scanTrap(scene: Scene): TrapStage | undefined {
   return scene.stages.find((s): s is TrapStage => isTrap(s) && s.rf.ramp !== undefined);
 }
 
-/** a_z of a trap for an ion: −16eU/((m/z) u d² Ω²) (DESIGN.md). */
+/** a_z of a trap for an ion (sim/mathieu/parameters.ts). */
 function azOf(st: TrapStage, mz: number): number {
-  const d2 = st.r0 * st.r0 + 2 * st.z0 * st.z0;
-  const om = 2 * Math.PI * st.rf.frequency;
-  return (-16 * ELEMENTARY_CHARGE * st.dc) / (mz * ATOMIC_MASS_UNIT * d2 * om * om);
+  return trapAz(st.r0, st.z0, st.rf.frequency, st.dc, mz);
 }
 
 /** q_z at which an ion of the given a_z is ejected: β_z = 1 edge, or β_z = 2 f_aux / f. */
@@ -46,9 +44,7 @@ export function ejectionQz(st: TrapStage, az: number): number {
 
 /** m/z per volt of RF amplitude at ejection: m/z = 8eV/(q_ej u d² Ω²). */
 export function mzPerVolt(st: TrapStage, qEject: number): number {
-  const d2 = st.r0 * st.r0 + 2 * st.z0 * st.z0;
-  const om = 2 * Math.PI * st.rf.frequency;
-  return (8 * ELEMENTARY_CHARGE) / (qEject * ATOMIC_MASS_UNIT * d2 * om * om);
+  return trapMzPerVolt(st.r0, st.z0, st.rf.frequency, qEject);
 }
 
 function amplitudeAt(st: TrapStage, t: number): number {
@@ -61,15 +57,13 @@ export function scanSummary(scene: Scene, ejectTimes: number[][]): Record<string
   if (!st) return null;
   const qRef = ejectionQz(st, azOf(st, scene.ions[0].mz));
   const k = mzPerVolt(st, qRef);
-  const d2 = st.r0 * st.r0 + 2 * st.z0 * st.z0;
-  const om = 2 * Math.PI * st.rf.frequency;
   const all: number[] = [];
   const species = scene.ions.map((p, i) => {
     const t = ejectTimes[i] ?? [];
     const mzApparent = t.map((ti) => k * amplitudeAt(st, ti));
     all.push(...mzApparent);
     const pk = peakOf(mzApparent);
-    const qz = t.map((ti) => (8 * ELEMENTARY_CHARGE * amplitudeAt(st, ti)) / (p.mz * ATOMIC_MASS_UNIT * d2 * om * om));
+    const qz = t.map((ti) => trapQz(st.r0, st.z0, st.rf.frequency, amplitudeAt(st, ti), p.mz));
     const qm = qz.length ? qz.reduce((a, b) => a + b, 0) / qz.length : null;
     return {
       population: i, mz: p.mz, ejected: t.length,

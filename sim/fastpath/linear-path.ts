@@ -34,6 +34,7 @@ import { trackUniform } from '../stages/shared/uniform-kernel.js';
 import { ENVELOPE_MARGIN, fAt, fAtGrid, mat2, periodTable, powerApply, releaseSpectral, releaseTwiss, rowAt, smallAngle, type PeriodTable } from './transfer-matrix.js';
 import { batchRun, quietPeriods, type BatchCounts, type Run } from './batch-pass.js';
 import { hasRf, kindOf } from '../stages/registry.js';
+import { filterAxisQA } from '../mathieu/parameters.js';
 import { isOpenDrift, isQuadrupole } from '../stages/guards.js';
 
 
@@ -311,9 +312,8 @@ export class LinearTracker {
     let t = p[axis];
     if (t === null) {
       // Mathieu a, q of the x axis for this ion (DESIGN.md; q carries the charge's sign).
-      const omega = 2 * Math.PI * st.rf.frequency;
-      const k = q / (m * st.r0 * st.r0 * omega * omega);
-      const a = 8 * k * st.dc, qq = 4 * k * st.rf.amplitude, sg = axis === 0 ? 1 : -1;
+      const { a, q: qq } = filterAxisQA(st.r0, st.rf.frequency, st.dc, st.rf.amplitude, q, m);
+      const sg = axis === 0 ? 1 : -1;
       t = periodTable(sg * a, sg * qq, this.stepsPerCycle, undefined, this.sc.spareTables.pop());
       p[axis] = t;
     }

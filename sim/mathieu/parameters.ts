@@ -81,3 +81,35 @@ export function mzAtQ(p: Pick<OperatingPoint, 'analyzer' | 'r0' | 'z0' | 'freq'>
   const { g } = axisFactor(p);
   return (g * ELEMENTARY_CHARGE * Math.abs(rf)) / (ATOMIC_MASS_UNIT * omega * omega * Math.abs(q));
 }
+
+/**
+ * a and q of the filter's x axis for an ion of charge q (C, signed) and mass m (kg):
+ * a = 8qU/(m r0² Ω²), q = 4qV/(m r0² Ω²), the y axis (−a, −q). The per-population form of the
+ * transfer-matrix path (sim/fastpath), which holds q and m rather than m/z.
+ */
+export function filterAxisQA(r0: number, freq: number, dc: number, rf: number, charge: number, mass: number): { a: number; q: number } {
+  const omega = 2 * Math.PI * freq;
+  const k = charge / (mass * r0 * r0 * omega * omega);
+  return { a: 8 * k * dc, q: 4 * k * rf };
+}
+
+/** a_z of a trap for a singly charged ion of m/z: −16eU/((m/z) u (r0² + 2z0²) Ω²) (trap scans). */
+export function trapAz(r0: number, z0: number, freq: number, dc: number, mz: number): number {
+  const d2 = r0 * r0 + 2 * z0 * z0;
+  const om = 2 * Math.PI * freq;
+  return (-16 * ELEMENTARY_CHARGE * dc) / (mz * ATOMIC_MASS_UNIT * d2 * om * om);
+}
+
+/** q_z of a trap for a singly charged ion of m/z at RF amplitude V: 8eV/((m/z) u (r0² + 2z0²) Ω²). */
+export function trapQz(r0: number, z0: number, freq: number, rf: number, mz: number): number {
+  const d2 = r0 * r0 + 2 * z0 * z0;
+  const om = 2 * Math.PI * freq;
+  return (8 * ELEMENTARY_CHARGE * rf) / (mz * ATOMIC_MASS_UNIT * d2 * om * om);
+}
+
+/** m/z per volt of RF amplitude at which a trap's q_z equals qz: 8e/(q_z u (r0² + 2z0²) Ω²). */
+export function trapMzPerVolt(r0: number, z0: number, freq: number, qz: number): number {
+  const d2 = r0 * r0 + 2 * z0 * z0;
+  const om = 2 * Math.PI * freq;
+  return (8 * ELEMENTARY_CHARGE) / (qz * ATOMIC_MASS_UNIT * d2 * om * om);
+}
