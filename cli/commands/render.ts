@@ -10,7 +10,7 @@ import { renderGlb } from '../../render/scene3d/glb.js';
 import { renderHtml } from '../../render/scene3d/html.js';
 import { renderPng } from '../../render/scene3d/png.js';
 import { readRunView } from '../../render/scene3d/runInput.js';
-import { COLOR_BY, type ColorBy } from '../../render/scene3d/trajectoryColors.js';
+import { COLOR_BY, DEFAULT_COLOR_BY, type ColorBy } from '../../render/scene3d/trajectoryColors.js';
 
 export const describe = 'draw a run in 3D: software-rendered PNG, glTF binary (.glb) or self-contained HTML viewer';
 
@@ -18,7 +18,9 @@ const HELP = `usage: iontrail render RUN_DIR -o FILE.png|.glb|.html [options]
 
   -o, --out FILE     output; the extension picks the format (.png, .glb, .html)
   --camera NAME      iso (default), axial (down the z axis), side (from -x)
-  --color BY         mz (default) or fate
+  --color BY         time (default): time of flight along each trajectory; energy: kinetic
+                     energy along it (bar up to the 99th percentile); mz: one colour per
+                     species; fate: one colour per fate
   --rods SHAPE       hyperbolic (default) or cylindrical
   --size WxH         PNG size in pixels (default 1600x900)
   --ions LIST        ions to draw, e.g. 0-99,250 (default all)
@@ -60,7 +62,7 @@ export async function run(argv: string[]): Promise<number> {
   const ext = extname(out).toLowerCase() as (typeof FORMATS)[number];
   if (!FORMATS.includes(ext)) throw new UsageError(`-o ${out}: unknown extension '${extname(out) || '(none)'}'; expected .png, .glb or .html`);
   const camera = parseCameraName(flag(args, 'camera') ?? 'iso');
-  const color = choice<ColorBy>(flag(args, 'color'), COLOR_BY, 'color', 'mz');
+  const color = choice<ColorBy>(flag(args, 'color'), COLOR_BY, 'color', DEFAULT_COLOR_BY);
   const rods = choice<RodShape>(flag(args, 'rods'), ['hyperbolic', 'cylindrical'], 'rods', 'hyperbolic');
   let width = 1600, height = 900;
   const size = flag(args, 'size');
@@ -78,7 +80,7 @@ export async function run(argv: string[]): Promise<number> {
   checkOutputFolder(out);
 
   const t0 = performance.now();
-  const view = await readRunView(dir, { ions, everyNth: every });
+  const view = await readRunView(dir, { ions, everyNth: every, velocities: color === 'energy' });
   let bytes: Uint8Array | string;
   if (ext === '.png') bytes = renderPng(view, { camera, color, rods, width, height }).png;
   else if (ext === '.glb') bytes = await renderGlb(view, { camera, color, rods });

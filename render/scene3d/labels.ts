@@ -1,9 +1,10 @@
 // Text and 2D furniture drawn over the software-rendered image with @napi-rs/canvas: title and
-// stage chain, colour legend, axis triad, scale-bar label and the provenance footer.
+// stage chain, colour bar or legend, electrode names and voltages on leader lines, axis triad,
+// scale-bar label and the provenance footer.
 
 import { createCanvas, ImageData, type SKRSContext2D } from '@napi-rs/canvas';
 import * as THREE from 'three';
-import { AXIS_COLORS, INK, INK_SOFT, cssColor, mzRamp } from './palette.js';
+import { AXIS_COLORS, BACKGROUND_TOP, INK, INK_SOFT, cssColor } from './palette.js';
 import type { Legend } from './trajectoryColors.js';
 
 export const FONT = '"DejaVu Sans", "Liberation Sans", sans-serif';
@@ -18,6 +19,8 @@ export interface LabelContent {
   /** Scale bar ends on the image, pixels. */
   scaleBarPx: [number, number, number, number];
   camera: THREE.Camera;
+  /** Electrode labels with the pixel their leader line points at. */
+  electrodes?: { text: string; x: number; y: number }[];
 }
 
 function triad(ctx: SKRSContext2D, camera: THREE.Camera, ox: number, oy: number, len: number): void {
@@ -51,23 +54,7 @@ function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): num
   ctx.textBaseline = 'middle';
   ctx.textAlign = 'left';
   ctx.font = `12px ${FONT}`;
-  if (lg.kind === 'ramp') {
-    const w = 180, h = 10, x = right - w, y = top + 18;
-    for (let i = 0; i < w; i++) {
-      ctx.fillStyle = cssColor(mzRamp(i / (w - 1)) as number[]);
-      ctx.fillRect(x + i, y, 1, h);
-    }
-    ctx.strokeStyle = cssColor(INK_SOFT); ctx.lineWidth = 1; ctx.strokeRect(x + 0.5, y + 0.5, w - 1, h - 1);
-    ctx.fillStyle = cssColor(INK);
-    ctx.font = `bold 12px ${FONT}`;
-    ctx.fillText(lg.title, x, top + 6);
-    ctx.font = `12px ${FONT}`;
-    ctx.textBaseline = 'top';
-    ctx.fillText(fmt(lg.min), x, y + h + 4);
-    ctx.textAlign = 'right';
-    ctx.fillText(fmt(lg.max), x + w, y + h + 4);
-    return w;
-  }
+  if (lg.kind === 'ramp') return colorBar(ctx, lg, right, top);
   // Swatches in one row, right-aligned; measured first so nothing overlaps.
   const items = lg.entries.map((e) => ({ e, text: `${e.label} (${e.count})` }));
   const widths = items.map((it) => ctx.measureText(it.text).width + 28);
@@ -87,6 +74,93 @@ function legend(ctx: SKRSContext2D, lg: Legend, right: number, top: number): num
     x += widths[i];
   });
   return total;
+}
+
+/** Round tick step (1, 2 or 5 × 10^n) giving about `n` intervals over `span`. */
+export function tickStep(span: number, n: number): number {
+  const raw = span / n, p = 10 ** Math.floor(Math.log10(raw)), m = raw / p;
+  return (m >= 5 ? 5 : m >= 2 ? 2 : 1) * p;
+}
+
+/** Horizontal colour bar with its title and unit, round ticks and the end values; returns its width. */
+function colorBar(ctx: SKRSContext2D, lg: Extract<Legend, { kind: 'ramp' }>, right: number, top: number): number {
+  const w = 240, h = 11, x = right - w, y = top + 16;
+  const tmp = [0, 0, 0];
+  for (let i = 0; i < w; i++) {
+    ctx.fillStyle = cssColor(lg.map(i / (w - 1), tmp));
+    ctx.fillRect(x + i, y, 1, h);
+  }
+  ctx.strokeStyle = cssColor(INK_SOFT); ctx.lineWidth = 1; ctx.strokeRect(x + 0.5, y + 0.5, w - 1, h - 1);
+  ctx.fillStyle = cssColor(INK);
+  ctx.font = `bold 12px ${FONT}`;
+  ctx.textAlign = 'left';
+  ctx.textBaseline = 'middle';
+  ctx.fillText(lg.unit ? `${lg.title} (${lg.unit})` : lg.title, x, top + 5);
+  const span = lg.max - lg.min;
+  ctx.font = `11px ${FONT}`;
+  ctx.textBaseline = 'top';
+  ctx.strokeStyle = cssColor(INK);
+  if (span > 0) {
+    const step = tickStep(span, 4);
+    const digits = Math.max(0, -Math.floor(Math.log10(step) + 1e-9));
+    let lastRight = -Infinity;
+    for (let v = Math.ceil(lg.min / step - 1e-9) * step; v <= lg.max + 1e-9 * span; v += step) {
+      const tx = x + ((v - lg.min) / span) * (w - 1);
+      ctx.beginPath(); ctx.moveTo(tx + 0.5, y + h); ctx.lineTo(tx + 0.5, y + h + 4); ctx.stroke();
+      const atTop = Math.abs(v - lg.max) < 1e-6 * span;
+      const text = `${atTop && lg.clippedTop ? '≥ ' : ''}${v.toFixed(digits)}`;
+      const tw = ctx.measureText(text).width;
+      const left = Math.min(x + w - tw, Math.max(x, tx - tw / 2));
+      if (left < lastRight + 6) continue;
+      ctx.textAlign = 'left';
+      ctx.fillText(text, left, y + h + 5);
+      lastRight = left + tw;
+    }
+    if (lg.clippedTop && Math.abs(lg.max / step - Math.round(lg.max / step)) > 1e-6) {
+      // The bar's top is not a round tick: say where clipping starts at the right end.
+      ctx.textAlign = 'right';
+      ctx.fillText(`≥ ${lg.max.toPrecision(3)}`, x + w, y + h + 18);
+    }
+  }
+  return w;
+}
+
+/**
+ * Electrode names and voltages on leader lines: each text sits up and right of the point it names
+ * (left where the image ends), moved up past any label already placed so none overlap.
+ */
+function electrodeLabels(ctx: SKRSContext2D, items: { text: string; x: number; y: number }[], width: number, topLimit: number): void {
+  ctx.font = `12px ${FONT}`;
+  const placed: { x: number; y: number; w: number; h: number }[] = [];
+  const h = 18;
+  const order = items.map((it, i) => i).sort((a, b) => items[a].y - items[b].y || items[a].x - items[b].x);
+  for (const i of order) {
+    const it = items[i];
+    const w = ctx.measureText(it.text).width + 12;
+    let bx = it.x + 26, by = it.y - 40 - h;
+    if (bx + w > width - 16) bx = it.x - 26 - w;
+    const hits = (y: number) => placed.some((p) => bx < p.x + p.w + 4 && bx + w + 4 > p.x && y < p.y + p.h + 3 && y + h + 3 > p.y);
+    while (hits(by) && by > topLimit) by -= h + 3;
+    if (by < topLimit) {
+      by = it.y + 30;
+      while (hits(by)) by += h + 3;
+    }
+    placed.push({ x: bx, y: by, w, h });
+    const ex = bx < it.x ? bx + w : bx, ey = by + h / 2;
+    ctx.strokeStyle = 'rgba(36,38,43,0.55)';
+    ctx.lineWidth = 1;
+    ctx.beginPath(); ctx.moveTo(it.x, it.y); ctx.lineTo(ex, ey); ctx.stroke();
+    ctx.fillStyle = cssColor(INK);
+    ctx.beginPath(); ctx.arc(it.x, it.y, 2.2, 0, 2 * Math.PI); ctx.fill();
+    const [r, g, b] = BACKGROUND_TOP.map((c) => Math.round(255 * c));
+    ctx.fillStyle = `rgba(${r},${g},${b},0.88)`;
+    ctx.strokeStyle = 'rgba(36,38,43,0.35)';
+    ctx.beginPath(); ctx.roundRect(bx + 0.5, by + 0.5, w, h, 3); ctx.fill(); ctx.stroke();
+    ctx.fillStyle = cssColor(INK);
+    ctx.textAlign = 'left';
+    ctx.textBaseline = 'middle';
+    ctx.fillText(it.text, bx + 6, by + h / 2 + 0.5);
+  }
 }
 
 /** Set the largest font size ≤ px (down to 8) at which `text` fits in `room` pixels; returns it. */
@@ -131,6 +205,7 @@ export function drawLabels(rgba: Uint8ClampedArray, width: number, height: numbe
   ctx.textBaseline = 'top';
   ctx.fillText(c.scaleBarText, (x0 + x1) / 2, Math.max(y0, y1) + 7);
 
+  if (c.electrodes?.length) electrodeLabels(ctx, c.electrodes, width, 74);
   triad(ctx, c.camera, 56, height - 80, 30);
 
   ctx.strokeStyle = 'rgba(36,38,43,0.18)';

@@ -12,6 +12,8 @@ import { Layers } from './raster/layers.js';
 import { markEnds, rasteriseBatch, rasteriseLineObjects, rasteriseMeshes } from './raster/sceneRaster.js';
 import type { RunView } from './runInput.js';
 import { buildScene } from './sceneGraph.js';
+import { pickAnchor } from './electrodeLabels.js';
+import { fateColor } from './palette.js';
 import type { ColorBy } from './trajectoryColors.js';
 
 export interface PngOptions {
@@ -49,8 +51,12 @@ function hasShape(run: RunView, shape: OutlinePart['shape']): boolean {
   return run.stages.some((s) => (kindNamed(s.type)?.outline(s as unknown as Record<string, unknown>) ?? []).some((p) => p.shape === shape));
 }
 
+/** Fate whose end points are marked: the ion struck an electrode. */
+export const STRUCK_FATE = 'hit';
+
 function openingNote(run: RunView, opened: boolean, marked: boolean): string {
-  const notes = marked ? ['dot: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
+  const notes = marked ? ['×: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
+  if (hasShape(run, 'grid-gap') || hasShape(run, 'ring-stack')) notes.push('field-region labels give the drop across the region');
   if (opened && hasShape(run, 'rod-set')) notes.push('rod nearest the viewer drawn as outline');
   if (opened && hasShape(run, 'hyperbolic-trap')) notes.push('trap cut open toward the viewer');
   return notes.join('; ');
@@ -73,12 +79,14 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
   const nTraj = built.batch.start.length - 1;
   let longest = 0;
   for (let k = 0; k < nTraj; k++) longest = Math.max(longest, built.batch.start[k + 1] - built.batch.start[k]);
-  const scratch = new Float64Array(3 * Math.max(1, longest));
+  const scratch = new Float64Array(4 * Math.max(1, longest));
   // Dense ensembles are drawn thinner and lighter so the envelope, not single ions, reads.
   const style = nTraj > 300 ? { width: 1.0, opacity: 0.35 } : nTraj > 60 ? { width: 1.3, opacity: 0.6 } : { width: 1.7, opacity: 0.9 };
   const pointsDrawn = rasteriseBatch(built.batch, camera, L, style, scratch);
-  const struck = Uint8Array.from(run.traj.ionRow, (row) => (run.fate[row] === 'hit' ? 1 : 0));
-  const marked = markEnds(built.batch, struck, camera, L, nTraj > 300 ? 1.6 : 2.4, 0.9);
+  const marks = new Float32Array(3 * nTraj).fill(NaN);
+  const struck = fateColor(STRUCK_FATE);
+  run.traj.ionRow.forEach((row, k) => { if (run.fate[row] === STRUCK_FATE) marks.set(struck, 3 * k); });
+  const marked = markEnds(built.batch, marks, camera, L, nTraj > 300 ? 2.2 : 3.2, 1.3, 0.95);
 
   const rgba = new Uint8ClampedArray(4 * width * height);
   composite(L, rgba);
@@ -87,6 +95,10 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
   const a = built.scaleBar[0].clone().applyMatrix4(vp), b = built.scaleBar[1].clone().applyMatrix4(vp);
   const px = (v: THREE.Vector3): [number, number] => [(v.x + 1) * 0.5 * width, (1 - v.y) * 0.5 * height];
   const [ax, ay] = px(a), [bx, by] = px(b);
+  const electrodes = built.labels.map((lb) => {
+    const [x, y] = px(pickAnchor(lb, camera).clone().applyMatrix4(vp));
+    return { text: lb.text, x, y };
+  });
   const nPoints = run.traj.t.length;
   const png = drawLabels(rgba, width, height, {
     title: run.sceneName,
@@ -95,6 +107,7 @@ export function renderPng(run: RunView, opts: PngOptions): PngResult {
     scaleBarText: `${built.scaleBarMm} mm${opts.camera === 'iso' ? ' (at bar depth)' : ''}`,
     scaleBarPx: [ax, ay, bx, by],
     camera,
+    electrodes,
     footerLeft: `iontrail ${run.toolVersion} · seed ${run.seed}${run.sceneFile ? ` · scene ${run.sceneFile}` : ''} · run ${run.dir}`,
     footerRight: openingNote(run, cutAzimuth !== undefined, marked > 0),
   });

@@ -21,6 +21,8 @@ export interface PlacedStage {
   /** For 'accelerate': 'gap' (two grids) or 'reflectron' (ring stack, closed end when `closed`). */
   role?: string;
   closed?: boolean;
+  /** The stage as stored in provenance.scene (SI), for what its kind says about it (labels). */
+  stored?: Readonly<Record<string, unknown>>;
 }
 
 export interface TrajectorySet {
@@ -32,6 +34,10 @@ export interface TrajectorySet {
   x: Float64Array;
   y: Float64Array;
   z: Float64Array;
+  /** Velocities, m/s, when asked for (RunViewOptions.velocities). */
+  vx?: Float64Array;
+  vy?: Float64Array;
+  vz?: Float64Array;
 }
 
 export interface RunView {
@@ -43,6 +49,8 @@ export interface RunView {
   stages: PlacedStage[];
   ionId: Int32Array;
   mz: Float64Array;
+  /** Charge number z per ion (ions table), signed. */
+  charge: Int32Array;
   fate: string[];
   traj: TrajectorySet;
   /** Every n-th recorded point was kept (plus each ion's last). */
@@ -59,6 +67,8 @@ export interface RunViewOptions {
   ions?: readonly number[];
   /** Keep every n-th recorded point of each ion (its last point is always kept). */
   everyNth?: number;
+  /** Also read the recorded velocities (for colouring by kinetic energy). */
+  velocities?: boolean;
 }
 
 const finiteOrUndefined = (v: unknown): number | undefined =>
@@ -89,6 +99,7 @@ export function placeStages(raw: unknown, where: string): PlacedStage[] {
       voltage: typeof s.voltage === 'number' ? s.voltage : undefined,
       role: typeof s.role === 'string' ? s.role : undefined,
       closed: s.closed === true ? true : undefined,
+      stored: s,
     });
     z = zEnd;
   });
@@ -103,7 +114,7 @@ export async function readRunView(dir: string, opts: RunViewOptions = {}): Promi
   const prov = (summary.provenance ?? {}) as Partial<RunSummary['provenance']>;
   const scene = (prov.scene ?? {}) as { stages?: unknown; name?: string; seed?: number };
   const stages = placeStages(scene.stages, join(dir, 'summary.json'));
-  const { ion: ionId, mz, fate } = folder.ions;
+  const { ion: ionId, mz, fate, charge } = folder.ions;
   const rowOf = new Map<number, number>();
   ionId.forEach((id, row) => rowOf.set(id, row));
 
@@ -113,14 +124,14 @@ export async function readRunView(dir: string, opts: RunViewOptions = {}): Promi
   const estimate = estimateTrajectoryRows(dir) * share;
   const every = opts.everyNth !== undefined ? Math.max(1, Math.floor(opts.everyNth))
     : estimate > MAX_3D_POINTS ? Math.ceil(estimate / MAX_3D_POINTS) : 1;
-  const traj = await readThinned(dir, opts.ions ? new Set(opts.ions) : null, every, rowOf);
+  const traj = await readThinned(dir, opts.ions ? new Set(opts.ions) : null, every, rowOf, opts.velocities === true);
   return {
     dir,
     sceneName: String(summary.scene_name ?? scene.name ?? 'unnamed scene'),
     sceneFile: typeof prov.scene_file === 'string' ? prov.scene_file : undefined,
     seed: String(prov.seed ?? scene.seed ?? '?'),
     toolVersion: String(prov.tool_version ?? (summary as Record<string, unknown>).tool_version ?? '?'),
-    stages, ionId, mz, fate, traj,
+    stages, ionId, mz, charge: Int32Array.from(charge as ArrayLike<number>), fate, traj,
     every, autoThinned: opts.everyNth === undefined && every > 1,
   };
 }
@@ -140,13 +151,19 @@ class Column {
  * Stream trajectories.arrow batch by batch, keeping the chosen ions, every n-th point of each and
  * always its last point (so a struck ion still ends on the electrode).
  */
-async function readThinned(dir: string, keep: Set<number> | null, every: number, rowOf: Map<number, number>): Promise<TrajectorySet> {
+async function readThinned(dir: string, keep: Set<number> | null, every: number, rowOf: Map<number, number>, withV: boolean): Promise<TrajectorySet> {
   const t = new Column(), x = new Column(), y = new Column(), z = new Column();
+  const vx = new Column(), vy = new Column(), vz = new Column();
   const rows: number[] = [], starts: number[] = [];
   let cur = -1, k = 0, wanted = false;
   // The newest point of the current ion that was skipped; written if it turns out to be its last.
-  let pend = false, pt = 0, px = 0, py = 0, pz = 0;
-  const closeIon = () => { if (pend) { t.push(pt); x.push(px); y.push(py); z.push(pz); pend = false; } };
+  let pend = false, pt = 0, px = 0, py = 0, pz = 0, pvx = 0, pvy = 0, pvz = 0;
+  const closeIon = () => {
+    if (!pend) return;
+    t.push(pt); x.push(px); y.push(py); z.push(pz);
+    if (withV) { vx.push(pvx); vy.push(pvy); vz.push(pvz); }
+    pend = false;
+  };
   for await (const b of trajectoryBatches(dir)) {
     const n = b.ion.length;
     for (let r = 0; r < n; r++) {
@@ -165,13 +182,17 @@ async function readThinned(dir: string, keep: Set<number> | null, every: number,
       if (!wanted) continue;
       if (k++ % every === 0) {
         t.push(b.t[r]); x.push(b.x[r]); y.push(b.y[r]); z.push(b.z[r]);
+        if (withV) { vx.push(b.vx[r]); vy.push(b.vy[r]); vz.push(b.vz[r]); }
         pend = false;
       } else {
         pend = true; pt = b.t[r]; px = b.x[r]; py = b.y[r]; pz = b.z[r];
+        if (withV) { pvx = b.vx[r]; pvy = b.vy[r]; pvz = b.vz[r]; }
       }
     }
   }
   if (wanted) closeIon();
   starts.push(t.n);
-  return { ionRow: Int32Array.from(rows), start: Int32Array.from(starts), t: t.done(), x: x.done(), y: y.done(), z: z.done() };
+  const out: TrajectorySet = { ionRow: Int32Array.from(rows), start: Int32Array.from(starts), t: t.done(), x: x.done(), y: y.done(), z: z.done() };
+  if (withV) { out.vx = vx.done(); out.vy = vy.done(); out.vz = vz.done(); }
+  return out;
 }

@@ -3,6 +3,7 @@
 
 import * as THREE from 'three';
 import { buildElectrodes, MM, type RodShape } from './electrodes.js';
+import { electrodeLabelPoints, type LabelPoints } from './electrodeLabels.js';
 import { AXIS_COLORS, INK } from './palette.js';
 import type { RunView } from './runInput.js';
 import { trajectoryColors, type ColorBy, type Legend } from './trajectoryColors.js';
@@ -22,6 +23,7 @@ export interface SceneOptions {
 export interface PolylineBatch {
   positions: Float32Array;
   start: Int32Array;
+  /** RGB per point, 0..1. */
   rgb: Float32Array;
 }
 
@@ -37,6 +39,10 @@ export interface BuiltScene {
   scaleBarMm: number;
   /** Scale bar ends, mm (drawn along +z below the instrument). */
   scaleBar: [THREE.Vector3, THREE.Vector3];
+  /** Axis triad: where its three axes start and how long they are, mm. */
+  triad: { origin: THREE.Vector3; length: number };
+  /** The electrodes' names and voltages with their candidate anchor points. */
+  labels: LabelPoints[];
 }
 
 /** 1, 2 or 5 × 10^n not above x. */
@@ -71,9 +77,7 @@ export function buildScene(run: RunView, opts: SceneOptions): BuiltScene {
     if (b - a < 2) continue;
     const geo = new THREE.BufferGeometry();
     geo.setAttribute('position', new THREE.BufferAttribute(batch.positions.slice(3 * a, 3 * b), 3));
-    const col = new Float32Array(3 * (b - a));
-    for (let i = 0; i < b - a; i++) col.set(colors.rgb.subarray(3 * k, 3 * k + 3), 3 * i);
-    geo.setAttribute('color', new THREE.BufferAttribute(col, 3));
+    geo.setAttribute('color', new THREE.BufferAttribute(colors.rgb.slice(3 * a, 3 * b), 3));
     const line = new THREE.Line(geo, lineMat);
     const row = run.traj.ionRow[k];
     line.name = `ion ${run.ionId[row]}`;
@@ -124,5 +128,6 @@ export function buildScene(run: RunView, opts: SceneOptions): BuiltScene {
   scene.add(guides);
   scene.updateMatrixWorld(true);
   bounds.union(new THREE.Box3().setFromObject(guides));
-  return { scene, electrodes, trajectories, guides, batch, legend: colors.legend, bounds, scaleBarMm, scaleBar };
+  const labels = electrodeLabelPoints(run.stages, opts.cutAzimuth);
+  return { scene, electrodes, trajectories, guides, batch, legend: colors.legend, bounds, scaleBarMm, scaleBar, triad: { origin, length: triadLen }, labels };
 }

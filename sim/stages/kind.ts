@@ -10,7 +10,7 @@ import type { GasSettings } from '../gas/settings.js';
 import type { Analyzer, OperatingPoint } from '../mathieu/parameters.js';
 import type { RfDrive } from './base.js';
 import type { Stage } from './types.js';
-import type { OutlinePart } from './outline.js';
+import type { ElectrodeLabel, OutlinePart } from './outline.js';
 
 /** What an entry's resolution gets besides its validated keys. */
 export interface ResolveContext {
@@ -73,6 +73,11 @@ export interface StageKind<S extends Stage = Stage> {
   describe(st: Readonly<Record<string, unknown>>): string;
   /** Electrode outline for the renderer (scene data: stage-local SI lengths). */
   outline(st: Readonly<Record<string, unknown>>): OutlinePart[];
+  /**
+   * Names and voltages of the stage's electrodes for the 3D view (scene data as stored in a run
+   * folder's provenance: stage-local SI lengths, volts). Empty for a stage with nothing to label.
+   */
+  electrodeLabels(st: Readonly<Record<string, unknown>>): ElectrodeLabel[];
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */
   readonly assumptions: readonly string[];
 }

@@ -15,3 +15,25 @@ export interface OutlinePart {
    */
   reachR0?: number;
 }
+
+/** A point a label's leader line may end at, on one electrode of the stage. */
+export interface LabelAnchor {
+  /**
+   * Distance from the axis, m; with `rim`, a fraction of the radius the renderer draws the
+   * electrode at (the stage's aperture, or the tube radius it uses when there is none).
+   */
+  r: number;
+  rim?: boolean;
+  /** Along the stage from its entrance, m. */
+  z: number;
+  /** Azimuths (rad, atan2(y, x)) the electrode sits at; undefined when it goes all round. */
+  azimuths?: readonly number[];
+}
+
+/** The name and voltage of one electrode (or set) as the figure labels it. */
+export interface ElectrodeLabel {
+  /** E.g. "rods x +(138 V + 832 V RF)", "end caps 0 V", "reflectron 3.3 kV". */
+  text: string;
+  /** Where the leader line may end; the renderer picks the one best in view. */
+  at: readonly LabelAnchor[];
+}

@@ -16,8 +16,9 @@ export class Layers {
   readonly lColor: Float32Array;
   readonly lAlpha: Float32Array;
   readonly lDepth: Float32Array;
-  /** Scratch of one polyline: max coverage per pixel, its depth, and the pixels touched. */
+  /** Scratch of one polyline: max coverage per pixel, its depth and colour there, and the pixels touched. */
   readonly pCover: Float32Array;
+  readonly pColor: Float32Array;
   readonly pDepth: Float32Array;
   readonly touched: Int32Array;
 
@@ -34,6 +35,7 @@ export class Layers {
     this.lAlpha = new Float32Array(n);
     this.lDepth = new Float32Array(n).fill(Infinity);
     this.pCover = new Float32Array(n);
+    this.pColor = new Float32Array(3 * n);
     this.pDepth = new Float32Array(n).fill(Infinity);
     this.touched = new Int32Array(n);
   }

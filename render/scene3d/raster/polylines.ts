@@ -9,12 +9,21 @@ import type { Layers } from './layers.js';
 
 export class PolylinePainter {
   private nTouched = 0;
+  /** Colours at the two ends of the next segment (vertex colours; see `flushOwnColors`). */
+  private r0 = 0; private g0 = 0; private b0 = 0; private r1 = 0; private g1 = 0; private b1 = 0;
   constructor(private readonly L: Layers) {}
+
+  /** Colours at the start and end of the next segments, interpolated along each. */
+  endColors(r0: number, g0: number, b0: number, r1: number, g1: number, b1: number): void {
+    this.r0 = r0; this.g0 = g0; this.b0 = b0; this.r1 = r1; this.g1 = g1; this.b1 = b1;
+  }
 
   /** Add one segment of the current polyline (layer pixel coordinates, NDC depth). */
   segment(x0: number, y0: number, z0: number, x1: number, y1: number, z1: number, hw: number): void {
     const L = this.L, W = L.width, H = L.height;
-    const cover = L.pCover, pdepth = L.pDepth, touched = L.touched;
+    const cover = L.pCover, pdepth = L.pDepth, touched = L.touched, pcol = L.pColor;
+    const { r0, g0, b0 } = this;
+    const dr = this.r1 - r0, dg = this.g1 - g0, db = this.b1 - b0;
     const dx = x1 - x0, dy = y1 - y0;
     const len2 = dx * dx + dy * dy;
     const inv = len2 > 0 ? 1 / len2 : 0;
@@ -43,7 +52,11 @@ export class PolylinePainter {
         const p = xMajor ? n * W + m : m * W + n;
         const cv = cov > 1 ? 1 : cov;
         if (cover[p] === 0) touched[this.nTouched++] = p;
-        if (cv > cover[p]) cover[p] = cv;
+        if (cv > cover[p]) {
+          // The colour of the segment that covers the pixel most, at the nearest point of it.
+          cover[p] = cv;
+          pcol[3 * p] = r0 + t * dr; pcol[3 * p + 1] = g0 + t * dg; pcol[3 * p + 2] = b0 + t * db;
+        }
         const z = z0 + t * (z1 - z0);
         if (z < pdepth[p]) pdepth[p] = z;
       }
@@ -52,11 +65,21 @@ export class PolylinePainter {
 
   /** Blend the current polyline into the line layer with colour (r, g, b) and opacity, then reset. */
   flush(r: number, g: number, b: number, opacity: number): void {
-    const L = this.L;
+    this.blend(r, g, b, opacity, false);
+  }
+
+  /** Blend the current polyline with the colours given by `endColors` along it, then reset. */
+  flushOwnColors(opacity: number): void {
+    this.blend(0, 0, 0, opacity, true);
+  }
+
+  private blend(r: number, g: number, b: number, opacity: number, own: boolean): void {
+    const L = this.L, pcol = L.pColor;
     const cover = L.pCover, pdepth = L.pDepth, touched = L.touched;
     const lc = L.lColor, la = L.lAlpha, ld = L.lDepth;
     for (let i = 0; i < this.nTouched; i++) {
       const p = touched[i];
+      if (own) { r = pcol[3 * p]; g = pcol[3 * p + 1]; b = pcol[3 * p + 2]; }
       const a = cover[p] * opacity;
       const z = pdepth[p];
       if (z <= ld[p]) {

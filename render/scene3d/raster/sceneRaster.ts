@@ -103,7 +103,8 @@ export function rasteriseLineObjects(scene: THREE.Object3D, camera: THREE.Camera
 /**
  * The trajectory batch: every point projected once; points closer than `minStepPx` to the last
  * drawn one are skipped (they would not change the picture), the last point of each ion is kept.
- * `scratch` holds one projected polyline and is sized by the caller to the longest trajectory.
+ * Colours are per point (batch.rgb), interpolated along each segment. `scratch` holds one
+ * projected polyline (x, y, depth, point index) and is sized by the caller: 4 × the longest trajectory.
  */
 export function rasteriseBatch(batch: PolylineBatch, camera: THREE.Camera, L: Layers, style: LineStyle, scratch: Float64Array, minStepPx = 0.6): number {
   const vp = new THREE.Matrix4().multiplyMatrices(camera.projectionMatrix, camera.matrixWorldInverse);
@@ -117,38 +118,51 @@ export function rasteriseBatch(batch: PolylineBatch, camera: THREE.Camera, L: La
     let kept = 0;
     let lx = NaN, ly = NaN;
     for (let i = a; i < b; i++) {
-      const o = 3 * kept;
+      const o = 4 * kept;
       if (!toScreen(m, W, H, P[3 * i], P[3 * i + 1], P[3 * i + 2], scratch, o)) continue;
       const ddx = scratch[o] - lx, ddy = scratch[o + 1] - ly;
       if (kept > 0 && i < b - 1 && ddx * ddx + ddy * ddy < min2) continue;
       lx = scratch[o]; ly = scratch[o + 1];
+      scratch[o + 3] = i;
       kept++;
     }
     for (let j = 0; j + 1 < kept; j++) {
-      const o = 3 * j;
-      painter.segment(scratch[o], scratch[o + 1], scratch[o + 2], scratch[o + 3], scratch[o + 4], scratch[o + 5], hw);
+      const o = 4 * j, i0 = 3 * scratch[o + 3], i1 = 3 * scratch[o + 7];
+      painter.endColors(rgb[i0], rgb[i0 + 1], rgb[i0 + 2], rgb[i1], rgb[i1 + 1], rgb[i1 + 2]);
+      painter.segment(scratch[o], scratch[o + 1], scratch[o + 2], scratch[o + 4], scratch[o + 5], scratch[o + 6], hw);
     }
-    if (kept === 1) painter.segment(scratch[0], scratch[1], scratch[2], scratch[0], scratch[1], scratch[2], hw);
+    if (kept === 1) {
+      const i0 = 3 * scratch[3];
+      painter.endColors(rgb[i0], rgb[i0 + 1], rgb[i0 + 2], rgb[i0], rgb[i0 + 1], rgb[i0 + 2]);
+      painter.segment(scratch[0], scratch[1], scratch[2], scratch[0], scratch[1], scratch[2], hw);
+    }
     drawn += kept;
-    painter.flush(rgb[3 * k], rgb[3 * k + 1], rgb[3 * k + 2], style.opacity);
+    painter.flushOwnColors(style.opacity);
   }
   return drawn;
 }
 
-/** A round dot of radius `r` px at the last point of each trajectory k with mark[k] set (struck ions). */
-export function markEnds(batch: PolylineBatch, mark: Uint8Array, camera: THREE.Camera, L: Layers, r: number, opacity: number): number {
+/**
+ * A small cross (arms `r` px from the centre, diagonal) at the last point of each trajectory k
+ * that has a colour in `marks` (3 per trajectory; NaN in the first: no mark): where ions struck.
+ */
+export function markEnds(batch: PolylineBatch, marks: Float32Array, camera: THREE.Camera, L: Layers, r: number, lineWidth: number, opacity: number): number {
   const vp = new THREE.Matrix4().multiplyMatrices(camera.projectionMatrix, camera.matrixWorldInverse);
   const m = vp.elements;
   const painter = new PolylinePainter(L);
   const s = new Float64Array(3);
-  const { positions: P, start, rgb } = batch;
+  const { positions: P, start } = batch;
+  const hw = lineWidth / 2;
   let n = 0;
   for (let k = 0; k + 1 < start.length; k++) {
-    if (!mark[k] || start[k + 1] <= start[k]) continue;
+    if (Number.isNaN(marks[3 * k]) || start[k + 1] <= start[k]) continue;
     const i = start[k + 1] - 1;
     if (!toScreen(m, L.width, L.height, P[3 * i], P[3 * i + 1], P[3 * i + 2], s, 0)) continue;
-    painter.segment(s[0], s[1], s[2], s[0], s[1], s[2], r);
-    painter.flush(rgb[3 * k], rgb[3 * k + 1], rgb[3 * k + 2], opacity);
+    // Drawn just in front of the end point so the cross sits over the ion's own line.
+    const z = s[2] - 1e-6;
+    painter.segment(s[0] - r, s[1] - r, z, s[0] + r, s[1] + r, z, hw);
+    painter.segment(s[0] - r, s[1] + r, z, s[0] + r, s[1] - r, z, hw);
+    painter.flush(marks[3 * k], marks[3 * k + 1], marks[3 * k + 2], opacity);
     n++;
   }
   return n;

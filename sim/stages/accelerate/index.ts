@@ -5,12 +5,16 @@
 import { Fate } from '../../core/batch.js';
 import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, VOLTAGE_FIELD } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
-import { lengthMm, volts } from '../shared/describe.js';
+import { lengthMm, num, voltLabel, volts } from '../shared/describe.js';
 import { uniformField } from '../shared/uniform-field.js';
 import { trackUniform } from '../shared/uniform-kernel.js';
 import type { AccelerateStage } from './stage.js';
 
 const region = { kind: 'object', fields: { length: LENGTH_FIELD, voltage: VOLTAGE_FIELD }, required: ['length', 'voltage'] } as const;
+
+const ROLE_LABEL: Record<string, string> = {
+  gap: 'acceleration gap', reflectron: 'reflectron', 'source-extraction': 'extraction', 'source-acceleration': 'acceleration',
+};
 
 export const accelerateKind: StageKind<AccelerateStage> = {
   type: 'accelerate',
@@ -48,5 +52,13 @@ export const accelerateKind: StageKind<AccelerateStage> = {
   gasPieces: false,
   describe: (s) => `${s.role === 'reflectron' ? 'reflectron' : 'acceleration'} ${lengthMm(s)} mm${typeof s.voltage === 'number' ? `, ${volts(s.voltage)}` : ''}`,
   outline: (s) => [{ shape: s.role === 'reflectron' ? 'ring-stack' : 'grid-gap' }],
+  electrodeLabels(s) {
+    // Only the potential difference across a uniform-field region is defined by the stage, so each
+    // label carries the drop across its own region: at the back plate for a reflectron (whose
+    // stored voltage is negative, retarding), at the entrance grid otherwise.
+    const v = Math.abs(num(s.voltage) ?? 0), len = num(s.length) ?? 0;
+    const name = ROLE_LABEL[String(s.role)] ?? ROLE_LABEL.gap;
+    return [{ text: `${name} ${voltLabel(v)}`, at: [{ r: 1, rim: true, z: s.role === 'reflectron' ? len : 0 }] }];
+  },
   assumptions: ['Acceleration, source and reflectron regions are uniform fields between ideal, fully transparent grids: no grid scattering, no field penetration through the meshes.'],
 };

@@ -33,5 +33,6 @@ export const driftKind: StageKind<DriftStage> = {
   fastPathKeys: new Set(['type', 'length', 'aperture', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
   describe: (s) => `drift ${lengthMm(s)} mm`,
   outline: () => [{ shape: 'tube' }],
+  electrodeLabels: (s) => [{ text: 'drift tube, field-free', at: [{ r: 1, rim: true, z: 0.5 * (typeof s.length === 'number' ? s.length : 0) }] }],
   assumptions: ['Drift regions are field-free, with a hard aperture where one is given.'],
 };

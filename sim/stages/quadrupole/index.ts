@@ -7,7 +7,7 @@ import { adaptiveQuadrupole } from './adaptive.js';
 import { quadrupoleField } from './field.js';
 import { trackQuadrupole } from './kernel.js';
 import type { QuadrupoleStage } from './stage.js';
-import { lengthMm, mm2 } from '../shared/describe.js';
+import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
 
 export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   type: 'quadrupole',
@@ -32,5 +32,16 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   operatingPoint: (st) => ({ analyzer: 'quadrupole', r0: st.r0, z0: undefined, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `quadrupole ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
   outline: () => [{ shape: 'rod-set', reachR0: 1.5 }],
+  electrodeLabels(s) {
+    // Rods at ±(U + V cos Ωt) (DESIGN.md): the x pair carries +, the y pair −. Anchors sit inside
+    // the rod bodies (hyperbolic and round rods both span 1.6·r0), staggered along z.
+    const r0 = num(s.r0) ?? 0, len = num(s.length) ?? 0;
+    const v = dcPlusRf(num(s.dc) ?? 0, rfAmplitude(s));
+    const wrap = v.includes(' + ') ? `(${v})` : v;
+    return [
+      { text: `rods x +${wrap}`, at: [{ r: 1.6 * r0, z: 0.62 * len, azimuths: [0, Math.PI] }] },
+      { text: `rods y −${wrap}`, at: [{ r: 1.6 * r0, z: 0.38 * len, azimuths: [Math.PI / 2, -Math.PI / 2] }] },
+    ];
+  },
   assumptions: ['No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.'],
 };

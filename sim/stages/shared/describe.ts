@@ -9,3 +9,26 @@ export const lengthMm = (s: Raw) => ((n(s.zEnd) - n(s.zStart)) * MM).toFixed(1);
 /** A length field in mm with two decimals (0 when missing). */
 export const mm2 = (v: unknown) => (n(v) * MM).toFixed(2);
 export const volts = (v: number) => (Math.abs(v) >= 1000 ? `${(v / 1000).toPrecision(3)} kV` : `${v.toPrecision(3)} V`);
+
+/**
+ * A voltage for an electrode label: three significant figures without trailing zeros, in V or kV
+ * ("138 V", "3.3 kV", "0 V"); the sign only when asked for or negative.
+ */
+export function voltLabel(v: number, signed = false): string {
+  const k = Math.abs(v) >= 1000;
+  const x = Number((k ? v / 1000 : v).toPrecision(3));
+  const text = `${x === 0 ? 0 : x} ${k ? 'kV' : 'V'}`;
+  return signed && x > 0 ? `+${text}` : text;
+}
+
+/** Number field of a stored stage, or undefined. */
+export const num = (v: unknown): number | undefined => (typeof v === 'number' && Number.isFinite(v) ? v : undefined);
+
+/** RF amplitude of a stored stage's `rf` block, V (0 when missing). */
+export const rfAmplitude = (s: Raw): number => num((s.rf as Raw | undefined)?.amplitude) ?? 0;
+
+/** "138 V + 832 V RF", "832 V RF", "138 V" or "0 V": the DC and RF (zero-to-peak) on an electrode. */
+export function dcPlusRf(dc: number, rf: number): string {
+  if (rf === 0) return voltLabel(dc);
+  return dc === 0 ? `${voltLabel(rf)} RF` : `${voltLabel(dc)} + ${voltLabel(rf)} RF`;
+}

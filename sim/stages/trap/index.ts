@@ -4,7 +4,7 @@
 import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
 import { trackAdaptive } from '../shared/adaptive.js';
-import { mm2 } from '../shared/describe.js';
+import { dcPlusRf, mm2, num, rfAmplitude, voltLabel } from '../shared/describe.js';
 import { adaptiveTrap } from './adaptive.js';
 import { trapField } from './field.js';
 import { trackTrap } from './kernel.js';
@@ -46,5 +46,18 @@ export const trapKind: StageKind<TrapStage> = {
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `RF trap r0 ${mm2(s.r0)} mm, z0 ${mm2(s.z0)} mm`,
   outline: () => [{ shape: 'hyperbolic-trap', reachR0: 1 }],
+  electrodeLabels(s) {
+    // Ring at U + V cos Ωt, end caps grounded (DESIGN.md), the supplementary AC between the caps.
+    // Anchors inside the ring body on its mid-plane and behind each cap face, about the centre.
+    const r0 = num(s.r0) ?? 0, z0 = num(s.z0) ?? r0 / Math.SQRT2, zc = (num(s.length) ?? 2 * z0) / 2;
+    const aux = s.aux as Readonly<Record<string, unknown>> | undefined;
+    const ac = num(aux?.amplitude);
+    const caps = `end caps 0 V${ac ? ` + ${voltLabel(ac)} AC cap to cap` : ''}`;
+    const capZ = Math.sqrt(z0 * z0 + 0.32 * r0 * r0) + 0.1 * z0;
+    return [
+      { text: `ring ${dcPlusRf(num(s.dc) ?? 0, rfAmplitude(s))}`, at: [{ r: 1.4 * r0, z: zc }] },
+      { text: caps, at: [{ r: 0.8 * r0, z: zc + capZ }, { r: 0.8 * r0, z: zc - capZ }] },
+    ];
+  },
   assumptions: ['No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.'],
 };
