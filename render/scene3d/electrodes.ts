@@ -7,6 +7,7 @@
 // Spectrometry", 2nd ed. (2005), ch. 2; from memory), built with LatheGeometry.
 
 import * as THREE from 'three';
+import { mergeGeometries } from 'three/examples/jsm/utils/BufferGeometryUtils.js';
 import { ELECTRODE_COLORS, type Rgb } from './palette.js';
 import type { PlacedStage } from './runInput.js';
 import { kindNamed } from '../../sim/stages/registry.js';
@@ -178,7 +179,9 @@ function trap(stage: PlacedStage, opts: ElectrodeOptions): THREE.Group {
     m.name = name;
     g.add(m);
   };
-  for (const part of ringParts) add(lathe(part, phiStart, phiLength), ringMat, 'ring');
+  // Each electrode is one mesh of its lathed parts: a closed solid when the trap is whole.
+  const solid = (parts: THREE.Vector2[][]) => mergeGeometries(parts.map((part) => lathe(part, phiStart, phiLength)));
+  add(solid(ringParts), ringMat, 'ring');
 
   // End caps: face z = √(z0² + r²/2) from the hole (aperture) out to rc, back plate behind it.
   const ra = Math.min(stage.aperture !== undefined ? stage.aperture * MM : 0.1 * z0, 0.6 * r0);
@@ -193,7 +196,7 @@ function trap(stage: PlacedStage, opts: ElectrodeOptions): THREE.Group {
       [new THREE.Vector2(rc, sgn * zBack), new THREE.Vector2(ra, sgn * zBack)],
       [new THREE.Vector2(ra, sgn * zBack), new THREE.Vector2(ra, sgn * zFace(ra))],
     ];
-    for (const part of parts) add(lathe(part, phiStart, phiLength), capMat, sgn > 0 ? 'end cap +z' : 'end cap −z');
+    add(solid(parts), capMat, sgn > 0 ? 'end cap +z' : 'end cap −z');
     if (cut) {
       const prof = [...capFace, new THREE.Vector2(rc, sgn * zBack), new THREE.Vector2(ra, sgn * zBack)];
       for (const psi of [opts.cutAzimuth! - gap / 2, opts.cutAzimuth! + gap / 2]) add(section(prof, psi), secMat, 'section');

@@ -1,9 +1,11 @@
 // The run's 3D scene as glTF 2.0 binary (.glb) through three's GLTFExporter (three 0.187,
 // examples/jsm/exporters/GLTFExporter.js). Trajectories are LINE_STRIP primitives with COLOR_0.
+// Electrodes go out whole, each a closed solid: a viewer of the file orbits and sections it
+// itself, so the PNG's cut toward one camera (and its rod drawn as an outline) has no place here.
 
 import * as THREE from 'three';
 import { GLTFExporter } from 'three/examples/jsm/exporters/GLTFExporter.js';
-import { cameraDirection, type CameraName } from './cameras.js';
+import type { CameraName } from './cameras.js';
 import type { RodShape } from './electrodes.js';
 import { installFileReaderShim } from './nodeShim.js';
 import type { RunView } from './runInput.js';
@@ -14,9 +16,7 @@ export interface GlbOptions { color: ColorBy; rods: RodShape; camera: CameraName
 
 export async function renderGlb(run: RunView, opts: GlbOptions): Promise<Uint8Array> {
   installFileReaderShim();
-  const dir = cameraDirection(opts.camera);
-  const cutAzimuth = opts.camera === 'axial' ? undefined : Math.atan2(dir.y, dir.x);
-  const built = buildScene(run, { rods: opts.rods, color: opts.color, cutAzimuth, scaleAxis: opts.camera === 'axial' ? 'x' : 'z' });
+  const built = buildScene(run, { rods: opts.rods, color: opts.color, scaleAxis: opts.camera === 'axial' ? 'x' : 'z' });
   const scene = built.scene;
   // glTF's material is metallic-roughness PBR; a Lambert surface maps to rough, non-metallic.
   const pbr = new Map<THREE.Material, THREE.MeshStandardMaterial>();
@@ -43,6 +43,7 @@ export async function renderGlb(run: RunView, opts: GlbOptions): Promise<Uint8Ar
   scene.userData = {
     units: 'mm', tool_version: run.toolVersion, seed: run.seed, scene_name: run.sceneName,
     scale_bar_mm: built.scaleBarMm, color_by: opts.color,
+    electrode_labels: built.labels.map((l) => l.text),
   };
   const out = await new GLTFExporter().parseAsync(scene, { binary: true, onlyVisible: true });
   return new Uint8Array(out as ArrayBuffer);

@@ -37,7 +37,7 @@ describe('iontrail render', () => {
     ['unknown camera', () => ['render', runDir, '-o', join(tmp, 'x.png'), '--camera', 'topdown'], /unknown camera 'topdown'.*iso\|axial\|side/],
     ['missing output folder', () => ['render', runDir, '-o', join(tmp, 'nowhere', 'x.png')], /output folder does not exist/],
     ['unknown extension', () => ['render', runDir, '-o', join(tmp, 'x.jpg')], /unknown extension '\.jpg'.*\.png, \.glb or \.html/],
-    ['bad --color', () => ['render', runDir, '-o', join(tmp, 'x.png'), '--color', 'speed'], /--color 'speed' is not one of mz\|fate/],
+    ['bad --color', () => ['render', runDir, '-o', join(tmp, 'x.png'), '--color', 'speed'], /--color 'speed' is not one of time\|energy\|mz\|fate/],
   ];
   for (const [what, args, message] of bad) {
     it(`${what}: one-line error, exit 2, no output`, () => {
