@@ -52,15 +52,15 @@ const lines = [];
 const heads = new Float32Array(3 * n);
 const headColors = new Float32Array(3 * n);
 const lineMat = new THREE.LineBasicMaterial({ vertexColors: true, transparent: true, opacity: n > 300 ? 0.45 : 0.9 });
+// Colours come per point as sRGB bytes; vertex colours are linear in three's pipeline.
+const toLinear = Float32Array.from({ length: 256 }, (_, v) => new THREE.Color().setRGB(v / 255, 0, 0, THREE.SRGBColorSpace).r);
 for (let k = 0; k < n; k++) {
   const a = S[k], b = S[k + 1];
   const g = new THREE.BufferGeometry();
   g.setAttribute('position', new THREE.BufferAttribute(P.subarray(3 * a, 3 * b), 3));
   const col = new Float32Array(3 * (b - a));
-  // Colours are sRGB; vertex colours are linear in three's pipeline.
-  const lin = new THREE.Color().setRGB(C[3 * k] / 255, C[3 * k + 1] / 255, C[3 * k + 2] / 255, THREE.SRGBColorSpace);
-  for (let i = 0; i < b - a; i++) { col[3 * i] = lin.r; col[3 * i + 1] = lin.g; col[3 * i + 2] = lin.b; }
-  headColors.set(col.subarray(0, 3), 3 * k);
+  for (let i = 0; i < 3 * (b - a); i++) col[i] = toLinear[C[3 * a + i]];
+  headColors.set(col.subarray(Math.max(0, col.length - 3)), 3 * k);
   g.setAttribute('color', new THREE.BufferAttribute(col, 3));
   const line = new THREE.Line(g, lineMat);
   line.renderOrder = 1;
@@ -73,6 +73,65 @@ headGeo.setAttribute('color', new THREE.BufferAttribute(headColors, 3));
 const headPts = new THREE.Points(headGeo, new THREE.PointsMaterial({ size: 5, sizeAttenuation: false, vertexColors: true }));
 headPts.renderOrder = 3;
 scene.add(headPts);
+
+// Labels in the canvas: sprites of canvas-drawn text, a fixed size on screen (sizeAttenuation off),
+// drawn over the scene (no depth test) so a label is never hidden behind an electrode.
+const labelSprites = [];
+function textSprite(item, lane) {
+  const px = item.kind === 'axis' ? 15 : 13, pad = item.kind === 'electrode' ? 5 : 2, k = 2;
+  const c = document.createElement('canvas');
+  const ctx = c.getContext('2d');
+  const font = (item.kind === 'axis' ? 'bold ' : '') + (px * k) + 'px "DejaVu Sans", "Liberation Sans", sans-serif';
+  ctx.font = font;
+  const w = Math.ceil(ctx.measureText(item.text).width + 2 * pad * k), h = Math.ceil((px + 2 * pad + 4) * k);
+  c.width = w; c.height = h;
+  ctx.font = font;
+  if (item.kind === 'electrode') {
+    ctx.fillStyle = 'rgba(251,250,246,0.9)'; ctx.strokeStyle = 'rgba(36,38,43,0.4)'; ctx.lineWidth = k;
+    ctx.beginPath(); ctx.roundRect(k, k, w - 2 * k, h - 2 * k, 3 * k); ctx.fill(); ctx.stroke();
+  }
+  ctx.fillStyle = item.color; ctx.textBaseline = 'middle';
+  ctx.fillText(item.text, pad * k, h / 2 + k);
+  const tex = new THREE.CanvasTexture(c);
+  tex.colorSpace = THREE.SRGBColorSpace;
+  tex.generateMipmaps = false;
+  tex.minFilter = THREE.LinearFilter;
+  const sprite = new THREE.Sprite(new THREE.SpriteMaterial({ map: tex, sizeAttenuation: false, depthTest: false, depthWrite: false, transparent: true }));
+  sprite.userData = { wPx: w / k, hPx: h / k };
+  // Electrode labels sit up and right of their anchor, each a lane higher than the one before so
+  // neighbours do not overlap; the scale text hangs centred below the bar.
+  if (item.kind === 'electrode') sprite.center.set(-0.06, -0.45 - 1.25 * lane);
+  else if (item.kind === 'scale') sprite.center.set(0.5, 1);
+  sprite.position.set(item.at[0], item.at[1], item.at[2]);
+  sprite.renderOrder = 10;
+  sprite.name = 'label ' + item.text;
+  return sprite;
+}
+const anchorPos = [];
+let lane = 0;
+for (const item of data.labels) {
+  const s = textSprite(item, item.kind === 'electrode' ? lane++ : 0);
+  labelSprites.push(s);
+  scene.add(s);
+  if (item.kind === 'electrode') anchorPos.push(...item.at);
+}
+const anchorDots = new THREE.Points(new THREE.BufferGeometry().setAttribute('position', new THREE.BufferAttribute(new Float32Array(anchorPos), 3)),
+  new THREE.PointsMaterial({ size: 5, sizeAttenuation: false, color: 0x24262b, depthTest: false }));
+anchorDots.renderOrder = 10;
+scene.add(anchorDots);
+document.body.dataset.labels = data.labels.map((l) => l.text).join('|');
+const labelsButton = document.getElementById('labels');
+labelsButton.addEventListener('click', () => {
+  const on = labelsButton.getAttribute('aria-pressed') !== 'true';
+  labelsButton.setAttribute('aria-pressed', String(on));
+  for (const s of labelSprites) s.visible = on;
+  anchorDots.visible = on;
+});
+/** Sprite scale for a size in pixels: with sizeAttenuation off, 1 unit spans 2·tan(fov/2) of the view height. */
+function sizeLabels(hPx) {
+  const unit = 2 * Math.tan(THREE.MathUtils.degToRad(camera.fov / 2)) / Math.max(1, hPx);
+  for (const s of labelSprites) s.scale.set(s.userData.wPx * unit, s.userData.hPx * unit, 1);
+}
 
 const tMax = tr.tMax;
 const slider = document.getElementById('time');
@@ -134,6 +193,7 @@ function resize() {
   camera.aspect = w / Math.max(1, h);
   camera.near = radius / 50; camera.far = radius * 50;
   camera.updateProjectionMatrix();
+  sizeLabels(h);
 }
 window.addEventListener('resize', resize);
 resize();

@@ -45,6 +45,8 @@ export async function makeRunFolder(dir: string, opts: FixtureOptions): Promise<
   const tI = new Int32Array(N * P), t = new Float64Array(N * P);
   const x = new Float64Array(N * P), y = new Float64Array(N * P), z = new Float64Array(N * P);
   const zero = new Float64Array(N * P);
+  // Axial speed of each point (the TOF fixture flies at constant speed after its gap; others 0).
+  const vzAll = new Float64Array(N * P);
   const ux = new Float64Array(P), uy = new Float64Array(P), uz = new Float64Array(P);
   const r0 = kind === 'trap' ? 10e-3 : 4e-3, z0 = 7.07e-3;
   const L = 0.12, drift = 0.04, rfHz = 1.1e6;
@@ -87,6 +89,7 @@ export async function makeRunFolder(dir: string, opts: FixtureOptions): Promise<
       for (let k = 0; k < P; k++) {
         tI[o + k] = i; t[o + k] = (k / (P - 1)) * 0.31 / vz;
         x[o + k] = sx + (k / P) * sx; y[o + k] = sy + (k / P) * sy; z[o + k] = (k / (P - 1)) * 0.31;
+        vzAll[o + k] = vz;
       }
     }
     fate.push(f);
@@ -103,7 +106,7 @@ export async function makeRunFolder(dir: string, opts: FixtureOptions): Promise<
   const chunk = Math.max(1, Math.floor((N * P) / 3));
   for (let a = 0; a < N * P; a += chunk) {
     const b = Math.min(N * P, a + chunk);
-    w.appendTrajectory({ ion: tI.subarray(a, b), t: t.subarray(a, b), x: x.subarray(a, b), y: y.subarray(a, b), z: z.subarray(a, b), vx: zero.subarray(a, b), vy: zero.subarray(a, b), vz: zero.subarray(a, b) });
+    w.appendTrajectory({ ion: tI.subarray(a, b), t: t.subarray(a, b), x: x.subarray(a, b), y: y.subarray(a, b), z: z.subarray(a, b), vx: zero.subarray(a, b), vy: zero.subarray(a, b), vz: vzAll.subarray(a, b) });
   }
   const names = { filter: 'Skerry QF-4 m/z 219–264 window', trap: 'Skerry T-7 storage at q_z 0.3–0.8', tof: 'Skerry LT-1 flight tube' };
   const count = (f: string) => fate.filter((v) => v === f).length;

@@ -48,6 +48,22 @@ async function drawnPixels(png: Buffer): Promise<number> {
   return n;
 }
 
+async function rgba(png: Buffer): Promise<Uint8ClampedArray> {
+  const img = await loadImage(png);
+  const c = createCanvas(img.width, img.height);
+  const ctx = c.getContext('2d');
+  ctx.drawImage(img, 0, 0);
+  return ctx.getImageData(0, 0, img.width, img.height).data;
+}
+
+/** Pixels whose colour differs by more than 30/765 between two screenshots of the same size. */
+async function differingPixels(a: Buffer, b: Buffer): Promise<number> {
+  const [p, q] = [await rgba(a), await rgba(b)];
+  let n = 0;
+  for (let i = 0; i < p.length; i += 4) if (Math.abs(p[i] - q[i]) + Math.abs(p[i + 1] - q[i + 1]) + Math.abs(p[i + 2] - q[i + 2]) > 30) n++;
+  return n;
+}
+
 describe.skipIf(!exe)('HTML viewer in headless chromium', () => {
   it('loads with no console errors, no network, and draws a non-blank canvas that the time slider changes', async () => {
     const browser = await chromium.launch({
@@ -77,6 +93,22 @@ describe.skipIf(!exe)('HTML viewer in headless chromium', () => {
       // Early in the flight the ions have covered a fraction of their paths: fewer drawn pixels.
       expect(early).toBeLessThan(full);
       expect(await page.locator('#time-label').textContent()).toMatch(/^t = [\d.]+ (ns|µs|ms)$/);
+      // Labels in the canvas: the electrodes' names and voltages from the scene as resolved
+      // (fixture: rods at ±(100 V + 600 V cos Ωt)), the scale bar's length and the axis letters.
+      const texts = (await page.locator('body').getAttribute('data-labels'))!.split('|');
+      expect(texts).toEqual(expect.arrayContaining(['rods x +(100 V + 600 V RF)', 'rods y −(100 V + 600 V RF)', 'x', 'y', 'z']));
+      expect(texts.some((t) => /^\d+ mm$/.test(t))).toBe(true);
+      // ...drawn into the canvas: hiding them changes a few hundred pixels at least (each of the
+      // seven labels is 12–15 px text, some hundreds of pixels of glyphs), and the rest stays.
+      await page.locator('#time').fill('1000');
+      await page.waitForTimeout(300);
+      const withLabels = await canvas.screenshot();
+      await page.locator('#labels').click();
+      await page.waitForTimeout(300);
+      const without = await canvas.screenshot();
+      const changed = await differingPixels(withLabels, without);
+      expect(changed).toBeGreaterThan(500);
+      expect(changed).toBeLessThan(0.2 * box!.width * box!.height);
       expect(errors).toEqual([]);
       expect(requests).toEqual([]);
     } finally {

@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { renderPng, MARGINS } from '../../render/scene3d/png.js';
 import { readRunView, type RunView } from '../../render/scene3d/runInput.js';
-import { FATE_COLORS, BACKGROUND_TOP, BACKGROUND_BOTTOM } from '../../render/scene3d/palette.js';
+import { FATE_COLORS, BACKGROUND_TOP, BACKGROUND_BOTTOM, valueRamp } from '../../render/scene3d/palette.js';
 import { parseCameraName } from '../../render/scene3d/cameras.js';
 import { makeRunFolder } from './fixtures.js';
 
@@ -73,6 +73,23 @@ describe('3D PNG', () => {
     // legend swatches alone give about 3 × 16 = 48 pixels, so require clearly more than that.
     expect(near(p, FATE_COLORS.detected, 60)).toBeGreaterThan(200);
     expect(near(p, FATE_COLORS.hit, 60)).toBeGreaterThan(200);
+  });
+
+  it('by time of flight (the default): both ends of the colour bar appear along the trajectories, and struck ions end in crosses of the hit colour', async () => {
+    const r = renderPng(filter, { camera: 'side', color: 'time', rods: 'hyperbolic', width: 900, height: 560 });
+    const p = await pixels(r.png);
+    // The colour bar alone is 240 × 11 px spread over the whole map (≈ 10 columns per end colour,
+    // 110 pixels); the trajectories add far more of the early (dark) and late colours.
+    expect(near(p, valueRamp(0) as number[], 60)).toBeGreaterThan(300);
+    expect(near(p, valueRamp(1) as number[], 60)).toBeGreaterThan(300);
+    // The value map holds no red, so hit-coloured pixels come only from the crosses (fixture: most
+    // ions outside the m/z 219–264 window strike the rods).
+    // The trap fixture's ions all stay alive: no crosses, only the red x of the axis triad.
+    const none = renderPng(trap, { camera: 'side', color: 'time', rods: 'hyperbolic', width: 900, height: 560 });
+    const triadOnly = near(await pixels(none.png), FATE_COLORS.hit, 60);
+    expect(triadOnly).toBeLessThan(60);
+    // Each cross is two 6 px arms about 1.3 px wide: ≥ 10 pixels each, and many ions struck.
+    expect(near(p, FATE_COLORS.hit, 60)).toBeGreaterThan(triadOnly + 100);
   });
 
   it('the three presets give different pictures and each one shows the trap', async () => {

@@ -17,7 +17,8 @@ export const volts = (v: number) => (Math.abs(v) >= 1000 ? `${(v / 1000).toPreci
 export function voltLabel(v: number, signed = false): string {
   const k = Math.abs(v) >= 1000;
   const x = Number((k ? v / 1000 : v).toPrecision(3));
-  const text = `${x === 0 ? 0 : x} ${k ? 'kV' : 'V'}`;
+  // Typographic minus, as in the rods' ±.
+  const text = `${x === 0 ? 0 : x} ${k ? 'kV' : 'V'}`.replace(/^-/, '−');
   return signed && x > 0 ? `+${text}` : text;
 }
 
