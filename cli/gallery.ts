@@ -37,7 +37,7 @@ await iontrail('plot', join(RUNS, 't7'), '--kind', 'stability', '-o', fig('stabi
 await iontrail('plot', join(RUNS, 'lt1'), '--kind', 'arrival', '-o', fig('arrival.png'));
 await iontrail('plot', join(RUNS, 'rt1'), '--kind', 'energy', '-o', fig('energy.png'));
 await iontrail('render', join(RUNS, 'qf4'), '--ions', '0-59', '-o', fig('scene3d-filter.png'));
-await iontrail('render', join(RUNS, 't7'), '--ions', '0-39', '--color', 'mz', '-o', fig('scene3d-trap.png'));
+await iontrail('render', join(RUNS, 't7'), '--ions', '0-39', '-o', fig('scene3d-trap.png'));
 await iontrail('sweep', join('scenes', 't7-capacity.yaml'), '--vary', 'space_charge.weight=1..400:6', '--collect',
   'space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m,space_charge.lost',
   '-o', join(RUNS, 'capacity'), '--force');
