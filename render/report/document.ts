@@ -203,7 +203,7 @@ export function reportDocument(r: ReportResults): ReportDoc {
         ['started', p.started_at],
         ['report wall time', si(p.report_wall_time_s, 's', 3)],
         ['run wall time', si(p.run_wall_time_s, 's', 3)],
-        ['integrator', Object.entries(p.integrator).map(([k, v]) => `${k} ${typeof v === 'number' ? num(v, 6) : String(v)}`).join(', ')],
+        ['integrator', Object.entries(p.integrator).filter(([, v]) => v !== undefined && v !== null).map(([k, v]) => `${k} ${typeof v === 'number' ? num(v, 6) : String(v)}`).join(', ')],
         ['workers', String(p.workers)],
         ['run folder', `${p.run_folder}/ (summary.json, ions.arrow, history.arrow${p.trajectory_sample ? '' : ', trajectories.arrow when recorded'})`],
         ...(p.trajectory_sample ? [['trajectory sample', `${p.trajectory_sample.folder}/: ${p.trajectory_sample.ions_per_population} ions per species from the same start distributions, recorded every ${p.trajectory_sample.record_every} steps (the scene records none)`]] : []),
