@@ -88,6 +88,18 @@ function runExample(e: Example, extra: string[] = []) {
 }
 
 const json = (text: string) => JSON.parse(text);
+
+/** m/z window (`iontrail check --json`) of the scene's first stage, a quadrupole, optionally at another DC. */
+function sceneWindow(args: string[], dc?: string): { low: number; high: number; resolution: number } {
+  const scene = args.find((a) => a.startsWith('scenes/'))!;
+  const q = (parseYaml(readFileSync(join(ROOT, scene), 'utf8')) as { stages: Record<string, any>[] }).stages[0];
+  expect(q.type).toBe('quadrupole');
+  const flat = (v: string) => v.replace(/\s+/g, '');
+  const r = iontrail(['check', '--analyzer', 'quadrupole', '--r0', flat(q.r0), '--freq', flat(q.rf.frequency), '--rf', flat(q.rf.amplitude),
+    '--dc', flat(dc ?? q.dc), '--mz', '502', '--json']);
+  expect(r.code, r.stderr).toBe(0);
+  return json(r.stdout).mz_window;
+}
 const num = (s: string) => Number(s);
 
 /** "window m/z 498.9–505.4" in a claim. */
@@ -177,8 +189,8 @@ const CHECKERS: Checker[] = [
       runExample(e);
       const s = json(readFileSync(join(tmp, e.args[e.args.indexOf('-o') + 1], 'summary.json'), 'utf8'));
       const p = s.peak;
-      // The window of the scene's own point (832 V, 138.528 V): exact Floquet edges, `iontrail check`.
-      const w = json(iontrail(['check', '--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '832V', '--dc', '138.528V', '--mz', '502', '--json']).stdout).mz_window;
+      // The window of the scene's own point: exact Floquet edges, `iontrail check`.
+      const w = sceneWindow(e.args);
       expect(p.mz).toBeGreaterThan(w.low);
       expect(p.mz).toBeLessThan(w.high);
       expect(Math.abs(p.mz - 502)).toBeLessThan(1.5);
@@ -200,7 +212,7 @@ const CHECKERS: Checker[] = [
       expect(s.peaks).toHaveLength(n);
       let lastR = 0;
       for (const row of s.peaks) {
-        const w = json(iontrail(['check', '--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '832V', '--dc', `${row.value}V`, '--mz', '502', '--json']).stdout).mz_window;
+        const w = sceneWindow(e.args, `${row.value} V`);
         expect(row.peak, `DC ${row.value} V`).not.toBeNull();
         expect(row.peak.fwhm_mz, `DC ${row.value} V: bounded`).not.toBeNull();
         expect(row.peak.mz).toBeGreaterThan(w.low);
@@ -284,6 +296,9 @@ describe('README.md scene snippet', () => {
     const arg = (k: string) => check.args[check.args.indexOf(k) + 1].replace(/V$/, ' V');
     expect(quad.rf.amplitude).toBe(arg('--rf'));
     expect(quad.dc).toBe(arg('--dc'));
+    // The window in the snippet's comment is the one the check example claims (and checks).
+    const dcComment = snippet.split('\n').find((l) => /^\s*dc: /.test(l) && l.includes('window'))!;
+    expect(claimedWindow(dcComment)).toEqual(claimedWindow(check.claim));
   });
 
   it('runs and detects most of its m/z 502 ions; nothing prints NaN', () => {
