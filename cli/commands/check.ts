@@ -129,7 +129,7 @@ export function checkJson(r: OperatingPointReport): Record<string, unknown> {
   obj.notes = {
     beta: 'exact, from the Floquet monodromy matrix over one RF period',
     beta_small_q: 'small-q approximation sqrt(a + q^2/2), for comparison only',
-    well_depth_v: 'Dehmelt pseudopotential depth per charge at the electrode distance; valid for |q| < 0.4',
+    well_depth_v: 'Dehmelt pseudopotential depth per charge at the electrode distance; valid for |q| < 0.4; null when the axis is unstable (no well)',
     rf_v: 'zero-to-peak, measured rod (ring) to ground',
   };
   return obj;
@@ -159,7 +159,7 @@ export function checkLines(r: OperatingPointReport): string[] {
     fixed(x.betaSmallQ, 5),
     x.secularFrequencyHz === null ? '—' : formatSI(x.secularFrequencyHz, 'Hz'),
     x.sidebandsHz === null ? '—' : `${formatSI(x.sidebandsHz[0], 'Hz')} / ${formatSI(x.sidebandsHz[1], 'Hz')}`,
-    x.wellDepthV <= 0 ? 'none' : `${formatSI(x.wellDepthV, 'V')}${x.wellDepthValid ? '' : ' (|q| ≥ 0.4: rough)'}`,
+    x.wellDepthV === null ? 'none' : `${formatSI(x.wellDepthV, 'V')}${x.wellDepthValid ? '' : ' (|q| ≥ 0.4: rough)'}`,
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i].length)));
   const fmt = (cells: string[]) => cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ').trimEnd();

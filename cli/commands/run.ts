@@ -49,7 +49,9 @@ export async function run(argv: string[]): Promise<number> {
     lines.push(`  ${st.steps} ion-steps in ${st.wall_s.toFixed(2)} s (${(st.steps / Math.max(st.wall_s, 1e-9) / 1e6).toFixed(1)} M ion-steps/s)`);
     if (summary.cooling) {
       const c = summary.cooling as Record<string, number | null>;
-      lines.push(`  cooling: tau ${c.tau_s === null ? 'n/a' : `${((c.tau_s as number) * 1e3).toPrecision(3)} ms`}, final mean KE ${(c.final_mean_ke_ev as number).toPrecision(3)} eV, rms radius ${((c.final_rms_radius_m as number) * 1e3).toPrecision(3)} mm, ${(c.collisions_per_ion as number).toPrecision(3)} collisions/ion`);
+      // No ion left at the end (all detected or lost): the final figures do not exist; say n/a, never NaN.
+      const fig = (v: number | null, scale: number, unit: string) => (typeof v === 'number' && Number.isFinite(v) ? `${(v * scale).toPrecision(3)}${unit}` : 'n/a');
+      lines.push(`  cooling: tau ${fig(c.tau_s, 1e3, ' ms')}, final mean KE ${fig(c.final_mean_ke_ev, 1, ' eV')}, rms radius ${fig(c.final_rms_radius_m, 1e3, ' mm')}, ${fig(c.collisions_per_ion, 1, '')} collisions/ion`);
     }
     process.stdout.write(lines.join('\n') + '\n');
   }

@@ -15,6 +15,9 @@ export const describe = 'transmission over m/z or any scene key (peak, FWHM, res
 const USAGE = 'usage: iontrail sweep SCENE.yaml --vary KEY=A..B:N [--vary KEY=A..B:N] -o DIR [--scan-lines A..B:N] '
   + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--force] [--json]';
 
+/** How --vary ranges read (sim/sweeps/vary.ts); part of `sweep --help`. */
+export const RANGE_NOTE = '  --vary KEY=A..B:N   N evenly spaced values from A to B inclusive, A below B (a reversed range such as mz=514..490:10 is refused; write mz=490..514:10)';
+
 export async function run(argv: string[]): Promise<number> {
   const a = parseArgs(argv, {
     values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect'],
@@ -22,7 +25,7 @@ export async function run(argv: string[]): Promise<number> {
     repeatable: ['set', 'vary'],
     aliases: { o: 'out' },
   }, 'sweep');
-  if (a.switches.has('help')) { process.stdout.write(USAGE + '\n'); return 0; }
+  if (a.switches.has('help')) { process.stdout.write(USAGE + '\n\n' + RANGE_NOTE + '\n'); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`sweep: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
   if (!out) throw new UsageError('sweep: missing -o DIR (the folder for sweep.csv and summary.json)');

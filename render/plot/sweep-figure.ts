@@ -1,6 +1,7 @@
 // Figures of a sweep folder (`iontrail sweep`): chosen columns of sweep.csv against the first varied
 // key, one stacked panel per column — e.g. the trap's capacity curve (secular-frequency shift and
-// cloud size against stored charge) or transmission against a DC voltage.
+// cloud size against stored charge) or transmission against a DC voltage. A two-key sweep draws one
+// curve per value of the other key (a peak per DC value), never one line through every point.
 
 import { readFileSync, existsSync } from 'node:fs';
 import { join, basename, resolve } from 'node:path';
@@ -39,44 +40,79 @@ function unitOf(col: string, summary: Record<string, any>): { label: string; uni
   return { label, unit: m ? units[m[1]] : '' };
 }
 
+/** One curve of a panel: the rows sharing the values of the varied keys other than x. */
+export interface SweepSeries { label: string; rows: number[][] }
+
+/** Rows grouped by the other varied keys (one series when x is the only varied key). */
+export function sweepSeries(t: SweepTable, x: string): SweepSeries[] {
+  const keys: string[] = Array.isArray(t.summary.sweep?.keys) ? t.summary.sweep.keys : [];
+  const others = keys.filter((k) => k !== x && t.columns.includes(k));
+  if (others.length === 0) return [{ label: '', rows: t.rows }];
+  const idx = others.map((k) => t.columns.indexOf(k));
+  const groups = new Map<string, SweepSeries>();
+  for (const r of t.rows) {
+    const id = idx.map((i) => r[i]).join(',');
+    let g = groups.get(id);
+    if (!g) {
+      const label = others.map((k, j) => {
+        const u = unitOf(k, t.summary).unit;
+        return `${k} = ${Number(r[idx[j]].toPrecision(6))}${u ? ` ${u}` : ''}`;
+      }).join(', ');
+      g = { label, rows: [] };
+      groups.set(id, g);
+    }
+    g.rows.push(r);
+  }
+  return [...groups.values()];
+}
+
 export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): FigureSpec {
   const x = xCol ?? t.columns[0];
   const xi = t.columns.indexOf(x);
   if (xi < 0) throw new PlotError(`--x '${x}' is not a column of sweep.csv (columns: ${t.columns.join(', ')})`);
   const ys = yCols.length > 0 ? yCols : ['transmission'];
+  const series = sweepSeries(t, x);
+  const grouped = series.length > 1;
   const panels = ys.map((col, k) => {
     const yi = t.columns.indexOf(col);
     if (yi < 0) throw new PlotError(`--y '${col}' is not a column of sweep.csv (columns: ${t.columns.join(', ')})`);
-    const pts = t.rows.map((r) => [r[xi], r[yi]] as [number, number]).filter(([a, b]) => Number.isFinite(a) && Number.isFinite(b));
-    if (pts.length === 0) throw new PlotError(`${t.dir}: column '${col}' has no values`);
+    const curves = series.map((s, j) => ({
+      color: seriesColor(grouped ? j : k),
+      pts: s.rows.map((r) => [r[xi], r[yi]] as [number, number]).filter(([a, b]) => Number.isFinite(a) && Number.isFinite(b)).sort((p, q) => p[0] - q[0]),
+    }));
+    if (curves.every((c) => c.pts.length === 0)) throw new PlotError(`${t.dir}: column '${col}' has no values`);
     let lo = Infinity, hi = -Infinity, xlo = Infinity, xhi = -Infinity;
-    for (const [a, b] of pts) { lo = Math.min(lo, b); hi = Math.max(hi, b); xlo = Math.min(xlo, a); xhi = Math.max(xhi, a); }
+    for (const c of curves) for (const [a, b] of c.pts) { lo = Math.min(lo, b); hi = Math.max(hi, b); xlo = Math.min(xlo, a); xhi = Math.max(xhi, a); }
     if (!(hi > lo)) { const p = Math.abs(lo) * 0.05 || 1; lo -= p; hi += p; }
     if (!(xhi > xlo)) { xlo -= 1; xhi += 1; }
     const pad = 0.06 * (hi - lo);
-    const color = seriesColor(k);
     const yu = unitOf(col, t.summary), xu = unitOf(x, t.summary);
     return {
       x: { label: xu.label, unit: xu.unit, min: xlo, max: xhi },
       // Non-negative figures (transmission, widths) keep zero as the floor of the axis.
       y: { label: yu.label, unit: yu.unit, min: lo >= 0 ? Math.max(0, lo - pad) : lo - pad, max: hi + pad },
       draw: (ctx: any, g: any) => {
-        ctx.strokeStyle = color; ctx.lineWidth = 2;
-        ctx.beginPath();
-        pts.forEach(([a, b], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(b)) : ctx.lineTo(g.px(a), g.py(b))));
-        ctx.stroke();
-        ctx.fillStyle = color;
-        for (const [a, b] of pts) { ctx.beginPath(); ctx.arc(g.px(a), g.py(b), 3.5, 0, 2 * Math.PI); ctx.fill(); }
+        for (const { color, pts } of curves) {
+          ctx.strokeStyle = color; ctx.lineWidth = 2;
+          ctx.beginPath();
+          pts.forEach(([a, b], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(b)) : ctx.lineTo(g.px(a), g.py(b))));
+          ctx.stroke();
+          ctx.fillStyle = color;
+          const r = pts.length > 60 ? 2 : 3.5; // dense sweeps: dots that do not merge into a band
+          for (const [a, b] of pts) { ctx.beginPath(); ctx.arc(g.px(a), g.py(b), r, 0, 2 * Math.PI); ctx.fill(); }
+        }
       },
     };
   });
   const name = t.summary.scene_name ?? 'sweep';
   const p = t.summary.provenance ?? {};
+  const legend = grouped
+    ? series.map((s, j) => ({ label: s.label, color: seriesColor(j), mark: 'line' as const }))
+    : ys.map((c, k) => ({ label: c, color: seriesColor(k), mark: 'line' as const }));
   return {
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
-    subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}`,
-    legend: ys.map((c, k) => ({ label: c, color: seriesColor(k), mark: 'line' as const })),
-    panels, rows: panels.length, cols: 1, sharedX: true,
+    subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
+    legend, panels, rows: panels.length, cols: 1, sharedX: true,
     footer: `iontrail ${p.tool_version ?? '?'} · seed ${p.seed ?? '?'} · scene ${p.scene_file ?? '?'} · sweep ${basename(resolve(t.dir))}${p.started_at ? ` · started ${p.started_at}` : ''}`,
   };
 }

@@ -5,6 +5,7 @@
 import type { ReportResults, FigureEntry } from '../../sim/report/results.js';
 import type { OperatingPointRow } from '../../sim/report/operating-points.js';
 import { formatSI } from '../../sim/units/quantity.js';
+import { TOF_RESOLUTION_DEFINITION } from '../../sim/analysis/arrival.js';
 
 export type Block =
   | { kind: 'p'; text: string }
@@ -130,7 +131,7 @@ function tofBlocks(t: Record<string, unknown>): Block[] {
   const refl = sp.some((x) => 'linear_equivalent_resolution' in x);
   const out: Block[] = [{
     kind: 'table',
-    caption: 'Arrival-time peaks; resolution t/(2Δt) at FWHM',
+    caption: `Arrival-time peaks; resolution ${TOF_RESOLUTION_DEFINITION}`,
     head: ['m/z', 'detected', 'arrival time', 'FWHM', 'resolution', 'energy FWHM', ...(refl ? ['FWHM without reflectron', 'resolution without reflectron'] : [])],
     rows: sp.map((x) => [num(x.mz, 6), int(x.detected), si(x.arrival_time_s, 's', 6), si(x.fwhm_s, 's', 3), num(x.resolution_fwhm, 4), si(x.energy_fwhm_ev, 'eV', 3),
       ...(refl ? [si(x.linear_equivalent_fwhm_s, 's', 3), num(x.linear_equivalent_resolution, 4)] : [])]),
@@ -203,7 +204,7 @@ export function reportDocument(r: ReportResults): ReportDoc {
         ['started', p.started_at],
         ['report wall time', si(p.report_wall_time_s, 's', 3)],
         ['run wall time', si(p.run_wall_time_s, 's', 3)],
-        ['integrator', Object.entries(p.integrator).map(([k, v]) => `${k} ${typeof v === 'number' ? num(v, 6) : String(v)}`).join(', ')],
+        ['integrator', Object.entries(p.integrator).filter(([, v]) => v !== undefined && v !== null).map(([k, v]) => `${k} ${typeof v === 'number' ? num(v, 6) : String(v)}`).join(', ')],
         ['workers', String(p.workers)],
         ['run folder', `${p.run_folder}/ (summary.json, ions.arrow, history.arrow${p.trajectory_sample ? '' : ', trajectories.arrow when recorded'})`],
         ...(p.trajectory_sample ? [['trajectory sample', `${p.trajectory_sample.folder}/: ${p.trajectory_sample.ions_per_population} ions per species from the same start distributions, recorded every ${p.trajectory_sample.record_every} steps (the scene records none)`]] : []),

@@ -44,6 +44,9 @@ export function crossings(x: readonly number[], y: readonly number[], fraction: 
  */
 export function peakFigures(x: readonly number[], y: readonly number[]): PeakFigures | null {
   if (x.length !== y.length || x.length < 2) throw new Error('peakFigures: x and y need the same length ≥ 2');
+  // Widths are high − low crossings: a falling x would give negative FWHMs (sweeps refuse
+  // reversed ranges in sim/sweeps/vary.ts, so this is a caller's bug, not a user's input).
+  for (let i = 1; i < x.length; i++) if (!(x[i] > x[i - 1])) throw new Error('peakFigures: x must increase strictly');
   let im = 0;
   for (let i = 1; i < y.length; i++) if (y[i] > y[im]) im = i;
   if (!(y[im] > 0)) return null;

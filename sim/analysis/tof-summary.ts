@@ -5,7 +5,7 @@
 // four times the penetration depth, L = 4p with p = (U/q)·L_r/V_r).
 
 import type { Scene } from '../scene/types.js';
-import { peakOf, fitMassCalibration } from './arrival.js';
+import { peakOf, fitMassCalibration, tofResolution } from './arrival.js';
 import { extractionFieldForFocus, spaceFocusDistance } from './wiley-mclaren.js';
 import { dcPotential, stageBasePotentials, stageFields } from '../engine/potential.js';
 import { stageAt } from '../engine/start.js';
@@ -31,18 +31,18 @@ export function tofSummary(scene: Scene, arrivals: number[][], driftKe: number[]
   const layout = tofLayout(scene.stages);
   const reflecting = layout.reflectron !== undefined;
   const species = scene.ions.map((p, k) => {
-    const pk = peakOf(arrivals[k] ?? []);
-    const lin = reflecting ? peakOf(linearEquivalent(arrivals[k] ?? [], driftKe[k] ?? [])) : null;
+    const pk = tofResolution(arrivals[k] ?? []);
+    const lin = reflecting ? tofResolution(linearEquivalent(arrivals[k] ?? [], driftKe[k] ?? [])) : null;
     const keSpread = peakOf(driftKe[k] ?? []);
     return {
       population: k, mz: p.mz, detected: arrivals[k]?.length ?? 0,
       arrival_time_s: pk ? pk.centre : null,
       fwhm_s: pk ? pk.fwhm : null,
-      resolution_fwhm: pk && pk.fwhm > 0 ? pk.centre / (2 * pk.fwhm) : null,
+      resolution_fwhm: pk ? pk.resolution : null,
       energy_fwhm_ev: keSpread ? keSpread.fwhm : null,
       ...(reflecting ? {
         linear_equivalent_fwhm_s: lin ? lin.fwhm : null,
-        linear_equivalent_resolution: lin && lin.fwhm > 0 ? lin.centre / (2 * lin.fwhm) : null,
+        linear_equivalent_resolution: lin ? lin.resolution : null,
       } : {}),
     };
   });

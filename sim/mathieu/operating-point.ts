@@ -24,9 +24,12 @@ export interface AxisReport {
   secularFrequencyHz: number | null;
   /** First sidebands (Ω ± ω)/2π, Hz; null when unstable. */
   sidebandsHz: [number, number] | null;
-  /** Pseudopotential depth per charge, V, and as ion energy, eV (Dehmelt). */
-  wellDepthV: number;
-  wellDepthEv: number;
+  /**
+   * Pseudopotential depth per charge, V, and as ion energy, eV (Dehmelt); null when the axis is
+   * unstable or a + q²/2 ≤ 0 (no confining well: the formula's number would mean nothing).
+   */
+  wellDepthV: number | null;
+  wellDepthEv: number | null;
   /** |q| < 0.4: the well-depth figure is inside its range of validity. */
   wellDepthValid: boolean;
 }
@@ -121,6 +124,7 @@ export function analyzeOperatingPoint(p: OperatingPoint, options: AnalysisOption
     const small = a + 0.5 * q * q;
     const sec = f.beta === null ? null : (f.beta * p.freq) / 2; // ω = βΩ/2
     const depth = wellDepth(a, q, mass, charge, omega, electrodeDistance(p, axis));
+    const hasWell = f.stable && depth.volts > 0;
     return {
       axis, a, q,
       stable: f.stable,
@@ -128,8 +132,8 @@ export function analyzeOperatingPoint(p: OperatingPoint, options: AnalysisOption
       betaSmallQ: small >= 0 ? Math.sqrt(small) : null,
       secularFrequencyHz: sec,
       sidebandsHz: sec === null ? null : [p.freq - sec, p.freq + sec],
-      wellDepthV: depth.volts,
-      wellDepthEv: depth.electronVolts,
+      wellDepthV: hasWell ? depth.volts : null,
+      wellDepthEv: hasWell ? depth.electronVolts : null,
       wellDepthValid: depth.valid,
     };
   }) as [AxisReport, AxisReport];

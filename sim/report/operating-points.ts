@@ -17,9 +17,9 @@ export interface OperatingPointAxis {
   /** Exact β (Floquet monodromy); null when unstable. */
   beta: number | null;
   secular_frequency_hz: number | null;
-  /** Dehmelt pseudopotential depth, V per charge; meaningful for |q| < 0.4 (well_depth_valid). */
-  well_depth_v: number;
-  well_depth_ev: number;
+  /** Dehmelt pseudopotential depth, V per charge; meaningful for |q| < 0.4 (well_depth_valid); null on an unstable axis. */
+  well_depth_v: number | null;
+  well_depth_ev: number | null;
   well_depth_valid: boolean;
 }
 

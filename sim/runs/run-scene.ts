@@ -97,7 +97,8 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       scene_file: opts.sceneFile ?? null,
       seed: scene.seed,
       command_line: opts.commandLine ?? '',
-      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, tolerance: scene.run.integrator === 'dopri5' ? scene.run.tolerance : undefined, steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
+      // Only the settings that apply: a tolerance exists for the adaptive method alone.
+      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, ...(scene.run.integrator === 'dopri5' && !scene.spaceCharge ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
       workers,
       started_at: started.toISOString(),
       batch_size: plan.size,

@@ -1,7 +1,9 @@
-// Sweep axes: "KEY=A..B:N" → N evenly spaced values from A to B. KEY is `mz` (the m/z of every ion
+// Sweep axes: "KEY=A..B:N" → N evenly spaced values from A to B, A below B. KEY is `mz` (the m/z of every ion
 // population) or any scalar key of the scene file (stages.0.dc, stages.0.rf.amplitude,
 // ions.0.energy, ...) with A and B in that key's units ("95V..105V:11"). The key's kind and unit
-// come from the scene schema, so a wrong unit is caught before anything runs.
+// come from the scene schema, so a wrong unit is caught before anything runs. A reversed range
+// (B below A) is refused rather than sorted: the CSV rows and the peak figures (widths are
+// high − low) then always run upward, and the user sees the range written the way it is read.
 
 import { parse as parseYaml } from 'yaml';
 import { SCENE_SCHEMA } from '../scene/load.js';
@@ -47,6 +49,7 @@ export function parseVary(spec: string, sceneText: string, file: string): SweepA
     if (!(a > 0 && b > 0)) throw new SweepError(`--vary mz: m/z values must be positive, got ${aText}..${bText}`);
     const pops = Array.isArray(raw.ions) ? raw.ions.length : 0;
     if (pops === 0) throw new SweepError(`--vary mz: ${file} has no ion populations`);
+    ascending(key, a, b, aText, bText, n);
     return { key, values: grid(a, b, n), unit: 'Th', overrides: (v) => Array.from({ length: pops }, (_, k) => `ions.${k}.mz=${v}`) };
   }
   const field = fieldAt(key, raw, file);
@@ -64,11 +67,19 @@ export function parseVary(spec: string, sceneText: string, file: string): SweepA
   } else {
     throw new SweepError(`--vary ${key}: not a numeric key (it takes ${field.kind === 'object' ? 'a block' : `a ${field.kind}`})`);
   }
+  ascending(key, a, b, aText, bText, n);
   const values = grid(a, b, n);
   return {
     key, values, unit,
     overrides: (v) => [`${key}=${kind === 'quantity' && unit !== '' ? `${v} ${unit}` : String(v)}`],
   };
+}
+
+/** A below B, or a SweepError naming the range the way it would be accepted. */
+function ascending(key: string, a: number, b: number, aText: string, bText: string, n: number): void {
+  if (a < b) return;
+  if (a === b) throw new SweepError(`--vary ${key}: A and B are the same value (${aText}); give a range A..B with A below B`);
+  throw new SweepError(`--vary ${key}: the range runs downward (${aText}..${bText}); give it as A..B with A below B: ${key}=${bText}..${aText}:${n}`);
 }
 
 /** N values from a to b; 12 significant digits so that 480 + 0.2·k prints as 480.2, not 480.20000000000005. */

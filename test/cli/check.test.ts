@@ -47,6 +47,11 @@ describe('iontrail check --json', () => {
     expect(j.stable).toBe(false);
     expect(j.beta.y).toBeNull();
     expect(j.secular_frequency_hz.y).toBeNull();
+    // No well on an unstable axis: null, as the text table says "none" (it was −23.9 V, the
+    // formula's number for a + q²/2 < 0, before issue 11).
+    expect(j.well_depth_v.y).toBeNull();
+    expect(j.well_depth_v.x).toBeGreaterThan(0);
+    expect(check(...QUAD, '--dc', '100V', '--mz', '502').out).toMatch(/^y .* none$/m);
     expect(j.beta.x).toBeGreaterThan(0);
     expect(j.secular_frequency_hz.x).toBeCloseTo((j.beta.x * 1.2e6) / 2, 3);
     expect(j.mz_window.low).toBeLessThan(j.mz_window.high);

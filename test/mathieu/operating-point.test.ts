@@ -60,7 +60,7 @@ describe('operating-point report', () => {
     const r = analyzeOperatingPoint(trap);
     const [z, rr] = r.axes;
     expect(z.wellDepthV).toBeCloseTo((z.q * trap.rf) / 8, 10);
-    expect(rr.wellDepthV).toBeCloseTo(z.wellDepthV / 2, 10);
+    expect(rr.wellDepthV).toBeCloseTo(z.wellDepthV! / 2, 10);
     expect(z.wellDepthValid).toBe(true);
   });
 
@@ -72,11 +72,26 @@ describe('operating-point report', () => {
     const x = r.axes[0];
     const w = 2 * Math.PI * x.secularFrequencyHz!;
     const exactDepth = (0.5 * 3000 * U * w * w * p.r0 * p.r0) / E;
-    expect(Math.abs(x.wellDepthV / exactDepth - 1)).toBeLessThan(0.02);
+    expect(Math.abs(x.wellDepthV! / exactDepth - 1)).toBeLessThan(0.02);
     // And the closed form D = qV/4 for rods at ±V to ground (derived in well-depth.ts).
     expect(x.wellDepthV).toBeCloseTo((x.q * p.rf) / 4, 10);
     expect(x.wellDepthValid).toBe(true);
     expect(analyzeOperatingPoint({ ...p, mz: 500 }).axes[0].wellDepthValid).toBe(false); // q ≈ 0.6
+  });
+
+  it('no well depth on an unstable axis, whatever the sign of a + q²/2 (an unbounded motion has no well)', () => {
+    // Filter y at a = −0.169, q = −0.507 lies outside the first region (A&S Table 20.1; see the
+    // CLI test): a + q²/2 < 0. Filter x at a = 0, q = 0.95 > 0.908 (the a = 0 edge, March & Todd
+    // 2005 ch. 2) is unstable with a + q²/2 > 0: the pseudopotential formula would give a depth.
+    const y = analyzeOperatingPoint({ ...filter, dc: 100 }).axes[1];
+    expect(y.stable).toBe(false);
+    expect(y.wellDepthV).toBeNull();
+    expect(y.wellDepthEv).toBeNull();
+    const qHigh = mzAtQ(filter, filter.rf, 0.95);
+    const x = analyzeOperatingPoint({ ...filter, dc: 0, mz: qHigh }).axes[0];
+    expect(x.q).toBeCloseTo(0.95, 6);
+    expect(x.stable).toBe(false);
+    expect(x.wellDepthV).toBeNull();
   });
 
   it('trap low-mass cut-off: the m/z with q_z = 0.908 at this RF (March & Todd 2005); just above it is held, well below it is not', () => {

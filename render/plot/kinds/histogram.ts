@@ -8,6 +8,7 @@ import { formatWithUnit } from '../../common/ticks.js';
 import type { FigureSpec, LegendEntry } from '../figure.js';
 import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
+import { tofResolution, TOF_RESOLUTION_DEFINITION } from '../../../sim/analysis/arrival.js';
 
 const FATE_CHOICES = ['detected', 'hit', 'alive', 'all'] as const;
 
@@ -68,9 +69,10 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
   pops.forEach((p, i) => {
     const v = byPop.get(p)!;
     const { mean, sd } = meanSd(v);
-    // Mass resolving power of a TOF from the arrival spread: t ∝ √m ⇒ m/Δm = t/(2Δt), with the
-    // FWHM of a Gaussian, Δt = 2.355σ (standard kinematics; Wiley & McLaren, Rev. Sci. Instrum. 26, 1955).
-    const res = what === 'arrival' && sd > 0 ? `, m/Δm ≈ ${Math.round(mean / (2 * 2.355 * sd))}` : '';
+    // TOF resolving power by the one definition of sim/analysis/arrival.ts (the same figure as
+    // summary.json tof.species[].resolution_fwhm and the report's table, 4 significant digits there too).
+    const r = what === 'arrival' ? tofResolution(v)?.resolution ?? null : null;
+    const res = r !== null ? `, m/Δm ${Number(r.toPrecision(4))}` : '';
     legend.push({
       label: `m/z ${mzOf(p)}: n = ${v.length}, mean ${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
       color: seriesColor(i), mark: 'box',
@@ -137,7 +139,7 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
     : `${panels[0].nBins} bins of ${formatWithUnit(panels[0].width, unit, 3)}`;
   return {
     title: figureTitle(run.summary, what === 'arrival' ? 'arrival-time histogram' : 'final-energy histogram'),
-    subtitle: `${all.length.toLocaleString('en-US')} ${fate === 'all' ? '' : fate + ' '}ions, ${binText}${fixedBins ? '' : ' (Freedman–Diaconis)'}, ${overlay ? 'overlaid' : 'stacked'}${what === 'arrival' ? '; m/Δm from t/(2·FWHM), FWHM = 2.355σ' : ''}`,
+    subtitle: `${all.length.toLocaleString('en-US')} ${fate === 'all' ? '' : fate + ' '}ions, ${binText}${fixedBins ? '' : ' (Freedman–Diaconis)'}, ${overlay ? 'overlaid' : 'stacked'}${what === 'arrival' ? `; ${TOF_RESOLUTION_DEFINITION}` : ''}`,
     legend,
     rows: panels.length, cols: 1,
     panels: panels.map((p) => p.spec),
