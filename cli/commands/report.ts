@@ -18,6 +18,7 @@ import type { Scene } from '../../sim/scene/types.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { mzWindow } from '../../sim/mathieu/operating-point.js';
 import { sceneTraits } from '../../sim/report/scene-kind.js';
+import { reportInputRows } from '../../sim/report/inputs.js';
 import { buildResults, formatResults, type ReportResults, type SweepResult } from '../../sim/report/results.js';
 import { makeFigures } from '../../render/report/figures.js';
 import type { SweepCurve } from '../../render/report/figures/peak.js';
@@ -191,8 +192,9 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     for (const f of figures) writeFileSync(join(tmp, f.file), f.png);
     const results = buildResults({
       scene, summary, sweep, sample, runFolder: RUN_FOLDER,
-      figures: figures.map(({ id, file, title, caption, width, height }) => ({ id, file, title, caption, width, height })),
+      figures: figures.map(({ id, file, title, caption, width, height }, i) => ({ id, number: i + 1, file, title, caption, width, height })),
       commandLine: opts.commandLine, sceneFile: opts.sceneFile, startedAt,
+      inputs: opts.sceneText !== undefined ? reportInputRows(scene, opts.sceneText, opts.sceneFile ?? 'scene', opts.set) : null,
       wallTimeS: (performance.now() - t0) / 1000,
     });
     const doc = reportDocument(results);

@@ -5,6 +5,7 @@ export type { RfDrive, StageBase, Stage, StageType, QuadrupoleStage, TrapStage, 
 export type { GasSettings } from '../gas/settings.js';
 import type { Stage } from '../stages/types.js';
 import type { GasSettings } from '../gas/settings.js';
+import type { Targets } from './targets.js';
 
 export interface Population {
   mz: number;
@@ -42,4 +43,6 @@ export interface Scene {
   run: RunSettings;
   gas?: GasSettings;
   spaceCharge?: { method: 'direct' | 'tree'; weight: number; softening?: number; theta?: number };
+  /** Design targets for the report's verdict (sim/scene/targets.ts); absent when the scene gives none. */
+  targets?: Targets;
 }
