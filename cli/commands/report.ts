@@ -95,8 +95,11 @@ export function sampleScene(scene: Scene): { scene: Scene; recordEvery: number }
   const h = rf ? 1 / (rf.rf.frequency * scene.run.stepsPerCycle) : scene.run.stepNoRf;
   const steps = scene.run.maxTime / h;
   const recordEvery = Math.max(1, Math.ceil(steps / SAMPLE_POINTS));
+  // Closed-form stages (drift, acceleration, reflectron) fly each stage in one step: points inside
+  // them at the same density in time, so the turn in a reflectron shows.
+  const recordSpacing = scene.run.maxTime / SAMPLE_POINTS;
   return {
-    scene: { ...scene, ions: scene.ions.map((p) => ({ ...p, count: Math.min(p.count, SAMPLE_IONS) })), run: { ...scene.run, recordEvery } },
+    scene: { ...scene, ions: scene.ions.map((p) => ({ ...p, count: Math.min(p.count, SAMPLE_IONS) })), run: { ...scene.run, recordEvery, recordSpacing } },
     recordEvery,
   };
 }

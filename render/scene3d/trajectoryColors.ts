@@ -2,6 +2,7 @@
 // by fate. The legend description travels with the colours so every output labels them the same.
 
 import { FATE_COLORS, FATE_UNKNOWN, mzRamp, type Rgb } from './palette.js';
+import { speciesRamp } from '../common/species.js';
 import type { RunView } from './runInput.js';
 
 export type ColorBy = 'mz' | 'fate';
@@ -38,12 +39,9 @@ export function trajectoryColors(run: RunView, by: ColorBy): TrajectoryColors {
       .map(([label, count]) => ({ label, count, color: FATE_COLORS[label] ?? FATE_UNKNOWN }));
     return { rgb, legend: { kind: 'swatches', title: 'fate', entries } };
   }
-  const values = [...new Set(Array.from(ionRow, (r) => run.mz[r]))].sort((a, b) => a - b);
+  // The same species colours as the 2D figures (render/common/species.ts).
+  const { u, values, discrete } = speciesRamp(Array.from(ionRow, (r) => run.mz[r]));
   const lo = values[0] ?? 0, hi = values[values.length - 1] ?? 1;
-  const discrete = values.length <= 6;
-  const u = (mz: number) => discrete
-    ? (values.length === 1 ? 0 : values.indexOf(mz) / (values.length - 1))
-    : (mz - lo) / (hi - lo);
   const tmp = [0, 0, 0];
   for (let k = 0; k < n; k++) {
     mzRamp(u(run.mz[ionRow[k]]), tmp);

@@ -33,6 +33,13 @@ export interface RunSettings {
   historyEvery: number;
   /** Step for stages without RF when they must be stepped (gas), s. */
   stepNoRf: number;
+  /**
+   * Trajectory points inside closed-form stages (drift, acceleration, reflectron) at this time
+   * spacing, s, from the exact motion, besides the stage crossings; unset: crossings only. No scene
+   * key: the report's trajectory sample sets it so a reflectron turn is drawn. The ion's motion
+   * and end state do not depend on it.
+   */
+  recordSpacing?: number;
 }
 
 export interface Scene {
