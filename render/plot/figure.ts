@@ -130,6 +130,9 @@ export async function renderFigure(spec: FigureSpec, opt: RenderOptions): Promis
   // SVG keeps text as text (no ConvertTextToPaths); finishSvg adds the viewBox.
   const canvas = svg ? createCanvas(width, height, SvgExportFlag.NoPrettyXML) : createCanvas(width, height);
   const ctx = canvas.getContext('2d') as Ctx;
+  // The SVG backend writes each shaped glyph back as a character: without this "fl" in
+  // "reflectron" would come out as the ligature U+FB02, and a search for the word would miss it.
+  if (svg) (ctx as unknown as { fontVariantLigatures: string }).fontVariantLigatures = 'none';
   drawFigure(ctx, spec, width, height);
   if (svg) return finishSvg((canvas as unknown as { getContent(): Buffer }).getContent(), width, height);
   return (canvas as unknown as { encode(f: 'png'): Promise<Buffer> }).encode('png');

@@ -178,7 +178,7 @@ export function checkTargets(targets: Targets | undefined, r: VerdictInput): Tar
     // A species without a value (no peak found) fails: the target asks for every species.
     const missing = got.values.find((v) => v.value === null);
     if (missing) {
-      out.push({ ...base, actual: null, unit, ...(Number.isFinite(missing.mz) ? { mz: missing.mz } : {}), status: 'fail', reason: 'no value (no peak or no fit in this run)' });
+      out.push({ ...base, actual: null, unit, ...(Number.isFinite(missing.mz) ? { mz: missing.mz } : {}), status: 'fail', reason: 'no value: no peak or no fit in this run' });
       continue;
     }
     const worst = got.values.reduce((a, b) => (compare === '≥' ? (b.value! < a.value! ? b : a) : (b.value! > a.value! ? b : a)));
