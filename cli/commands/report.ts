@@ -18,6 +18,7 @@ import type { Scene } from '../../sim/scene/types.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { mzWindow } from '../../sim/mathieu/operating-point.js';
 import { sceneTraits } from '../../sim/report/scene-kind.js';
+import { reportInputRows } from '../../sim/report/inputs.js';
 import { buildResults, formatResults, type ReportResults, type SweepResult } from '../../sim/report/results.js';
 import { makeFigures } from '../../render/report/figures.js';
 import type { SweepCurve } from '../../render/report/figures/peak.js';
@@ -94,8 +95,11 @@ export function sampleScene(scene: Scene): { scene: Scene; recordEvery: number }
   const h = rf ? 1 / (rf.rf.frequency * scene.run.stepsPerCycle) : scene.run.stepNoRf;
   const steps = scene.run.maxTime / h;
   const recordEvery = Math.max(1, Math.ceil(steps / SAMPLE_POINTS));
+  // Closed-form stages (drift, acceleration, reflectron) fly each stage in one step: points inside
+  // them at the same density in time, so the turn in a reflectron shows.
+  const recordSpacing = scene.run.maxTime / SAMPLE_POINTS;
   return {
-    scene: { ...scene, ions: scene.ions.map((p) => ({ ...p, count: Math.min(p.count, SAMPLE_IONS) })), run: { ...scene.run, recordEvery } },
+    scene: { ...scene, ions: scene.ions.map((p) => ({ ...p, count: Math.min(p.count, SAMPLE_IONS) })), run: { ...scene.run, recordEvery, recordSpacing } },
     recordEvery,
   };
 }
@@ -191,8 +195,9 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     for (const f of figures) writeFileSync(join(tmp, f.file), f.png);
     const results = buildResults({
       scene, summary, sweep, sample, runFolder: RUN_FOLDER,
-      figures: figures.map(({ id, file, title, caption, width, height }) => ({ id, file, title, caption, width, height })),
+      figures: figures.map(({ id, file, title, caption, width, height }, i) => ({ id, number: i + 1, file, title, caption, width, height })),
       commandLine: opts.commandLine, sceneFile: opts.sceneFile, startedAt,
+      inputs: opts.sceneText !== undefined ? reportInputRows(scene, opts.sceneText, opts.sceneFile ?? 'scene', opts.set) : null,
       wallTimeS: (performance.now() - t0) / 1000,
     });
     const doc = reportDocument(results);

@@ -32,3 +32,17 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   checkOutputFolder(path);
   writeAtomic(path, data);
 }
+
+/**
+ * Finish an SVG from the canvas's SVG backend (Skia's SVG canvas, @napi-rs/canvas): text stays
+ * <text> (the canvas is made without SvgExportFlag.ConvertTextToPaths, so it can be searched,
+ * selected and edited), and the root gets viewBox="0 0 W H", which Skia does not write, so the
+ * figure scales when a page or an editor sets its size. Each font family gets a generic
+ * sans-serif fallback for a viewer without the font the figure was laid out with.
+ */
+export function finishSvg(svg: Buffer | string, width: number, height: number): Buffer {
+  let s = typeof svg === 'string' ? svg : svg.toString('utf8');
+  s = s.replace(/<svg\b([^>]*)>/, (m, attrs: string) => (/\sviewBox=/.test(attrs) ? m : `<svg${attrs} viewBox="0 0 ${width} ${height}">`));
+  s = s.replace(/font-family="([^"]*)"/g, (m, fam: string) => (/sans-serif/.test(fam) ? m : `font-family="${fam}, sans-serif"`));
+  return Buffer.from(s, 'utf8');
+}

@@ -17,6 +17,8 @@ export interface AxisSpec {
   prefix?: boolean;
   /** Counts: tick steps of at least 1. */
   integer?: boolean;
+  /** Label of each tick instead of its number (a category axis: species by m/z); '' leaves it unlabelled. */
+  tickText?: (value: number) => string;
 }
 
 export interface Tick { value: number; text: string; major: boolean }
@@ -55,7 +57,8 @@ export class Axis {
       this.min = min; this.max = max;
       const { step, ticks } = ticksWithin(min, max, 6, spec.integer ? 1 : 0);
       this.si = usePrefix ? siScale(Math.max(Math.abs(min), Math.abs(max))) : { prefix: '', scale: 1 };
-      this.ticks = ticks.map((v) => ({ value: v, text: tickLabel(v / this.si.scale, step / this.si.scale), major: true }));
+      const text = spec.tickText;
+      this.ticks = ticks.map((v) => ({ value: v, text: text ? text(v) : tickLabel(v / this.si.scale, step / this.si.scale), major: true }));
     }
     const unit = spec.unit === '' ? '' : `${this.si.prefix}${spec.unit}`;
     this.title = unit === '' ? spec.label : `${spec.label} (${unit})`;

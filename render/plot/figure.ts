@@ -6,7 +6,7 @@
 import { createCanvas, SvgExportFlag, type SKRSContext2D } from '@napi-rs/canvas';
 import { font } from '../common/fonts.js';
 import { FRAME, GRID, INK, INK_SOFT, PANEL, PAPER, densityRgb } from '../common/palette.js';
-import type { ImageFormat } from '../common/output.js';
+import { finishSvg, type ImageFormat } from '../common/output.js';
 import { Axis, type AxisSpec } from './axis.js';
 
 export type Ctx = SKRSContext2D;
@@ -127,10 +127,14 @@ function maxTickWidth(ctx: Ctx, a: Axis): number {
 export async function renderFigure(spec: FigureSpec, opt: RenderOptions): Promise<Buffer> {
   const { width, height } = opt;
   const svg = opt.format === 'svg';
-  const canvas = svg ? createCanvas(width, height, SvgExportFlag.ConvertTextToPaths) : createCanvas(width, height);
+  // SVG keeps text as text (no ConvertTextToPaths); finishSvg adds the viewBox.
+  const canvas = svg ? createCanvas(width, height, SvgExportFlag.NoPrettyXML) : createCanvas(width, height);
   const ctx = canvas.getContext('2d') as Ctx;
+  // The SVG backend writes each shaped glyph back as a character: without this "fl" in
+  // "reflectron" would come out as the ligature U+FB02, and a search for the word would miss it.
+  if (svg) (ctx as unknown as { fontVariantLigatures: string }).fontVariantLigatures = 'none';
   drawFigure(ctx, spec, width, height);
-  if (svg) return (canvas as unknown as { getContent(): Buffer }).getContent();
+  if (svg) return finishSvg((canvas as unknown as { getContent(): Buffer }).getContent(), width, height);
   return (canvas as unknown as { encode(f: 'png'): Promise<Buffer> }).encode('png');
 }
 

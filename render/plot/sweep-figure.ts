@@ -37,6 +37,9 @@ function unitOf(col: string, summary: Record<string, any>): { label: string; uni
   const m = /_(m|hz|s|v|ev)$/.exec(col);
   const units: Record<string, string> = { m: 'm', hz: 'Hz', s: 's', v: 'V', ev: 'eV' };
   const label = col.replace(/^space_charge\.|^cooling\.|^scan\./, '').replace(/_(m|hz|s|v|ev)$/, '').replace(/_/g, ' ');
+  // Relative shifts (summary.json space_charge.frequency_shift_*: f/f_single − 1) are fractions.
+  if (/frequency_shift/.test(col)) return { label: `${label} (fraction, f/f₁ − 1)`, unit: '' };
+  if (/^transmission$|\.transmission$/.test(col)) return { label: `${label} (fraction detected)`, unit: '' };
   return { label, unit: m ? units[m[1]] : '' };
 }
 

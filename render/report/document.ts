@@ -6,9 +6,11 @@ import type { ReportResults, FigureEntry } from '../../sim/report/results.js';
 import type { OperatingPointRow } from '../../sim/report/operating-points.js';
 import { formatSI } from '../../sim/units/quantity.js';
 import { TOF_RESOLUTION_DEFINITION } from '../../sim/analysis/arrival.js';
+import { SCENE_KIND_TEXT, type Verdict, type KeyNumber, type TargetCheck } from '../../sim/report/verdict.js';
+import type { InputRow } from '../../sim/scene/inputs.js';
 
 export type Block =
-  | { kind: 'p'; text: string }
+  | { kind: 'p'; text: string; strong?: boolean }
   | { kind: 'table'; caption?: string; head: string[]; rows: string[][]; numeric?: boolean[] }
   | { kind: 'list'; items: string[] }
   | { kind: 'cautions'; items: string[] }
@@ -37,14 +39,6 @@ export function si(v: unknown, unit: string, digits = 4): string {
 const pct = (v: unknown): string => (typeof v === 'number' && Number.isFinite(v) ? `${(100 * v).toFixed(1)} %` : DASH);
 const int = (v: unknown): string => (typeof v === 'number' && Number.isFinite(v) ? Math.round(v).toLocaleString('en-US') : DASH);
 
-const KIND_TEXT: Record<string, string> = {
-  quadrupole: 'quadrupole mass filter',
-  trap: 'RF ion trap',
-  'trap-scan': 'RF ion trap, mass-selective instability scan',
-  'tof-linear': 'linear time-of-flight analyzer',
-  'tof-reflectron': 'reflectron time-of-flight analyzer',
-  other: 'ion-optical scene',
-};
 
 function windowText(r: OperatingPointRow): string {
   const w = r.mz_window;
@@ -88,13 +82,85 @@ function operatingPointTable(rows: OperatingPointRow[]): Block[] {
   return blocks;
 }
 
+/** Column titles of the fates; a fate the engine adds later shows under its own name. */
+function fateLabel(fate: string, storage: boolean): string {
+  if (fate === 'alive') return storage ? 'stored at the end' : 'in flight at max_time';
+  if (fate === 'hit') return 'struck an electrode';
+  return fate;
+}
+
 function speciesTable(r: ReportResults): Block {
+  const storage = r.scene_kind === 'trap';
+  const fates = r.fate_names;
+  const share = storage ? 'stored' : r.scene_kind === 'trap-scan' ? 'ejected onto the detector' : 'transmission';
   return {
     kind: 'table',
-    head: ['population', 'm/z', 'z', 'ions', 'detected', 'struck', 'in flight / stored', 'transmission', 'mean KE stored (eV)'],
-    rows: r.species.map((s) => [String(s.population), num(s.mz, 6), String(s.charge), int(s.total), int(s.detected), int(s.hit), int(s.alive), pct(s.transmission), num(s.alive_mean_ke_ev, 3)]),
-    numeric: [true, true, true, true, true, true, true, true, true],
+    head: ['m/z', 'z', 'ions', ...fates.map((f) => fateLabel(f, storage)), share, storage ? 'mean KE stored (eV)' : 'mean KE in flight (eV)'],
+    rows: r.species.map((s) => [num(s.mz, 6), String(s.charge), int(s.total), ...fates.map((f) => int(s.fates[f] ?? 0)),
+      pct(storage ? (s.total > 0 ? s.alive / s.total : NaN) : s.transmission), num(s.alive_mean_ke_ev, 3)]),
+    numeric: [true, true, true, ...fates.map(() => true), true, true],
   };
+}
+
+function keyValue(k: { value: number | null; unit: string }): string {
+  if (k.value === null) return DASH;
+  if (k.unit === 'fraction') return pct(k.value);
+  if (k.unit === '') return num(k.value, 5);
+  return si(k.value, k.unit);
+}
+
+function targetValue(c: TargetCheck, v: number | null): string {
+  if (v === null) return DASH;
+  if (!Number.isFinite(v)) return 'no upper edge';
+  if (c.unit === 'fraction') return c.key === 'frequency_shift_max' ? `${num(v, 3)} (${pct(v)})` : pct(v);
+  if (c.unit) return si(v, c.unit);
+  return num(v, 5);
+}
+
+const VERDICT_TEXT: Record<Verdict['status'], string> = {
+  pass: 'PASS: every evaluated target is met.',
+  fail: 'FAIL: one or more targets are missed.',
+  'not evaluated': 'NOT EVALUATED: none of the targets applies to this scene.',
+  'no targets': 'No targets: the scene states none (top-level key targets:, see "Target keys"); key numbers only.',
+};
+
+function verdictBlocks(r: ReportResults): Block[] {
+  const v = r.verdict;
+  const blocks: Block[] = [
+    { kind: 'p', text: `Purpose: ${v.purpose}.` },
+    { kind: 'p', text: `Verdict: ${VERDICT_TEXT[v.status]}`, strong: true },
+  ];
+  if (!r.complete) blocks.push({ kind: 'p', text: 'INCOMPLETE RUN: the verdict covers the finished ions only.', strong: true });
+  if (v.targets.length > 0) {
+    blocks.push({
+      kind: 'table', caption: 'Targets of the scene (worst species where per species)',
+      head: ['target', 'required', 'simulated', 'species', 'result'],
+      rows: v.targets.map((c) => [c.key, `${c.compare} ${targetValue(c, c.target)}`, targetValue(c, c.actual), c.mz !== undefined ? `m/z ${num(c.mz, 6)}` : '',
+        c.status === 'pass' ? 'pass' : c.status === 'fail' ? `FAIL${c.reason ? ` (${c.reason})` : ''}` : `not evaluated (${c.reason ?? ''})`]),
+      numeric: [false, true, true, false, false],
+    });
+  }
+  blocks.push({
+    kind: 'table', caption: 'Key numbers',
+    head: ['figure', 'species', 'value'],
+    rows: v.key_numbers.map((k: KeyNumber) => [k.label, k.mz !== undefined ? `m/z ${num(k.mz, 6)}` : '', keyValue(k)]),
+    numeric: [false, false, true],
+  });
+  return blocks;
+}
+
+function inputBlocks(rows: InputRow[] | null): Block[] {
+  if (rows === null) return [{ kind: 'p', text: 'The scene file text was not available to this report: see the resolved scene (SI) in run/summary.json provenance.scene.' }];
+  const body = rows.map((x) => {
+    // Compound units (m^2, m^2/(V s)) take no prefix: a plain number with the SI unit.
+    const siText = x.si === null ? '' : x.unit === '' ? num(x.si, 6) : /[\^/]/.test(x.unit) ? `${num(x.si, 6)} ${x.unit}` : si(x.si, x.unit, 6);
+    const note = x.default ? 'default' : x.overridden ? '--set' : '';
+    return [x.block, x.name, x.written, siText === x.written ? '' : siText, note];
+  });
+  return [
+    { kind: 'p', text: 'Every value of the scene file, in the units written there (pressures too: a pressure given in mTorr stays in mTorr); the SI column shows the value the engine uses (prefixed SI units, pressures in Pa, energies in eV). "default": not in the file, filled in by the loader; "--set": given on the command line.' },
+    { kind: 'table', head: ['block', 'key', 'value (as written)', 'SI', 'source'], rows: body, numeric: [false, false, true, true, false] },
+  ];
 }
 
 function coolingBlocks(c: Record<string, unknown>): Block[] {
@@ -178,7 +244,9 @@ function sweepBlocks(r: ReportResults): Block[] {
 
 export function reportDocument(r: ReportResults): ReportDoc {
   const sections: Section[] = [];
+  sections.push({ id: 'verdict', title: 'Verdict', blocks: verdictBlocks(r) });
   sections.push({ id: 'safety', title: 'Safety', blocks: [{ kind: 'cautions', items: r.safety_cautions }] });
+  sections.push({ id: 'inputs', title: 'Scene inputs', blocks: inputBlocks(r.inputs) });
   const res: Block[] = [speciesTable(r)];
   if (!r.complete) res.unshift({ kind: 'p', text: 'INCOMPLETE RUN: interrupted before every ion finished; the figures cover the finished ions only.' });
   const ionsTitle = r.scene_kind === 'trap' ? 'Ions stored and lost' : r.scene_kind === 'trap-scan' ? 'Ions ejected and lost' : 'Ions and transmission';
@@ -189,6 +257,10 @@ export function reportDocument(r: ReportResults): ReportDoc {
   if (r.scan) sections.push({ id: 'scan', title: 'Mass scan', blocks: scanBlocks(r.scan) });
   if (r.tof) sections.push({ id: 'tof', title: 'Time of flight', blocks: tofBlocks(r.tof) });
   if (r.figures.length > 0) sections.push({ id: 'figures', title: 'Figures', blocks: r.figures.map((f) => ({ kind: 'figure', figure: f }) as Block) });
+  sections.push({ id: 'target-keys', title: 'Target keys', blocks: [
+    { kind: 'p', text: 'Targets a scene may state under the top-level key targets: (e.g. targets: { resolution_50: 500, transmission: 0.5 }); shares are fractions 0..1, tau_max is a time with its unit. A target that does not apply to the scene is listed as not evaluated.' },
+    { kind: 'table', head: ['key', 'passes when'], rows: Object.entries(r.target_keys).map(([k, m]) => [k, m]), numeric: [false, false] },
+  ] });
   sections.push({ id: 'assumptions', title: 'Model assumptions and limits', blocks: [{ kind: 'list', items: r.assumptions }] });
   if (r.warnings.length > 0) sections.push({ id: 'warnings', title: 'Warnings', blocks: [{ kind: 'list', items: r.warnings }] });
   const p = r.provenance;
@@ -213,7 +285,7 @@ export function reportDocument(r: ReportResults): ReportDoc {
   });
   return {
     title: r.scene_name,
-    subtitle: `Design review: ${KIND_TEXT[r.scene_kind] ?? r.scene_kind} · iontrail ${p.tool_version} · seed ${p.seed}`,
+    subtitle: `Design review: ${SCENE_KIND_TEXT[r.scene_kind] ?? r.scene_kind} · iontrail ${p.tool_version} · seed ${p.seed}`,
     sections,
   };
 }

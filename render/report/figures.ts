@@ -9,7 +9,7 @@ import { buildFigure, renderFigure, type FigureSpec } from '../plot/index.js';
 import { rfStages } from '../plot/scene.js';
 import { readRunView } from '../scene3d/runInput.js';
 import { renderPng } from '../scene3d/png.js';
-import { transmissionFigure } from './figures/transmission.js';
+import { fateParts, transmissionFigure } from './figures/transmission.js';
 import { spectrumFigure } from './figures/spectrum.js';
 import { calibrationFigure, reflectronFigure, sourceFocusFigure } from './figures/tof.js';
 import { peakShapeFigure, type SweepCurve } from './figures/peak.js';
@@ -99,19 +99,21 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
   }
 
   // Ion fates / transmission.
-  await own('transmission', input.kind === 'quadrupole' ? 'Transmission' : 'Ion fates',
-    'Share of each species detected, struck on an electrode, or still in flight (stored) at the end of the run.',
-    transmissionFigure(run.summary, input.runDir), 560);
+  const storage = input.kind === 'trap';
+  const fates = fateParts(storage).map((p) => p.label);
+  await own('transmission', input.kind === 'quadrupole' ? 'Transmission' : storage ? 'Ions stored' : 'Ion fates',
+    `Share of each species' ions by fate at the end of the run (${fates.join(', ')}), one bar per species by m/z; the label over each bar gives the ${storage ? 'stored' : 'detected'} share.`,
+    transmissionFigure(run.summary, input.runDir, storage), 560);
 
   // Quadrupole peak shape from an m/z sweep.
   if (input.kind === 'quadrupole' && input.sweep) {
-    await own('peak', 'Peak shape', 'Transmission against m/z at the stage\'s fixed RF and DC (m/z sweep of the scene), with the peak centre, FWHM and the 50 % and 10 % widths.',
+    await own('peak', 'Peak shape', 'Transmission against m/z at the stage\'s fixed RF and DC (m/z sweep of the scene); dashed line: peak centre; bars: the full width at 50 % (FWHM) and at 10 % of the maximum, between the interpolated crossings the resolution is computed from.',
       peakShapeFigure(input.sweep, run.summary, input.runDir));
   }
 
   // Buffer-gas cooling.
   if (input.gas && input.kind !== 'trap-scan' && run.hasHistory) {
-    await kindFig('cooling', 'Buffer-gas cooling', 'Ensemble mean kinetic energy (log scale) with the fitted time constant τ, and RMS cloud size, against time.', input.runDir, 'cooling', 800);
+    await kindFig('cooling', 'Buffer-gas cooling', 'Mean kinetic energy of the ions still stored (log scale, all species together) with its x, y and z parts and the exponential of the fitted time constant τ; below, RMS radius and RMS z of the cloud, against time.', input.runDir, 'cooling', 800);
   }
 
   // Trap mass scan.
@@ -125,7 +127,8 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
     if (detected) {
       // The arrival kind draws one zoomed panel per species when the peaks lie far apart: room for each.
       const nSpecies = new Set(run.ions.population).size;
-      await kindFig('arrival', 'Arrival-time spectrum', 'Histogram of the arrival times of detected ions per species.', input.runDir, 'arrival', Math.max(620, 260 + 190 * nSpecies));
+      await kindFig('arrival', 'Arrival-time spectrum', 'Histogram of the arrival times of detected ions, one colour per species (one zoomed panel per species when the peaks lie far apart).', input.runDir, 'arrival', Math.max(620, 260 + 190 * nSpecies));
+      await kindFig('energy', 'Energy at the detector', 'Histogram of the kinetic energy of detected ions at the detector, per species; the axis is the offset from the round energy named in its label, so the spread in eV shows.', input.runDir, 'energy', 620);
     }
     await own('calibration', 'Mass calibration', 'Peak centres against √(m/z) with the least-squares calibration line and its residuals.', calibrationFigure(run.summary, input.runDir), 700);
     await own('source-focus', 'Source space focus', 'Arrival-time offset against start position for each species: the slope shows how far the detector sits from the first-order space focus of the two-field source.', sourceFocusFigure(run));
@@ -139,7 +142,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
     const from = trajDir === input.runDir ? '' : ` (from the trajectory sample in ${input.sampleName ?? trajDir})`;
     const ions = ionsPerPopulation(trajRun, input.tracesPerPopulation ?? 3);
     if (ions.length > 0) {
-      await kindFig('traces', 'Time traces', `x, y, z and kinetic energy against time of ${input.tracesPerPopulation ?? 3} ions of each species (one of each fate that occurs, then the first others)${from}.`,
+      await kindFig('traces', 'Time traces', `x, y, z and kinetic energy against time of up to ${input.tracesPerPopulation ?? 3} ions of each species (one of each fate that occurs, then the first others), one colour per species${from}.`,
         trajDir, 'traces', 900, { ions: ions.join(',') });
     }
     const n3 = Math.max(1, Math.ceil((input.ions3d ?? 60) / Math.max(1, new Set(trajRun.ions.population).size)));

@@ -44,7 +44,7 @@ footer { margin-top: 36px; color: var(--soft); font-size: 12px; border-top: 1px 
 
 function block(b: Block, images: Map<string, string>): string {
   switch (b.kind) {
-    case 'p': return `<p>${escapeHtml(b.text)}</p>`;
+    case 'p': return b.strong ? `<p class="verdict"><strong>${escapeHtml(b.text)}</strong></p>` : `<p>${escapeHtml(b.text)}</p>`;
     case 'list': return `<ul>${b.items.map((i) => `<li>${escapeHtml(i)}</li>`).join('')}</ul>`;
     case 'cautions': return `<div class="cautions">${b.items.map((i, k) => `<p>${k === 0 ? '<strong>Caution.</strong> ' : ''}${escapeHtml(i)}</p>`).join('')}</div>`;
     case 'table': {
@@ -57,7 +57,7 @@ function block(b: Block, images: Map<string, string>): string {
       const f = b.figure;
       const data = images.get(f.id);
       if (data === undefined) throw new Error(`report: figure ${f.id} has no image data`);
-      return `<figure id="fig-${escapeHtml(f.id)}"><img src="data:image/png;base64,${data}" width="${f.width}" height="${f.height}" alt="${escapeHtml(f.title)}"><figcaption><b>${escapeHtml(f.title)}.</b> ${escapeHtml(f.caption)}</figcaption></figure>`;
+      return `<figure id="fig-${escapeHtml(f.id)}"><img src="data:image/png;base64,${data}" width="${f.width}" height="${f.height}" alt="Figure ${f.number}: ${escapeHtml(f.title)}"><figcaption><b>Figure ${f.number}. ${escapeHtml(f.title)}.</b> ${escapeHtml(f.caption)}</figcaption></figure>`;
     }
   }
 }

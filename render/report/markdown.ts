@@ -14,7 +14,8 @@ export function escapeMarkdown(text: string): string {
 
 function block(b: Block): string {
   switch (b.kind) {
-    case 'p': return escapeMarkdown(b.text);
+    case 'p': if (b.strong) return `**${escapeMarkdown(b.text)}**`;
+      return escapeMarkdown(b.text);
     case 'list': return b.items.map((i) => `- ${escapeMarkdown(i)}`).join('\n');
     case 'cautions': return b.items.map((i, k) => `> ${k === 0 ? '**Caution.** ' : ''}${escapeMarkdown(i)}`).join('\n>\n');
     case 'table': {
@@ -26,7 +27,7 @@ function block(b: Block): string {
     }
     case 'figure': {
       const f = b.figure;
-      return `![${escapeMarkdown(f.title)}](${f.file})\n\n**${escapeMarkdown(f.title)}.** ${escapeMarkdown(f.caption)}`;
+      return `![Figure ${f.number}: ${escapeMarkdown(f.title)}](${f.file})\n\n**Figure ${f.number}. ${escapeMarkdown(f.title)}.** ${escapeMarkdown(f.caption)}`;
     }
   }
 }

@@ -42,19 +42,8 @@ export const FATE_UNKNOWN: Rgb = hex('#7a7a7a');
 /** The colour of a fate name. */
 export const fateColor = (name: string): Rgb => FATE_COLORS[name] ?? FATE_UNKNOWN;
 
-const MZ_STOPS: readonly Rgb[] = ['#1f6f8b', '#3a9f7a', '#d6aa35', '#cf6130', '#94306c'].map(hex);
-
-/** Colour of fraction u ∈ [0, 1] along the m/z ramp (piecewise linear between stops). */
-export function mzRamp(u: number, out: number[] | Float32Array = [0, 0, 0]): number[] | Float32Array {
-  const v = Math.min(1, Math.max(0, Number.isFinite(u) ? u : 0)) * (MZ_STOPS.length - 1);
-  const i = Math.min(MZ_STOPS.length - 2, Math.floor(v));
-  const f = v - i;
-  const a = MZ_STOPS[i], b = MZ_STOPS[i + 1];
-  out[0] = a[0] + (b[0] - a[0]) * f;
-  out[1] = a[1] + (b[1] - a[1]) * f;
-  out[2] = a[2] + (b[2] - a[2]) * f;
-  return out;
-}
+// The m/z ramp is the species palette shared with the 2D figures (render/common/species.ts).
+export { mzRamp } from '../common/species.js';
 
 export function cssColor(c: Rgb | ArrayLike<number>): string {
   const b = (x: number) => Math.round(Math.min(1, Math.max(0, x)) * 255).toString(16).padStart(2, '0');

@@ -6,6 +6,7 @@
 import { FATE_NAMES } from '../../sim/core/batch.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { fateColor, mzRamp, valueRamp, type Rgb } from './palette.js';
+import { speciesRamp } from '../common/species.js';
 import type { RunView } from './runInput.js';
 
 export type ColorBy = 'time' | 'energy' | 'mz' | 'fate';
@@ -65,12 +66,9 @@ export function trajectoryColors(run: RunView, by: ColorBy): TrajectoryColors {
 function byMz(run: RunView, per: Float32Array): Legend {
   const { ionRow } = run.traj;
   const n = ionRow.length;
-  const values = [...new Set(Array.from(ionRow, (r) => run.mz[r]))].sort((a, b) => a - b);
+  // The same species colours as the 2D figures (render/common/species.ts).
+  const { u, values, discrete } = speciesRamp(Array.from(ionRow, (r) => run.mz[r]));
   const lo = values[0] ?? 0, hi = values[values.length - 1] ?? 1;
-  const discrete = values.length <= 6;
-  const u = (mz: number) => discrete
-    ? (values.length === 1 ? 0 : values.indexOf(mz) / (values.length - 1))
-    : (mz - lo) / (hi - lo);
   for (let k = 0; k < n; k++) mzRamp(u(run.mz[ionRow[k]]), per.subarray(3 * k, 3 * k + 3));
   if (!discrete) return { kind: 'ramp', title: 'm/z', min: lo, max: hi, unit: '', map: mzRamp };
   const entries = values.map((v) => {

@@ -65,6 +65,8 @@ export interface StepContext {
   batch: IonBatch;
   maxTime: number;
   recordEvery: number;
+  /** Closed-form stages: record points at this time spacing inside a flight, s (RunSettings.recordSpacing). */
+  recordSpacing?: number;
   rec: PointSink | null;
   hist: HistorySink | null;
   /** Gas of the current stage (stage block, else scene block), or null in vacuum. */

@@ -39,7 +39,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const run = scene.run;
   const rec = run.recordEvery > 0 ? new TrajectoryRecorder(Math.min(1 << 16, count * 64)) : null;
   const hist = new EnsembleHistory(run.historyEvery, run.maxTime);
-  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, rec, hist, gas: null, gasField: null, hardSphere: null };
+  const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, ...(run.recordSpacing ? { recordSpacing: run.recordSpacing } : {}), rec, hist, gas: null, gasField: null, hardSphere: null };
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
   // Each stage's kind, looked up once: the loop below asks it when an ion enters the stage.
   const kinds = scene.stages.map(kindOf);

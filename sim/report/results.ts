@@ -8,11 +8,16 @@ import { finiteOrNull } from '../core/json.js';
 import { operatingPointRows, type OperatingPointRow } from './operating-points.js';
 import { sceneTraits, type SceneKind } from './scene-kind.js';
 import { assumptions, SAFETY_CAUTIONS } from './assumptions.js';
+import { verdict, type Verdict } from './verdict.js';
+import type { InputRow } from '../scene/inputs.js';
+import { FATE_NAMES } from '../core/batch.js';
+import { TARGETS, TARGET_KEYS } from '../scene/targets.js';
 
 export const RESULTS_FORMAT = 'iontrail-report-results';
-export const RESULTS_VERSION = 1;
+export const RESULTS_VERSION = 2;
 
-export interface FigureEntry { id: string; file: string; title: string; caption: string; width: number; height: number }
+/** One figure of the bundle; `number` is its figure number in the report (1, 2, ...), in the order shown. */
+export interface FigureEntry { id: string; number: number; file: string; title: string; caption: string; width: number; height: number }
 
 export interface SweepResult {
   /** 'done', or 'unavailable' with the reason (no sweep module, not a filter scene, ...). */
@@ -37,6 +42,8 @@ export interface ReportInputs {
   sample: { folder: string; ions_per_population: number; record_every: number } | null;
   commandLine: string;
   sceneFile: string | null;
+  /** Every value of the scene file as written and in SI (sim/scene/inputs.ts); null without the scene text. */
+  inputs?: InputRow[] | null;
   /** Wall time of the whole report (runs, figures, writing), s. */
   wallTimeS: number;
   /** ISO time the report was started. */
@@ -49,11 +56,21 @@ export interface ReportResults {
   scene_name: string;
   scene_kind: SceneKind;
   complete: boolean;
+  /** Purpose, key numbers and the scene's targets passed or failed. */
+  verdict: Verdict;
+  /** The supported target keys and what each means (whether the scene gives them or not). */
+  target_keys: Record<string, string>;
+  /** Scene inputs as written, with SI values; null when the scene text was not available. */
+  inputs: InputRow[] | null;
+  /** Every fate the engine knows (sim/core/batch.ts FATE_NAMES), in its order; species[].fates counts them. */
+  fate_names: string[];
   operating_points: OperatingPointRow[];
-  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; alive: number; transmission: number; alive_mean_ke_ev: number | null }[];
+  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; alive: number; transmission: number; alive_mean_ke_ev: number | null; fates: Record<string, number> }[];
   cooling: Record<string, unknown> | null;
   scan: Record<string, unknown> | null;
   tof: Record<string, unknown> | null;
+  /** Space-charge figures of a coupled run (summary.json space_charge): stored charges, secular shifts (fractions). */
+  space_charge: Record<string, unknown> | null;
   sweep: SweepResult | null;
   figures: FigureEntry[];
   assumptions: string[];
@@ -85,21 +102,35 @@ export function buildResults(inp: ReportInputs): ReportResults {
     warnings.push(`m/z sweep not included: ${inp.sweep.reason ?? 'unavailable'}`);
   }
   for (const w of inp.sweep?.warnings ?? []) warnings.push(`m/z sweep: ${w}`);
+  const species = s.species.map((x) => ({
+    population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit, alive: x.alive,
+    transmission: x.transmission,
+    alive_mean_ke_ev: typeof x.alive_mean_ke_ev === 'number' ? x.alive_mean_ke_ev : null,
+    // Counts by fate name as summary.json gives them; a fate it does not count is 0.
+    fates: Object.fromEntries(FATE_NAMES.map((f) => [f, typeof x[f] === 'number' ? (x[f] as number) : 0])),
+  }));
+  const parts = {
+    scene_name: s.scene_name, scene_kind: traits.kind, species,
+    operating_points: operatingPointRows(scene),
+    cooling: obj(s.cooling), scan: obj(s.scan), tof: obj(s.tof), space_charge: obj(s.space_charge),
+    sweep: inp.sweep,
+  };
   return {
     format: RESULTS_FORMAT,
     version: RESULTS_VERSION,
     scene_name: s.scene_name,
     scene_kind: traits.kind,
     complete: s.complete,
-    operating_points: operatingPointRows(scene),
-    species: s.species.map((x) => ({
-      population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit, alive: x.alive,
-      transmission: x.transmission,
-      alive_mean_ke_ev: typeof x.alive_mean_ke_ev === 'number' ? x.alive_mean_ke_ev : null,
-    })),
-    cooling: obj(s.cooling),
-    scan: obj(s.scan),
-    tof: obj(s.tof),
+    verdict: verdict(scene.targets, parts),
+    target_keys: Object.fromEntries(TARGET_KEYS.map((k) => [k, TARGETS[k].meaning])),
+    inputs: inp.inputs ?? null,
+    fate_names: [...FATE_NAMES],
+    operating_points: parts.operating_points,
+    species,
+    cooling: parts.cooling,
+    scan: parts.scan,
+    tof: parts.tof,
+    space_charge: parts.space_charge,
     sweep: inp.sweep,
     figures: inp.figures,
     assumptions: assumptions(scene, traits),

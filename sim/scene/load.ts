@@ -8,6 +8,7 @@ import type { Scene, Stage, Population, RunSettings, GasSettings } from './types
 import { GAS_FIELD } from './fields.js';
 import { STAGE_ENTRIES, firstRf as firstRfOf } from '../stages/registry.js';
 import { resolveGas } from './gas.js';
+import { TARGETS_FIELD, type Targets } from './targets.js';
 
 // Stage entries come from the stage kinds (sim/stages): their keys, units and resolution.
 const stage: Field = {
@@ -71,6 +72,7 @@ export const SCENE_SCHEMA: Field = {
       },
       required: ['method'],
     },
+    targets: TARGETS_FIELD,
   },
   required: ['stages', 'ions'],
 };
@@ -95,7 +97,7 @@ export function parseOverride(text: string): { path: (string | number)[]; key: s
   return { path, key, value };
 }
 
-function applyOverrides(doc: Document, sets: string[], origin: Origin): void {
+export function applyOverrides(doc: Document, sets: string[], origin: Origin): void {
   for (const s of sets) {
     const { path, key, value } = parseOverride(s);
     // The parent must exist (a typo should not create a new branch silently).
@@ -192,6 +194,13 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
   if (raw.space_charge) {
     const sc = raw.space_charge;
     scene.spaceCharge = { method: sc.method, weight: sc.weight ?? 1, softening: sc.softening, theta: sc.theta };
+  }
+  if (raw.targets) {
+    const t = raw.targets as Targets;
+    if (t.mz_window_low !== undefined && t.mz_window_high !== undefined && !(t.mz_window_high > t.mz_window_low)) {
+      fail(origin, doc.getIn(['targets', 'mz_window_high'], true) as Node, ['targets', 'mz_window_high'], `must be above targets.mz_window_low (${t.mz_window_low}), got '${t.mz_window_high}'`);
+    }
+    scene.targets = { ...t };
   }
   return scene;
 }

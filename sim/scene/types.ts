@@ -5,6 +5,7 @@ export type { RfDrive, StageBase, Stage, StageType, QuadrupoleStage, TrapStage, 
 export type { GasSettings } from '../gas/settings.js';
 import type { Stage } from '../stages/types.js';
 import type { GasSettings } from '../gas/settings.js';
+import type { Targets } from './targets.js';
 
 export interface Population {
   mz: number;
@@ -32,6 +33,13 @@ export interface RunSettings {
   historyEvery: number;
   /** Step for stages without RF when they must be stepped (gas), s. */
   stepNoRf: number;
+  /**
+   * Trajectory points inside closed-form stages (drift, acceleration, reflectron) at this time
+   * spacing, s, from the exact motion, besides the stage crossings; unset: crossings only. No scene
+   * key: the report's trajectory sample sets it so a reflectron turn is drawn. The ion's motion
+   * and end state do not depend on it.
+   */
+  recordSpacing?: number;
 }
 
 export interface Scene {
@@ -42,4 +50,6 @@ export interface Scene {
   run: RunSettings;
   gas?: GasSettings;
   spaceCharge?: { method: 'direct' | 'tree'; weight: number; softening?: number; theta?: number };
+  /** Design targets for the report's verdict (sim/scene/targets.ts); absent when the scene gives none. */
+  targets?: Targets;
 }

@@ -56,7 +56,7 @@ export async function bench(): Promise<void> {
   const dir = join(root, 'run');
   try {
     await makeRun(dir);
-    const req = { kind: 'traces', out: join(root, 'x.png'), width: 1400, height: 1000, values: new Map([['panels', 'x,y,z,ke']]), switches: new Set(['rf-marks']) };
+    const req = { kind: 'traces', out: join(root, 'x.png'), width: 1400, height: 1000, values: new Map([['panels', 'x,y,z,ke'], ['ions', 'all']]), switches: new Set(['rf-marks']) };
     for (let rep = 0; rep < 3; rep++) {
       const t0 = performance.now();
       const { spec, width, height } = await buildFigure(dir, req);

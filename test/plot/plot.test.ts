@@ -8,6 +8,12 @@ import { KINDS, buildFigure, plotRun } from '../../render/plot/index.js';
 import { ELEMENTARY_CHARGE, ATOMIC_MASS_UNIT } from '../../sim/units/constants.js';
 import { repoRoot } from '../bench/cbuild.js';
 import { REGION_FILL, seriesColor } from '../../render/common/palette.js';
+import { speciesColors } from '../../render/common/species.js';
+
+// Species colours of the synthetic filter run (m/z 502, 219, 1000): one per species by m/z rank.
+const FILTER_MZ = [502, 219, 1000];
+const speciesOf = (mzs: number[]) => (i: number) => speciesColors(mzs)(mzs[i]);
+const filterSpecies = speciesOf(FILTER_MZ);
 import { main } from '../../cli/main.js';
 import { tempRoot, writeSyntheticRun } from '../runfolder/synthetic.js';
 import { countColor, countInk, decodePng } from './pixels.js';
@@ -46,17 +52,20 @@ describe('every kind renders', () => {
       // The middle of the page (where the panels are) carries data and axes, not just paper.
       expect(countInk(r, 100, 120, 880, 540)).toBeGreaterThan(500);
       // Density figures use the ramp instead of the series colours.
-      if (kind !== 'phase' && kind !== 'xy') expect(countColor(r, seriesColor(0), 40, 60, 90, 900, 560)).toBeGreaterThan(20);
+      // Species figures use the species palette; cooling (an ensemble figure) the series colours.
+      const first = kind === 'cooling' ? seriesColor(0) : filterSpecies(0);
+      if (kind !== 'phase' && kind !== 'xy') expect(countColor(r, first, 40, 60, 90, 900, 560)).toBeGreaterThan(20);
     });
   }
 });
 
 describe('traces', () => {
-  it('draws one colour per chosen ion and RF period marks', async () => {
+  it('draws the chosen ions in their species colours and RF period marks', async () => {
+    // Ions 0 and 5: populations 0 (m/z 502) and 1 (m/z 219), four ions per population.
     const r = await png(filterRun, 'traces', { ions: '0,5', panels: 'x,ke' }, ['rf-marks']);
-    expect(countColor(r, seriesColor(0), 30)).toBeGreaterThan(200);
-    expect(countColor(r, seriesColor(1), 30)).toBeGreaterThan(200);
-    expect(countColor(r, seriesColor(2), 20)).toBe(0); // only two ions asked for
+    expect(countColor(r, filterSpecies(0), 30)).toBeGreaterThan(200);
+    expect(countColor(r, filterSpecies(1), 30)).toBeGreaterThan(200);
+    expect(countColor(r, filterSpecies(2), 20)).toBe(0); // no ion of m/z 1000 asked for
   });
   it('refuses an unknown panel quantity and ions without points', async () => {
     await expect(png(filterRun, 'traces', { panels: 'x,q' })).rejects.toThrow(/--panels: unknown quantity 'q'/);
@@ -68,7 +77,7 @@ describe('stability', () => {
   it('fills the first region and marks each species in its own colour', async () => {
     const r = await png(filterRun, 'stability');
     expect(countColor(r, REGION_FILL, 4)).toBeGreaterThan(20000);
-    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 30)).toBeGreaterThan(20);
+    for (let i = 0; i < 3; i++) expect(countColor(r, filterSpecies(i), 30)).toBeGreaterThan(20);
   });
   it('draws the trap diagram in (q_z, a_z)', async () => {
     const r = await png(trapRun, 'stability');
@@ -100,18 +109,19 @@ describe('stability with an RF ramp', () => {
     await plotRun(dir, { kind: 'stability', out: join(root, 'ramp.png') });
     const r = await decodePng(readFileSync(join(root, 'ramp.png')));
     // The arrows run past the q_z edge (q ends at 6× its start): series colours right of the edge.
-    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 30, 700, 120, 1090, 700)).toBeGreaterThan(20);
+    const scan = speciesOf([100, 150, 200]);
+    for (let i = 0; i < 3; i++) expect(countColor(r, scan(i), 30, 700, 120, 1090, 700)).toBeGreaterThan(20);
   });
 });
 
 describe('scatter kinds', () => {
   it('draws marks in population colours with --style scatter', async () => {
     const r = await png(filterRun, 'xy', { style: 'scatter', source: 'points' });
-    for (let i = 0; i < 3; i++) expect(countColor(r, seriesColor(i), 60)).toBeGreaterThan(50);
+    for (let i = 0; i < 3; i++) expect(countColor(r, filterSpecies(i), 60)).toBeGreaterThan(50);
   });
   it('phase space from end states', async () => {
     const r = await png(filterRun, 'phase', { source: 'end' });
-    expect(countColor(r, seriesColor(0), 30)).toBeGreaterThan(10);
+    expect(countColor(r, filterSpecies(0), 30)).toBeGreaterThan(10);
   });
 });
 
@@ -121,7 +131,7 @@ describe('SVG output', () => {
     await plotRun(filterRun, { kind: 'traces', out, width: 800, height: 500, values: new Map([['ions', '0,5']]) });
     const text = readFileSync(out, 'utf8');
     expect(text).toMatch(/^<\?xml[^>]*>\s*<svg[^>]*width="800"[^>]*height="500"/);
-    expect(text.toUpperCase()).toContain(seriesColor(0).toUpperCase());
+    expect(text.toUpperCase()).toContain(filterSpecies(0).toUpperCase());
     expect(text.trimEnd().endsWith('</svg>')).toBe(true);
   });
 });

@@ -72,7 +72,7 @@ describe('bundle layout', () => {
     for (const [name, kind] of Object.entries(kinds)) {
       const r = results(bundles.get(name)!);
       expect(r.format).toBe('iontrail-report-results');
-      expect(r.version).toBe(1);
+      expect(r.version).toBe(2);
       expect(r.scene_kind).toBe(kind);
       for (const key of ['scene_name', 'operating_points', 'species', 'figures', 'assumptions', 'safety_cautions', 'warnings', 'provenance', 'units']) {
         expect(r, `${name}.${key}`).toHaveProperty(key);

@@ -83,6 +83,6 @@ describe('results.json', () => {
     // A dash, not "NaN", where the document shows a missing number.
     expect(num(Number.NaN)).toBe('—');
     const doc = reportDocument(r);
-    expect(doc.sections.map((s) => s.id)).toEqual(['safety', 'results', 'cooling', 'assumptions', 'provenance']);
+    expect(doc.sections.map((s) => s.id)).toEqual(['verdict', 'safety', 'inputs', 'results', 'cooling', 'target-keys', 'assumptions', 'provenance']);
   });
 });

@@ -9,6 +9,7 @@ import type { FigureSpec, LegendEntry } from '../figure.js';
 import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 import { tofResolution, TOF_RESOLUTION_DEFINITION } from '../../../sim/analysis/arrival.js';
+import { speciesColors } from '../../common/species.js';
 
 const FATE_CHOICES = ['detected', 'hit', 'alive', 'all'] as const;
 
@@ -25,6 +26,27 @@ export function freedmanDiaconisBins(values: Float64Array, lo: number, hi: numbe
   const h = 2 * iqr * Math.pow(s.length, -1 / 3);
   if (!(h > 0) || !(hi > lo)) return 10;
   return Math.max(5, Math.min(200, Math.ceil((hi - lo) / h)));
+}
+
+/**
+ * A round energy to subtract when the spread is under 1 % of the mean: the mean rounded to the
+ * decade above the spread (20 002.4 eV with a 5 eV spread → 20 000 eV); 0 when no offset is needed.
+ */
+export function roundOffset(v: number[]): number {
+  if (v.length === 0) return 0;
+  let lo = Infinity, hi = -Infinity, m = 0;
+  for (const x of v) { if (x < lo) lo = x; if (x > hi) hi = x; m += x; }
+  m /= v.length;
+  const span = Math.max(hi - lo, 1e-12);
+  if (!(Math.abs(m) > 0) || span >= 0.01 * Math.abs(m)) return 0;
+  const step = Math.pow(10, Math.ceil(Math.log10(span)) + 1);
+  return Math.round(m / step) * step;
+}
+
+/** 20000 → "20 000" (thin groups of three, as SI writes large numbers). */
+export function groupDigits(v: number): string {
+  const [i, f] = String(Number(v.toPrecision(12))).split('.');
+  return i.replace(/\B(?=(\d{3})+(?!\d))/g, ' ') + (f ? `.${f}` : '');
 }
 
 function meanSd(v: ArrayLike<number>): { mean: number; sd: number } {
@@ -49,6 +71,10 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
     list.push(v);
     byPop.set(I.population[r], list);
   }
+  // Energies of accelerated ions (20 keV ± a few eV): histogram the offset from a round energy so
+  // the spread shows in eV instead of as 2.0000e4 on every tick.
+  const offset = what === 'energy' ? roundOffset([...byPop.values()].flat()) : 0;
+  if (offset !== 0) for (const l of byPop.values()) for (let k = 0; k < l.length; k++) l[k] -= offset;
   const all = Float64Array.from([...byPop.values()].flat());
   if (all.length === 0) {
     throw new PlotError(`${run.dir}: no ${fate === 'all' ? '' : fate + ' '}ions to histogram${fate !== 'all' ? ' (try --fate all)' : ''}`);
@@ -65,8 +91,9 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
   const widest = Math.max(...spans.map((r) => r.hi - r.lo));
   const separate = !overlay && pops.length > 1 && widest > 0 && (hi - lo) > 8 * widest;
   const legend: LegendEntry[] = [];
+  const speciesColor = speciesColors(run.summary.species.map((s) => s.mz));
   const mzOf = (p: number) => { const r = I.population.indexOf(p); return r >= 0 ? Number(I.mz[r].toPrecision(6)) : NaN; };
-  pops.forEach((p, i) => {
+  pops.forEach((p) => {
     const v = byPop.get(p)!;
     const { mean, sd } = meanSd(v);
     // TOF resolving power by the one definition of sim/analysis/arrival.ts (the same figure as
@@ -74,11 +101,11 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
     const r = what === 'arrival' ? tofResolution(v)?.resolution ?? null : null;
     const res = r !== null ? `, m/Δm ${Number(r.toPrecision(4))}` : '';
     legend.push({
-      label: `m/z ${mzOf(p)}: n = ${v.length}, mean ${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
-      color: seriesColor(i), mark: 'box',
+      label: `m/z ${mzOf(p)}: n = ${v.length}, mean ${offset !== 0 ? `${groupDigits(offset)} eV + ` : ''}${formatWithUnit(mean, unit, 4)}, σ ${formatWithUnit(sd, unit, 3)}${res}`,
+      color: speciesColor(mzOf(p)), mark: 'box',
     });
   });
-  const label = what === 'arrival' ? 'arrival time' : 'final kinetic energy';
+  const label = what === 'arrival' ? 'arrival time' : offset !== 0 ? `final kinetic energy E − ${groupDigits(offset)} eV` : 'final kinetic energy';
   const fixedBins = opt.values.has('bins') ? intFlag(opt, 'bins', 40, 1, 2000) : 0;
   const groups = separate ? pops.map((p, i) => ({ pops: [p], colors: [i] })) : [{ pops, colors: pops.map((_, i) => i) }];
   const panels = groups.map((gr) => {
@@ -93,7 +120,7 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
     const hists = gr.pops.map((p, k) => {
       const counts = new Float64Array(nBins);
       for (const x of byPop.get(p)!) counts[Math.min(nBins - 1, Math.floor((x - plo) / width))]++;
-      return { counts, color: seriesColor(gr.colors[k]) };
+      return { counts, color: speciesColor(mzOf(p)) };
     });
     // Stacked by default: species that arrive together stay visible, and the top is the total.
     const base = hists.map(() => new Float64Array(nBins));

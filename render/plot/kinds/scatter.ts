@@ -9,6 +9,7 @@ import type { Ctx, FigureSpec, LegendEntry, PanelGeom, PanelSpec } from '../figu
 import { PlotError, choiceFlag, intFlag, pointStride, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 import { rfStages, sceneStages, stageExtent } from '../scene.js';
+import { speciesColors } from '../../common/species.js';
 
 const SOURCES = ['points', 'start', 'end'] as const;
 const STYLES = ['auto', 'scatter', 'density'] as const;
@@ -63,11 +64,12 @@ function populationLegend(run: RunFolder, pops: Int32Array): { legend: LegendEnt
   const present = [...new Set(pops)].sort((a, b) => a - b);
   const colorOf = new Map<number, string>();
   const legend: LegendEntry[] = [];
-  present.forEach((p, i) => {
-    colorOf.set(p, seriesColor(i));
+  const speciesColor = speciesColors(run.summary.species.map((s) => s.mz));
+  present.forEach((p) => {
     const r = run.ions.population.indexOf(p);
     const mz = r >= 0 ? run.ions.mz[r] : NaN;
-    legend.push({ label: `population ${p}: m/z ${Number.isFinite(mz) ? Number(mz.toPrecision(6)) : '?'}`, color: seriesColor(i), mark: 'point' });
+    colorOf.set(p, speciesColor(mz));
+    legend.push({ label: `m/z ${Number.isFinite(mz) ? Number(mz.toPrecision(6)) : '?'}`, color: speciesColor(mz), mark: 'point' });
   });
   return { legend, colorOf };
 }

@@ -14,6 +14,7 @@ import type { Ctx, FigureSpec, LegendEntry, PanelGeom } from '../figure.js';
 import { PlotError, intFlag, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 import { rfStages, type RfStage } from '../scene.js';
+import { speciesColors } from '../../common/species.js';
 
 interface SpeciesPoint { label: string; name: string; q: number; a: number; stable: boolean; color: string }
 
@@ -143,13 +144,14 @@ export const stability: PlotKind = {
     const trap = stage.analyzer === 'trap';
     const op = { analyzer: stage.analyzer, r0: stage.r0, z0: stage.z0, freq: stage.frequency, rf: stage.amplitude, dc: stage.dc };
     const species = speciesOf(run);
-    const points: SpeciesPoint[] = species.map((s, i) => {
+    const colorOf = speciesColors(run.summary.species.map((s) => s.mz));
+    const points: SpeciesPoint[] = species.map((s) => {
       const [ref, other] = mathieuParameters({ ...op, mz: s.mz, charge: s.charge });
       // Stable only when both motions are: x and y for the filter, z and r for the trap.
       const stable = floquet(ref.a, ref.q).stable && floquet(other.a, other.q).stable;
       const name = `m/z ${fmt(s.mz)}${s.charge !== 1 ? ` (z = ${s.charge > 0 ? '+' : ''}${s.charge})` : ''}`;
       const label = `${name}: ${trap ? 'a_z' : 'a'} ${ref.a.toFixed(3)}, ${trap ? 'q_z' : 'q'} ${Math.abs(ref.q).toFixed(3)}`;
-      return { label, name, q: Math.abs(ref.q), a: ref.a, stable, color: seriesColor(i) };
+      return { label, name, q: Math.abs(ref.q), a: ref.a, stable, color: colorOf(s.mz) };
     });
     const anyNegative = points.some((p) => p.a < 0) || (trap ? false : stage.dc < 0);
     const region = trap ? firstRegionTrap(nPts) : firstRegionQuadrupole(nPts, { full: anyNegative });

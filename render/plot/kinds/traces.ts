@@ -4,7 +4,8 @@
 
 import { readTrajectories, ionSegments, type RunFolder, type TrajectoryColumns } from '../../../sim/runfolder/index.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../../sim/units/constants.js';
-import { seriesColor, INK_SOFT } from '../../common/palette.js';
+import { INK_SOFT } from '../../common/palette.js';
+import { speciesColors } from '../../common/species.js';
 import { formatWithUnit } from '../../common/ticks.js';
 import { extent } from '../axis.js';
 import { Decimator } from '../decimate.js';
@@ -25,8 +26,8 @@ const QUANTITIES = {
 } as const;
 type Quantity = keyof typeof QUANTITIES;
 
-/** Series drawn per ion beyond which ions are coloured by population instead of one by one. */
-const MAX_PER_ION_COLOURS = 7;
+/** Ions drawn beyond which lines get thinner and translucent so the species drawn first show through. */
+const MAX_PER_ION_COLOURS = 12;
 
 /** One derived column over all points (r, kinetic energy) or a stored one. */
 function column(q: Quantity, tr: TrajectoryColumns, massOf: (ion: number) => number): Float64Array {
@@ -45,6 +46,23 @@ function column(q: Quantity, tr: TrajectoryColumns, massOf: (ion: number) => num
     return out;
   }
   return tr[q];
+}
+
+/** Ions per species drawn when --ions is not given. */
+export const DEFAULT_PER_SPECIES = 3;
+
+/** The first n ion ids of each population in the ions table, sorted. */
+export function firstIonsPerSpecies(run: RunFolder, n: number): number[] {
+  const seen = new Map<number, number>();
+  const out: number[] = [];
+  for (let r = 0; r < run.ions.ion.length; r++) {
+    const p = run.ions.population[r];
+    const k = seen.get(p) ?? 0;
+    if (k >= n) continue;
+    seen.set(p, k + 1);
+    out.push(run.ions.ion[r]);
+  }
+  return out.sort((a, b) => a - b);
 }
 
 export interface TraceSeries { start: number; end: number; color: string }
@@ -70,7 +88,7 @@ export const traces: PlotKind = {
   name: 'traces',
   describe: 'stacked time traces (x, y, z, r, kinetic energy) of chosen ions on one time axis',
   flags: {
-    ions: 'ions to draw, e.g. 0,3,7 or 0-9 (default: every recorded ion)',
+    ions: `ions to draw, e.g. 0,3,7 or 0-9, or all (default: the first ${DEFAULT_PER_SPECIES} of each species)`,
     panels: 'quantities, top to bottom, from x,y,z,r,ke,vx,vy,vz (default x,y,z,ke)',
     every: 'read every n-th recorded point (default 1; thinned automatically above 2e7 points)',
   },
@@ -83,7 +101,8 @@ export const traces: PlotKind = {
       if (!(p in QUANTITIES)) throw new PlotError(`--panels: unknown quantity '${p}' (expected some of ${Object.keys(QUANTITIES).join(',')})`);
     }
     const ionsText = opt.values.get('ions');
-    const wanted = ionsText === undefined ? undefined : ionList(ionsText);
+    // Default: the first DEFAULT_PER_SPECIES ions of each species, so the lines stay readable.
+    const wanted = ionsText === 'all' ? undefined : ionsText === undefined ? firstIonsPerSpecies(run, DEFAULT_PER_SPECIES) : ionList(ionsText);
     const { every, note } = pointStride(run, opt, wanted ? wanted.length : null);
     const tr = await readTrajectories(run.dir, { ions: wanted, everyNth: every });
     if (tr.t.length === 0) {
@@ -97,23 +116,22 @@ export const traces: PlotKind = {
     };
     const segs = ionSegments(tr.ion);
     const perIon = segs.length <= MAX_PER_ION_COLOURS;
-    const legend: LegendEntry[] = [];
-    const popIndex = new Map<number, number>();
-    const series: TraceSeries[] = segs.map((s, k) => {
+    // One colour per species, the same in every figure and the 3D view (render/common/species.ts);
+    // the legend names the ions of each species.
+    const speciesColor = speciesColors(run.summary.species.map((x) => x.mz));
+    const ionsOf = new Map<number, number[]>();
+    const series: TraceSeries[] = segs.map((s) => {
       const r = rowOf.get(s.ion);
       const mz = r === undefined ? NaN : run.ions.mz[r];
-      if (perIon) {
-        const color = seriesColor(k);
-        legend.push({ label: `ion ${s.ion} (m/z ${fmt(mz)})`, color, mark: 'line' });
-        return { ...s, color };
-      }
-      const pop = r === undefined ? -1 : run.ions.population[r];
-      if (!popIndex.has(pop)) {
-        popIndex.set(pop, popIndex.size);
-        legend.push({ label: `m/z ${fmt(mz)}`, color: seriesColor(popIndex.size - 1), mark: 'line' });
-      }
-      return { ...s, color: seriesColor(popIndex.get(pop)!) };
+      const l = ionsOf.get(mz) ?? [];
+      l.push(s.ion);
+      ionsOf.set(mz, l);
+      return { ...s, color: speciesColor(mz) };
     });
+    const legend: LegendEntry[] = [...ionsOf.entries()].sort((a, b) => a[0] - b[0]).map(([mz, ions]) => ({
+      label: `m/z ${fmt(mz)}: ${ions.length === 1 ? 'ion' : `${ions.length} ions`}${ions.length <= 4 ? ` ${ions.join(', ')}` : ''}`,
+      color: speciesColor(mz), mark: 'line' as const,
+    }));
     const [t0, t1] = extent([tr.t]);
     const rf = opt.switches.has('rf-marks') ? firstRfFrequency(run.summary) : undefined;
     if (opt.switches.has('rf-marks') && rf === undefined) {

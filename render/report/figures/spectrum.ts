@@ -7,6 +7,7 @@ import { seriesColor, INK, INK_SOFT } from '../../common/palette.js';
 import { font } from '../../common/fonts.js';
 import type { FigureSpec, LegendEntry } from '../../plot/figure.js';
 import { figureTitle, footerText } from '../../plot/provenance.js';
+import { speciesColors } from '../../common/species.js';
 
 export interface ScanBlock {
   mode?: string;
@@ -33,9 +34,10 @@ export function spectrumFigure(summary: RunSummary, runDir: string): FigureSpec 
   const pad = 0.06 * (hi - lo || 10);
   lo -= pad; hi += pad;
   const legend: LegendEntry[] = [{ label: `counts per ${fmt(sp.bin_width_mz, 3)} m/z bin`, color: INK, mark: 'box' }];
-  species.forEach((s, i) => legend.push({
+  const speciesColor = speciesColors(summary.species.map((x) => x.mz));
+  species.forEach((s) => legend.push({
     label: `m/z ${fmt(s.mz, 6)}: ${s.ejected} ejected${s.apparent_mz !== null ? `, apparent ${fmt(s.apparent_mz, 6)}` : ''}${s.fwhm_mz !== null ? `, FWHM ${fmt(s.fwhm_mz, 3)}` : ''}${s.resolution !== null ? `, R ${Math.round(s.resolution)}` : ''}`,
-    color: seriesColor(i), mark: 'dash',
+    color: speciesColor(s.mz), mark: 'dash',
   }));
   return {
     title: figureTitle(summary, 'simulated mass spectrum'),
@@ -54,8 +56,8 @@ export function spectrumFigure(summary: RunSummary, runDir: string): FigureSpec 
         }
         ctx.setLineDash([6, 4]);
         ctx.lineWidth = 1.5;
-        species.forEach((s, i) => {
-          ctx.strokeStyle = seriesColor(i);
+        species.forEach((s) => {
+          ctx.strokeStyle = speciesColor(s.mz);
           ctx.beginPath(); ctx.moveTo(g.px(s.mz), g.top); ctx.lineTo(g.px(s.mz), g.top + g.height); ctx.stroke();
         });
         ctx.setLineDash([]);

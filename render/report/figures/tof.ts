@@ -12,6 +12,7 @@ import { formatWithUnit } from '../../common/ticks.js';
 import type { Ctx, FigureSpec, LegendEntry, PanelGeom } from '../../plot/figure.js';
 import { extent, padded } from '../../plot/axis.js';
 import { figureTitle, footerText } from '../../plot/provenance.js';
+import { speciesColors } from '../../common/species.js';
 
 interface TofSpecies { population: number; mz: number; arrival_time_s: number | null; fwhm_s: number | null; resolution_fwhm: number | null }
 export interface TofBlock {
@@ -45,13 +46,14 @@ export function calibrationFigure(summary: RunSummary, runDir: string): FigureSp
   if (!cal || pts.length < 2) return null;
   const sx = pts.map((s) => Math.sqrt(s.mz));
   const ty = pts.map((s) => s.arrival_time_s as number);
+  const speciesColor = speciesColors(summary.species.map((x) => x.mz));
   const fit = (r: number) => cal.t0_s + cal.k_s_per_sqrt_mz * r;
   const res = pts.map((_, i) => ty[i] - fit(sx[i]));
   const [x0, x1] = padded(extent([sx]), 0.08);
   const [r0, r1] = padded(extent([res, [0]]), 0.25);
   const legend: LegendEntry[] = [
     { label: `fit t = t0 + k·√(m/z): t0 = ${formatWithUnit(cal.t0_s, 's', 4)}, k = ${formatWithUnit(cal.k_s_per_sqrt_mz, 's', 6)}`, color: INK, mark: 'line' },
-    ...pts.map((s, i) => ({ label: `m/z ${fmt(s.mz, 6)}: t = ${formatWithUnit(s.arrival_time_s as number, 's', 6)}`, color: seriesColor(i), mark: 'point' as const })),
+    ...pts.map((s) => ({ label: `m/z ${fmt(s.mz, 6)}: t = ${formatWithUnit(s.arrival_time_s as number, 's', 6)}`, color: speciesColor(s.mz), mark: 'point' as const })),
   ];
   return {
     title: figureTitle(summary, 'mass calibration'),
@@ -64,7 +66,7 @@ export function calibrationFigure(summary: RunSummary, runDir: string): FigureSp
         draw: (ctx, g) => {
           ctx.strokeStyle = INK; ctx.lineWidth = 1.5;
           ctx.beginPath(); ctx.moveTo(g.px(x0), g.py(fit(x0))); ctx.lineTo(g.px(x1), g.py(fit(x1))); ctx.stroke();
-          pts.forEach((_, i) => dots(ctx, g, [sx[i]], [ty[i]], seriesColor(i), 5, 1));
+          pts.forEach((s, i) => dots(ctx, g, [sx[i]], [ty[i]], speciesColor(s.mz), 5, 1));
         },
       },
       {
@@ -73,7 +75,7 @@ export function calibrationFigure(summary: RunSummary, runDir: string): FigureSp
         draw: (ctx, g) => {
           ctx.strokeStyle = INK_SOFT; ctx.lineWidth = 1;
           ctx.beginPath(); ctx.moveTo(g.left, g.py(0)); ctx.lineTo(g.left + g.width, g.py(0)); ctx.stroke();
-          pts.forEach((_, i) => dots(ctx, g, [sx[i]], [res[i]], seriesColor(i), 5, 1));
+          pts.forEach((s, i) => dots(ctx, g, [sx[i]], [res[i]], speciesColor(s.mz), 5, 1));
         },
       },
     ],
@@ -112,7 +114,8 @@ export function sourceFocusFigure(run: RunFolder): FigureSpec | null {
   }
   const [xa, xb] = padded(extent(series.map((s) => s.dz)));
   const [ya, yb] = padded(extent(series.map((s) => s.dt)));
-  const legend: LegendEntry[] = series.map((s, i) => ({ label: `m/z ${fmt(s.mz, 6)}`, color: seriesColor(i), mark: 'point' }));
+  const speciesColor = speciesColors(run.summary.species.map((x) => x.mz));
+  const legend: LegendEntry[] = series.map((s) => ({ label: `m/z ${fmt(s.mz, 6)}`, color: speciesColor(s.mz), mark: 'point' }));
   const vFocus = src.extraction_voltage_for_focus_at_detector_v;
   return {
     title: figureTitle(run.summary, 'source space focus'),
@@ -123,7 +126,7 @@ export function sourceFocusFigure(run: RunFolder): FigureSpec | null {
       x: { label: 'start position − species mean (z)', unit: 'm', min: xa, max: xb },
       y: { label: 'arrival time − species mean', unit: 's', min: ya, max: yb },
       note: 'a flat band means the start-position spread is focused at the detector',
-      draw: (ctx, g) => series.forEach((s, i) => dots(ctx, g, s.dz, s.dt, seriesColor(i))),
+      draw: (ctx, g) => series.forEach((s) => dots(ctx, g, s.dz, s.dt, speciesColor(s.mz))),
     }],
     footer: footerText(run.summary, run.dir),
   };

@@ -57,6 +57,7 @@ export function trackUniform(st: DriftStage | AccelerateStage, c: IonCursor, ctx
     const stepped = gas !== null && dt > gasStep;
     if (stepped) dt = gasStep;
     sampleHistory(c, ctx, a, dt);
+    if (ctx.rec !== null && ctx.recordSpacing !== undefined) recordInside(c, ctx, a, dt, ctx.recordSpacing);
     const t1 = c.t + dt;
     const x = c.x + c.vx * dt, y = c.y + c.vy * dt;
     let z = c.z + dt * (c.vz + 0.5 * a * dt);
@@ -75,6 +76,19 @@ export function trackUniform(st: DriftStage | AccelerateStage, c: IonCursor, ctx
     b.vx[i] = c.vx; b.vy[i] = c.vy; b.vz[i] = c.vz;
     gas!(b, i, dt);
     c.vx = b.vx[i]; c.vy = b.vy[i]; c.vz = b.vz[i];
+  }
+}
+
+/**
+ * Trajectory points at t + k·spacing inside (t, t + dt), from the closed-form motion; the cursor
+ * is not touched, so the ion's flight and end state are the same with or without them.
+ */
+function recordInside(c: IonCursor, ctx: StepContext, a: number, dt: number, spacing: number): void {
+  const rec = ctx.rec!;
+  const n = Math.min(100_000, Math.ceil(dt / spacing) - 1);
+  for (let k = 1; k <= n; k++) {
+    const s = k * spacing;
+    rec.push(c.ion, c.t + s, c.x + c.vx * s, c.y + c.vy * s, c.z + s * (c.vz + 0.5 * a * s), c.vx, c.vy, c.vz + a * s);
   }
 }
 
