@@ -80,7 +80,8 @@ class Interrupted extends Error {}
 export function checkBundleTarget(out: string, force: boolean): void {
   const dir = resolve(out);
   const parent = dirname(dir);
-  if (!existsSync(parent) || !statSync(parent).isDirectory()) throw new UsageError(`report: -o ${out}: parent folder ${parent} does not exist`);
+  if (!existsSync(parent)) throw new UsageError(`report: -o ${out}: parent folder ${parent} does not exist`);
+  if (!statSync(parent).isDirectory()) throw new UsageError(`report: -o ${out}: ${parent} is a file, not a folder`);
   if (existsSync(dir) && !force) throw new UsageError(`report: -o ${out} already exists (give --force to replace it)`);
   if (existsSync(dir) && !statSync(dir).isDirectory()) throw new UsageError(`report: -o ${out} exists and is not a folder`);
 }

@@ -1,0 +1,22 @@
+// The guard rails every command that runs a scene shares: --max-output, the estimate line on stderr
+// before the run, and the exit code of a run stopped by SIGINT or SIGTERM.
+
+import type { ParsedArgs } from './args.js';
+import { flag } from './args.js';
+import { DEFAULT_MAX_OUTPUT, estimateLine, formatBytes, parseByteSize, type RunEstimate } from '../sim/runs/estimate.js';
+export { interruptedExitCode } from '../sim/runs/stop-signals.js';
+
+/** Help lines of the shared flags. */
+export const MAX_OUTPUT_HELP = `  --max-output SIZE  allow a run whose estimated output exceeds ${formatBytes(DEFAULT_MAX_OUTPUT)} (e.g. 20GB, 500MB, 2GiB);
+                     the estimate (an upper bound) is printed to stderr before the run`;
+
+/** The --max-output value in bytes (the default limit when absent). */
+export function maxOutput(a: ParsedArgs): number {
+  const v = flag(a, 'max-output');
+  return v === undefined ? DEFAULT_MAX_OUTPUT : parseByteSize(v);
+}
+
+/** Prints the estimate line to stderr, prefixed with a label (e.g. the demo's scene). */
+export function printEstimate(label = ''): (e: RunEstimate) => void {
+  return (e) => process.stderr.write(`${label}${estimateLine(e)}\n`);
+}
