@@ -6,9 +6,12 @@ import { flag } from './args.js';
 import { DEFAULT_MAX_OUTPUT, estimateLine, formatBytes, parseByteSize, type RunEstimate } from '../sim/runs/estimate.js';
 export { interruptedExitCode } from '../sim/runs/stop-signals.js';
 
-/** Help lines of the shared flags. */
-export const MAX_OUTPUT_HELP = `  --max-output SIZE  allow a run whose estimated output exceeds ${formatBytes(DEFAULT_MAX_OUTPUT)} (e.g. 20GB, 500MB, 2GiB);
-                     the estimate (an upper bound) is printed to stderr before the run`;
+/** Help lines of --max-output, the descriptions starting at column `col`. */
+export function maxOutputHelp(col = 21): string {
+  const pad = ' '.repeat(col);
+  return `${'  --max-output SIZE'.padEnd(col)}allow a run whose estimated output exceeds ${formatBytes(DEFAULT_MAX_OUTPUT)} (e.g. 20GB,\n`
+    + `${pad}500MB, 2GiB); the estimate (an upper bound) is printed to stderr before the run`;
+}
 
 /** The --max-output value in bytes (the default limit when absent). */
 export function maxOutput(a: ParsedArgs): number {

@@ -5,7 +5,7 @@ import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { progressBar } from '../progress.js';
-import { interruptedExitCode, MAX_OUTPUT_HELP, maxOutput, printEstimate } from '../run-limits.js';
+import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 
 export const describe = 'integrate the ions of a scene file and write a run folder';
 
@@ -23,7 +23,7 @@ Integrates every ion of the scene and writes the run folder DIR:
   --seed N           replace the scene's seed
   --workers N        worker threads (default: all cores; results do not depend on it)
   --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
-${MAX_OUTPUT_HELP}
+${maxOutputHelp()}
   --force            replace an existing DIR (the old one is removed only once the new one is complete)
   --csv              also write ions.csv, history.csv and trajectories.csv
   --json             print summary.json to stdout instead of the short table
