@@ -8,6 +8,7 @@ import { quadrupoleField } from './field.js';
 import { trackQuadrupole } from './kernel.js';
 import type { QuadrupoleStage } from './stage.js';
 import { lengthMm, mm2 } from '../shared/describe.js';
+import { r0Plausibility } from '../shared/plausible.js';
 
 export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   type: 'quadrupole',
@@ -32,5 +33,6 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   operatingPoint: (st) => ({ analyzer: 'quadrupole', r0: st.r0, z0: undefined, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `quadrupole ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
   outline: () => [{ shape: 'rod-set', reachR0: 1.5 }],
+  plausibility: (st) => r0Plausibility(st.r0, 'quadrupole mass filters'),
   assumptions: ['No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.'],
 };

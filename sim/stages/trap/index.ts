@@ -5,6 +5,7 @@ import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resol
 import type { StageKind } from '../kind.js';
 import { trackAdaptive } from '../shared/adaptive.js';
 import { mm2 } from '../shared/describe.js';
+import { r0Plausibility } from '../shared/plausible.js';
 import { adaptiveTrap } from './adaptive.js';
 import { trapField } from './field.js';
 import { trackTrap } from './kernel.js';
@@ -46,5 +47,6 @@ export const trapKind: StageKind<TrapStage> = {
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `RF trap r0 ${mm2(s.r0)} mm, z0 ${mm2(s.z0)} mm`,
   outline: () => [{ shape: 'hyperbolic-trap', reachR0: 1 }],
+  plausibility: (st) => r0Plausibility(st.r0, 'RF ion traps'),
   assumptions: ['No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.'],
 };
