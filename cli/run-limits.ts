@@ -20,6 +20,6 @@ export function maxOutput(a: ParsedArgs): number {
 }
 
 /** Prints the estimate line to stderr, prefixed with a label (e.g. the demo's scene). */
-export function printEstimate(label = ''): (e: RunEstimate) => void {
-  return (e) => process.stderr.write(`${label}${estimateLine(e)}\n`);
+export function printEstimate(label = ''): (e: RunEstimate, workers: number) => void {
+  return (e, workers) => process.stderr.write(`${label}${estimateLine(e, workers)}\n`);
 }

@@ -6,7 +6,7 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { parseCount } from './run.js';
 import { writeReportBundle } from './report.js';
@@ -25,9 +25,12 @@ const CHECKS: string[][] = [
   ['--analyzer', 'trap', '--r0', '7.07mm', '--freq', '1.05MHz', '--rf', '400V', '--mz', '609'],
 ];
 
+/** The flags `iontrail demo` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = { values: ['out', 'workers', 'max-output'], switches: ['force', 'help'], aliases: { o: 'out', h: 'help' } };
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, { values: ['out', 'workers', 'max-output'], switches: ['force', 'help'], aliases: { o: 'out', h: 'help' } }, 'demo');
-  if (a.switches.has('help')) { process.stdout.write(`usage: iontrail demo [-o DIR] [--workers N] [--max-output SIZE]\n\n  -o, --out DIR      folder of the review bundles (default out/demo; made when missing)\n  --workers N        worker threads (default: all cores)\n${maxOutputHelp()}\n  --force            accepted for symmetry; the demo always replaces its own bundles\n`); return 0; }
+  const a = parseArgs(argv, FLAGS, 'demo');
+  if (a.switches.has('help')) { process.stdout.write(`usage: iontrail demo [-o DIR] [--workers N] [--max-output SIZE]\n\n  -o, --out DIR      folder of the review bundles (default out/demo; made when missing)\n  --workers N        worker threads (default: all cores)\n${maxOutputHelp()}\n  --force            accepted for symmetry; the demo always replaces its own bundles\n  -h, --help         this text\n`); return 0; }
   const out = resolve(flag(a, 'out') ?? join(process.cwd(), 'out', 'demo'));
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
   const limit = maxOutput(a);

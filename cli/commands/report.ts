@@ -9,7 +9,7 @@ import { isQuadrupole } from '../../sim/stages/guards.js';
 import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { progressBar } from '../progress.js';
 import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
@@ -71,7 +71,7 @@ export interface BundleOptions {
   /** Output limit of the scene's run, bytes (runScene's default when absent). */
   maxOutput?: number;
   /** Told the estimate of the scene's run before it starts. */
-  onEstimate?: (e: RunEstimate) => void;
+  onEstimate?: (e: RunEstimate, workers: number) => void;
   /** Scene file text, --set overrides and --seed, for the m/z sweep of a filter (it re-reads the scene per point). */
   sceneText?: string;
   set?: string[];
@@ -223,13 +223,16 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
   }
 }
 
+/** The flags `iontrail report` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  switches: ['force', 'help'],
+  repeatable: ['set'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'seed', 'workers', 'set', 'max-output'],
-    switches: ['force', 'help'],
-    repeatable: ['set'],
-    aliases: { o: 'out', h: 'help' },
-  }, 'report');
+  const a = parseArgs(argv, FLAGS, 'report');
   if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`report: give one scene file (${USAGE})`);
   const out = flag(a, 'out');

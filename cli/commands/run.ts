@@ -1,6 +1,6 @@
 // iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set k=v]... [--force] [--csv] [--json]
 
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
@@ -39,13 +39,16 @@ export function parseCount(text: string | undefined, what: string, min: number):
   return Number(text);
 }
 
+/** The flags `iontrail run` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  switches: ['force', 'json', 'csv', 'help'],
+  repeatable: ['set'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'seed', 'workers', 'set', 'max-output'],
-    switches: ['force', 'json', 'csv', 'help'],
-    repeatable: ['set'],
-    aliases: { o: 'out', h: 'help' },
-  }, 'run');
+  const a = parseArgs(argv, FLAGS, 'run');
   if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`run: give one scene file (${USAGE})`);
   const out = flag(a, 'out');

@@ -2,7 +2,7 @@
 //   [--method auto|direct|matrix] [--seed N] [--workers N] [--set k=v]... [--force] [--json]
 
 import { readFileSync } from 'node:fs';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
 import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
@@ -48,13 +48,16 @@ Ctrl-C or SIGTERM stops the sweep after the point in progress: the points finish
 summary.json says "complete": false, and the exit code is 130 (SIGINT) or 143 (SIGTERM).
 `;
 
+/** The flags `iontrail sweep` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output'],
+  switches: ['force', 'json', 'help'],
+  repeatable: ['set', 'vary'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output'],
-    switches: ['force', 'json', 'help'],
-    repeatable: ['set', 'vary'],
-    aliases: { o: 'out', h: 'help' },
-  }, 'sweep');
+  const a = parseArgs(argv, FLAGS, 'sweep');
   if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`sweep: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
@@ -87,10 +90,10 @@ export async function run(argv: string[]): Promise<number> {
   });
   if (plan.collect.length > 0) {
     // Every point is a full run into a temporary run folder (removed after the point).
-    const e = estimateRun({ ...plan.base, run: { ...plan.base.run, recordEvery: 0 } }, { workers: plan.workers });
-    printEstimate('per point: ')(e);
-    process.stderr.write(`estimate: ${plan.tasks.length} points, about ${formatDuration(e.run_time_s * plan.tasks.length)} in all\n`);
+    const e = estimateRun({ ...plan.base, run: { ...plan.base.run, recordEvery: 0 } });
     checkOutputLimit(e, limit);
+    printEstimate('per point: ')(e, plan.workers);
+    process.stderr.write(`estimate: ${plan.tasks.length} points, about ${formatDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
   }
   const total = plan.tasks.length;
   let done = 0;

@@ -42,9 +42,11 @@ export interface RunEstimate {
   ion_steps: number;
   /** Bytes of the run folder (upper bound). */
   output_bytes: number;
-  /** Seconds at NOMINAL_STEPS_PER_S and NOMINAL_IONS_PER_S per worker. */
-  run_time_s: number;
-  workers: number;
+  /**
+   * Seconds on one worker at NOMINAL_STEPS_PER_S and NOMINAL_IONS_PER_S (divide by the workers:
+   * batches are independent). Kept per worker so that summary.json is the same for any count.
+   */
+  cpu_time_s: number;
 }
 
 /** Whether some ion is stepped (not flown in closed form) somewhere in the scene. */
@@ -54,7 +56,7 @@ function stepped(scene: Scene): boolean {
   return scene.stages.some((st) => !kindOf(st).uniformField || st.gas !== undefined || scene.gas !== undefined);
 }
 
-export function estimateRun(scene: Scene, opts: { workers: number; csv?: boolean }): RunEstimate {
+export function estimateRun(scene: Scene, opts: { csv?: boolean } = {}): RunEstimate {
   const ions = scene.ions.reduce((a, p) => a + p.count, 0);
   const rf = firstRf(scene.stages);
   const h = rf ? 1 / rf.rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
@@ -66,10 +68,9 @@ export function estimateRun(scene: Scene, opts: { workers: number; csv?: boolean
   const rowBytes = ION_ROW_BYTES + (opts.csv ? ION_CSV_ROW_BYTES : 0);
   const outputBytes = ions * (pointsPerIon * pointBytes + rowBytes) + FIXED_BYTES;
   const ionSteps = ions * stepsPerIon;
-  const workers = Math.max(1, opts.workers);
   return {
     ions, points_per_ion: pointsPerIon, ion_steps: Math.round(ionSteps), output_bytes: Math.round(outputBytes),
-    run_time_s: Number(((ionSteps / NOMINAL_STEPS_PER_S + ions / NOMINAL_IONS_PER_S) / workers).toPrecision(3)), workers,
+    cpu_time_s: Number((ionSteps / NOMINAL_STEPS_PER_S + ions / NOMINAL_IONS_PER_S).toPrecision(3)),
   };
 }
 
@@ -112,8 +113,8 @@ export function formatDuration(s: number): string {
   return `${Number((s / 86400).toPrecision(2))} days`;
 }
 
-/** One stderr line: "estimate: at most 312 MB of output, about 14 min on 2 workers (... ion-steps)". */
-export function estimateLine(e: RunEstimate): string {
+/** One stderr line: "estimate: 1000 ions, at most 312 MB of output, about 14 min on 2 workers (...)". */
+export function estimateLine(e: RunEstimate, workers: number): string {
   const steps = e.ion_steps > 0 ? `${e.ion_steps.toPrecision(2)} ion-steps at most` : 'closed-form flight, no steps';
-  return `estimate: ${e.ions} ions, at most ${formatBytes(e.output_bytes)} of output, about ${formatDuration(e.run_time_s)} on ${e.workers} worker${e.workers === 1 ? '' : 's'} (${steps})`;
+  return `estimate: ${e.ions} ions, at most ${formatBytes(e.output_bytes)} of output, about ${formatDuration(e.cpu_time_s / workers)} on ${workers} worker${workers === 1 ? '' : 's'} (${steps})`;
 }

@@ -35,8 +35,8 @@ export interface RunOptions {
   handleSigint?: boolean;
   /** Largest estimated output allowed, bytes (default DEFAULT_MAX_OUTPUT, 5 GB). */
   maxOutput?: number;
-  /** Told the run's estimate before anything is written (the CLI prints it). */
-  onEstimate?: (e: RunEstimate) => void;
+  /** Told the run's estimate once the run folder is started, before the first batch (the CLI prints it). */
+  onEstimate?: (e: RunEstimate, workers: number) => void;
 }
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
@@ -48,10 +48,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const plan = planBatches(scene);
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
-  const estimate = estimateRun(scene, { workers, csv: opts.csv });
-  opts.onEstimate?.(estimate);
+  const estimate = estimateRun(scene, { csv: opts.csv });
   checkOutputLimit(estimate, opts.maxOutput);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
+  opts.onEstimate?.(estimate, workers);
   const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime);
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
   const tally = new SpeciesTally(scene);
