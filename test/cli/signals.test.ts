@@ -1,14 +1,15 @@
 // SIGTERM (kill, batch schedulers, container runtimes) stops a run the way Ctrl-C does: the
 // finished batches kept in a complete folder marked incomplete, no temporary folder left. The
 // exit code is 128 + the signal number, as a shell reports a process the signal killed (POSIX
-// shell "Exit Status", common practice): 143 for SIGTERM, 130 for SIGINT.
+// shell "Exit Status", common practice): 143 for SIGTERM, 130 for SIGINT (the SIGINT run case is
+// test/engine/run-folder-cli.test.ts, the SIGINT report case test/report/bundle.test.ts).
 
 import { afterAll, describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { ChildProcess } from 'node:child_process';
 import { iontrailAsync, tempDir } from '../helpers/cli.js';
-import { readIons, readSummary } from '../../sim/runfolder/reader.js';
+import { expectInterruptedRun } from '../helpers/interrupted.js';
 
 const dirs: string[] = [];
 const temp = () => { const d = tempDir('iontrail-signals-'); dirs.push(d); return d; };
@@ -48,24 +49,8 @@ describe('SIGTERM', () => {
     const r = await stopAfter(iontrailAsync(['run', join(d, 's.yaml'), '-o', out, '--workers', '2']), 'SIGTERM', 1500);
     expect(r.code, r.stderr).toBe(143);
     expect(readdirSync(d).sort()).toEqual(['out', 's.yaml']);
-    const s = readSummary(out);
-    expect(s.complete).toBe(false);
-    const ions = readIons(out);
-    expect(ions.ion.length).toBeGreaterThan(0);
-    expect(ions.ion.length).toBeLessThan(400_000);
-    expect(s.ions.total).toBe(ions.ion.length);
-    expect(s.warnings.join(' ')).toMatch(/interrupted \(SIGTERM\)/);
+    expectInterruptedRun(out, 400_000, /interrupted \(SIGTERM\)/);
     expect(r.stdout).toMatch(/INCOMPLETE: interrupted/);
-  }, 120_000);
-
-  it('iontrail run: SIGINT gives 130 the same way', async () => {
-    const d = temp();
-    writeFileSync(join(d, 's.yaml'), FILTER);
-    const out = join(d, 'out');
-    const r = await stopAfter(iontrailAsync(['run', join(d, 's.yaml'), '-o', out, '--workers', '2']), 'SIGINT', 1500);
-    expect(r.code, r.stderr).toBe(130);
-    expect(readSummary(out).complete).toBe(false);
-    expect(readdirSync(d).sort()).toEqual(['out', 's.yaml']);
   }, 120_000);
 
   it('iontrail sweep: keeps the points finished, summary incomplete, says so, exit 143', async () => {
