@@ -7,7 +7,7 @@ import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
 import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
 import { onStopSignal } from '../../sim/runs/stop-signals.js';
-import { checkOutputLimit, estimateRun, formatDuration } from '../../sim/runs/estimate.js';
+import { aboutDuration, checkOutputLimit, estimateRun } from '../../sim/runs/estimate.js';
 import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 import { checkSweepFolder, writeSweepFolder } from '../../sim/sweeps/sweep-folder.js';
 import { parseCount } from './run.js';
@@ -86,14 +86,14 @@ export async function run(argv: string[]): Promise<number> {
   const plan = planSweep({
     sceneText: text, sceneFile: file, set: a.values.get('set') ?? [], seed, vary,
     collect: (a.values.get('collect')?.[0] ?? '').split(',').map((x) => x.trim()).filter((x) => x !== ''),
-    scanLines: flag(a, 'scan-lines'), method, workers, stopped: () => stoppedBy !== null,
+    scanLines: flag(a, 'scan-lines'), method, workers, maxOutput: limit, stopped: () => stoppedBy !== null,
   });
   if (plan.collect.length > 0) {
     // Every point is a full run into a temporary run folder (removed after the point).
     const e = estimateRun({ ...plan.base, run: { ...plan.base.run, recordEvery: 0 } });
     checkOutputLimit(e, limit);
     printEstimate('per point: ')(e, plan.workers);
-    process.stderr.write(`estimate: ${plan.tasks.length} points, about ${formatDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
+    process.stderr.write(`estimate: ${plan.tasks.length} points, ${aboutDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
   }
   const total = plan.tasks.length;
   let done = 0;

@@ -105,6 +105,11 @@ export function formatBytes(b: number): string {
   return `${Math.round(b)} B`;
 }
 
+/** "under 1 s", "about 3.2 s", "about 14 min", "about 2.5 h", "about 3.1 days". */
+export function aboutDuration(s: number): string {
+  return s < 1 ? 'under 1 s' : `about ${formatDuration(s)}`;
+}
+
 /** "3.2 s", "14 min", "2.5 h", "3.1 days". */
 export function formatDuration(s: number): string {
   if (s < 60) return `${Number(s.toPrecision(2))} s`;
@@ -116,5 +121,5 @@ export function formatDuration(s: number): string {
 /** One stderr line: "estimate: 1000 ions, at most 312 MB of output, about 14 min on 2 workers (...)". */
 export function estimateLine(e: RunEstimate, workers: number): string {
   const steps = e.ion_steps > 0 ? `${e.ion_steps.toPrecision(2)} ion-steps at most` : 'closed-form flight, no steps';
-  return `estimate: ${e.ions} ions, at most ${formatBytes(e.output_bytes)} of output, about ${formatDuration(e.cpu_time_s / workers)} on ${workers} worker${workers === 1 ? '' : 's'} (${steps})`;
+  return `estimate: ${e.ions} ions, at most ${formatBytes(e.output_bytes)} of output, ${aboutDuration(e.cpu_time_s / workers)} on ${workers} worker${workers === 1 ? '' : 's'} (${steps})`;
 }

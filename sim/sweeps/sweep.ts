@@ -53,6 +53,8 @@ export interface SweepRequest {
   /** Threads for direct integration (default: all cores). The matrix path runs in this thread. */
   workers?: number;
   progress?: (done: number, total: number) => void;
+  /** Output limit of each --collect point's run folder, bytes (runScene's 5 GB when absent). */
+  maxOutput?: number;
   /** Asked before each point; true stops the sweep there (SIGINT/SIGTERM), keeping the points finished. */
   stopped?: () => boolean;
 }
@@ -189,7 +191,7 @@ function gridTasks(axes: SweepAxis[], line: number, extra: string[]): SweepTask[
  * Fewer come back when the request's `stopped` said stop (the points before it are whole).
  */
 export async function runPointRange(plan: SweepPlan, from: number, to: number, tick: () => void = () => {}): Promise<SweepPoint[]> {
-  const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect);
+  const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect, plan.req.maxOutput);
   const out: SweepPoint[] = [];
   try {
     for (let k = from; k < to; k++) {
@@ -315,13 +317,13 @@ class PointRunner {
   private fate = new Int8Array(0);
   directBecause: string | null = null;
 
-  constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = []) {}
+  constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = [], private readonly maxOutput?: number) {}
 
   /** A full engine run of the point into a temporary folder; its summary gives the figures. */
   private async full(scene: Scene, total: number) {
     const dir = mkdtempSync(join(tmpdir(), 'iontrail-sweep-'));
     try {
-      const s = await runScene({ ...scene, run: { ...scene.run, recordEvery: 0 } }, { out: join(dir, 'run'), workers: this.workers });
+      const s = await runScene({ ...scene, run: { ...scene.run, recordEvery: 0 } }, { out: join(dir, 'run'), workers: this.workers, maxOutput: this.maxOutput });
       this.directBecause ??= 'full runs for --collect';
       const figures = this.collect.map((path) => {
         let v: unknown = s;
