@@ -80,10 +80,9 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       await runBatches(scene, plan, { workers, stopped: () => stop, onResult });
     }
   } catch (e) {
+    offSignals?.();
     await writer.abort();
     throw e;
-  } finally {
-    offSignals?.();
   }
   const complete = done === plan.total;
   if (!complete) warnings.push(`interrupted (${stoppedBy}): ${done} of ${plan.total} ions finished; the tables hold those only`);
@@ -121,7 +120,12 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   if (spaceCharge) summary.space_charge = spaceCharge;
   if (blocks.tof) summary.tof = blocks.tof;
   if (blocks.scan) summary.scan = blocks.scan;
-  await writer.finish(summary);
+  try {
+    // A signal from here on waits for the folder to be in place (it has nothing left to stop).
+    await writer.finish(summary);
+  } finally {
+    offSignals?.();
+  }
   return summary;
 }
 
