@@ -6,10 +6,12 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { parseCount } from './run.js';
 import { writeReportBundle } from './report.js';
+import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
+import { OutputError, systemReason } from '../../sim/core/atomic.js';
 
 export const describe = 'run the built-in demo (Skerry filter, trap and TOF scenes): a review bundle per scene in out/demo';
 
@@ -23,12 +25,20 @@ const CHECKS: string[][] = [
   ['--analyzer', 'trap', '--r0', '7.07mm', '--freq', '1.05MHz', '--rf', '400V', '--mz', '609'],
 ];
 
+/** The flags `iontrail demo` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = { values: ['out', 'workers', 'max-output'], switches: ['force', 'help'], aliases: { o: 'out', h: 'help' } };
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, { values: ['out', 'workers'], switches: ['force', 'help'], aliases: { o: 'out' } }, 'demo');
-  if (a.switches.has('help')) { process.stdout.write('usage: iontrail demo [-o DIR] [--workers N]\n'); return 0; }
+  const a = parseArgs(argv, FLAGS, 'demo');
+  if (a.switches.has('help')) { process.stdout.write(`usage: iontrail demo [-o DIR] [--workers N] [--max-output SIZE]\n\n  -o, --out DIR      folder of the review bundles (default out/demo; made when missing)\n  --workers N        worker threads (default: all cores)\n${maxOutputHelp()}\n  --force            accepted for symmetry; the demo always replaces its own bundles\n  -h, --help         this text\n`); return 0; }
   const out = resolve(flag(a, 'out') ?? join(process.cwd(), 'out', 'demo'));
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
-  mkdirSync(out, { recursive: true });
+  const limit = maxOutput(a);
+  try {
+    mkdirSync(out, { recursive: true });
+  } catch (e) {
+    throw new OutputError(`-o ${out}: cannot create the folder (${systemReason(e)})`);
+  }
   const check = await import('./check.js');
   for (const c of CHECKS) {
     process.stdout.write(`\n$ iontrail check ${c.join(' ')}\n`);
@@ -43,9 +53,9 @@ export async function run(argv: string[]): Promise<number> {
     process.stdout.write(`\n$ iontrail report scenes/${file} -o ${dir} --force\n`);
     const r = await writeReportBundle(scene, {
       out: dir, force: true, workers, sceneFile: `scenes/${file}`, sceneText: text, commandLine: 'iontrail demo',
-      progressLabel: file, handleSigint: true,
+      progressLabel: file, handleSigint: true, maxOutput: limit, onEstimate: printEstimate(`${file}: `),
     });
-    if (!r.complete) return 130;
+    if (!r.complete) return interruptedExitCode();
     const res = r.results;
     for (const w of res.warnings) process.stderr.write(`warning: ${w}\n`);
     for (const sp of res.species) {
@@ -63,13 +73,14 @@ export async function run(argv: string[]): Promise<number> {
   const cap = join(out, 't7-capacity');
   const capArgs = ['scenes/t7-capacity.yaml', '--vary', 'space_charge.weight=1..400:5', '--collect',
     'space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m,space_charge.lost',
-    '-o', cap, '--force', ...(workers ? ['--workers', String(workers)] : [])];
+    '-o', cap, '--force', ...(workers ? ['--workers', String(workers)] : []), ...(flag(a, 'max-output') ? ['--max-output', flag(a, 'max-output')!] : [])];
   process.stdout.write(`\n$ iontrail sweep ${capArgs.join(' ')}\n`);
   const sweep = await import('./sweep.js');
   const prevCwd = process.cwd();
   process.chdir(ROOT);
   try {
-    if ((await sweep.run(capArgs)) !== 0) return 2;
+    const code = await sweep.run(capArgs);
+    if (code !== 0) return code;
     const plot = await import('./plot.js');
     const plotArgs = [cap, '--kind', 'sweep', '--x', 'space_charge.real_charges', '--y',
       'space_charge.frequency_shift_z,space_charge.frequency_shift_r,space_charge.rms_radius_m', '-o', join(cap, 'capacity.png')];

@@ -9,9 +9,12 @@ import { isQuadrupole } from '../../sim/stages/guards.js';
 import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { progressBar } from '../progress.js';
+import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
+import { onStopSignal } from '../../sim/runs/stop-signals.js';
+import type { RunEstimate } from '../../sim/runs/estimate.js';
 import { parseCount } from './run.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import type { Scene } from '../../sim/scene/types.js';
@@ -28,7 +31,7 @@ import { reportMarkdown } from '../../render/report/markdown.js';
 
 export const describe = 'run a scene and write a design-review bundle (report.html, report.md, figures, results.json, run folder)';
 
-const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--force]';
+const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force]';
 
 const HELP = `${USAGE}
 
@@ -43,7 +46,11 @@ Runs the scene (and, for a quadrupole filter, an m/z sweep over its Mathieu wind
   --seed N           replace the scene's seed
   --workers N        worker threads (default: all cores)
   --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
+${maxOutputHelp()}
   --force            replace an existing DIR (the old one is removed only once the new one is complete)
+  -h, --help         this text
+
+Ctrl-C or SIGTERM stops the report: nothing is written, exit code 130 (SIGINT) or 143 (SIGTERM).
 `;
 
 /** Folder names inside a bundle. */
@@ -62,6 +69,10 @@ export interface BundleOptions {
   /** Progress line label; no progress line when undefined. */
   progressLabel?: string;
   handleSigint?: boolean;
+  /** Output limit of the scene's run, bytes (runScene's default when absent). */
+  maxOutput?: number;
+  /** Told the estimate of the scene's run before it starts. */
+  onEstimate?: (e: RunEstimate, workers: number) => void;
   /** Scene file text, --set overrides and --seed, for the m/z sweep of a filter (it re-reads the scene per point). */
   sceneText?: string;
   set?: string[];
@@ -81,7 +92,8 @@ class Interrupted extends Error {}
 export function checkBundleTarget(out: string, force: boolean): void {
   const dir = resolve(out);
   const parent = dirname(dir);
-  if (!existsSync(parent) || !statSync(parent).isDirectory()) throw new UsageError(`report: -o ${out}: parent folder ${parent} does not exist`);
+  if (!existsSync(parent)) throw new UsageError(`report: -o ${out}: parent folder ${parent} does not exist`);
+  if (!statSync(parent).isDirectory()) throw new UsageError(`report: -o ${out}: ${parent} is a file, not a folder`);
   if (existsSync(dir) && !force) throw new UsageError(`report: -o ${out} already exists (give --force to replace it)`);
   if (existsSync(dir) && !statSync(dir).isDirectory()) throw new UsageError(`report: -o ${out} exists and is not a folder`);
 }
@@ -158,15 +170,14 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
   // Ctrl-C between the runs (while figures are drawn) must not leave the temporary folder behind:
   // note it and stop at the next step; during a run the engine's own handler finishes the run early.
   let stop = false;
-  const onSigint = () => { stop = true; };
-  if (opts.handleSigint) process.on('SIGINT', onSigint);
+  const offSignals = opts.handleSigint ? onStopSignal(() => { stop = true; }) : null;
   const step = () => { if (stop) throw new Interrupted(); };
   try {
     const traits = sceneTraits(scene);
     const bar = opts.progressLabel !== undefined ? progressBar(opts.progressLabel) : null;
     const summary = await runScene(scene, {
       out: join(tmp, RUN_FOLDER), workers: opts.workers, sceneFile: opts.sceneFile, commandLine: opts.commandLine,
-      progress: bar?.update, handleSigint: opts.handleSigint,
+      progress: bar?.update, handleSigint: opts.handleSigint, maxOutput: opts.maxOutput, onEstimate: opts.onEstimate,
     });
     bar?.end();
     if (!summary.complete) throw new Interrupted();
@@ -213,17 +224,20 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     if (e instanceof Interrupted) return { dir: out, results: undefined as unknown as ReportResults, complete: false };
     throw e;
   } finally {
-    if (opts.handleSigint) process.off('SIGINT', onSigint);
+    offSignals?.();
   }
 }
 
+/** The flags `iontrail report` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  switches: ['force', 'help'],
+  repeatable: ['set'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'seed', 'workers', 'set'],
-    switches: ['force', 'help'],
-    repeatable: ['set'],
-    aliases: { o: 'out', h: 'help' },
-  }, 'report');
+  const a = parseArgs(argv, FLAGS, 'report');
   if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`report: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
@@ -232,16 +246,18 @@ export async function run(argv: string[]): Promise<number> {
   const seed = parseCount(flag(a, 'seed'), '--seed', 0);
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
   const force = a.switches.has('force');
+  const limit = maxOutput(a);
   checkBundleTarget(out, force);
   const set = a.values.get('set') ?? [];
   const { scene, text } = loadSceneFile(file, { set, seed });
   const r = await writeReportBundle(scene, {
     out, force, workers, sceneFile: file, commandLine: ['iontrail', 'report', ...argv].join(' '),
     progressLabel: 'report', handleSigint: true, sceneText: text, set, seed,
+    maxOutput: limit, onEstimate: printEstimate(),
   });
   if (!r.complete) {
     process.stderr.write(`iontrail report: interrupted; nothing written to ${out}\n`);
-    return 130;
+    return interruptedExitCode();
   }
   for (const w of r.results.warnings) process.stderr.write(`warning: ${w}\n`);
   process.stdout.write(`${r.results.scene_name}\n  report  ${join(out, 'report.html')}  (${r.results.figures.length} figures; report.md, results.json, ${RUN_FOLDER}/)\n`);

@@ -1,14 +1,37 @@
 // iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set k=v]... [--force] [--csv] [--json]
 
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { progressBar } from '../progress.js';
+import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 
 export const describe = 'integrate the ions of a scene file and write a run folder';
 
-const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--force] [--csv] [--json]';
+const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force] [--csv] [--json]';
+
+const HELP = `${USAGE}
+
+Integrates every ion of the scene and writes the run folder DIR:
+  summary.json        figures of merit, warnings and provenance (scene as resolved, seed, estimate)
+  ions.arrow          one row per ion: start state, fate, end time, position, velocity and energy
+  history.arrow       ensemble averages against time (mean energies, rms cloud size)
+  trajectories.arrow  recorded points (every run.record_every steps), when the scene records them
+
+  -o, --out DIR      run folder; its parent must exist
+  --seed N           replace the scene's seed
+  --workers N        worker threads (default: all cores; results do not depend on it)
+  --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
+${maxOutputHelp()}
+  --force            replace an existing DIR (the old one is removed only once the new one is complete)
+  --csv              also write ions.csv, history.csv and trajectories.csv
+  --json             print summary.json to stdout instead of the short table
+  -h, --help         this text
+
+Ctrl-C or SIGTERM stops the run: the batches finished are kept, summary.json says "complete": false,
+and the exit code is 130 (SIGINT) or 143 (SIGTERM).
+`;
 
 export function parseCount(text: string | undefined, what: string, min: number): number | undefined {
   if (text === undefined) return undefined;
@@ -16,25 +39,30 @@ export function parseCount(text: string | undefined, what: string, min: number):
   return Number(text);
 }
 
+/** The flags `iontrail run` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  switches: ['force', 'json', 'csv', 'help'],
+  repeatable: ['set'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'seed', 'workers', 'set'],
-    switches: ['force', 'json', 'csv', 'help'],
-    repeatable: ['set'],
-    aliases: { o: 'out' },
-  }, 'run');
-  if (a.switches.has('help')) { process.stdout.write(USAGE + '\n'); return 0; }
+  const a = parseArgs(argv, FLAGS, 'run');
+  if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`run: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
   if (!out) throw new UsageError('run: missing -o DIR (the run folder to write)');
   const file = a.positional[0];
   const seed = parseCount(flag(a, 'seed'), '--seed', 0);
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
+  const limit = maxOutput(a);
   const { scene } = loadSceneFile(file, { set: a.values.get('set') ?? [], seed });
   const bar = progressBar('run');
   const summary = await runScene(scene, {
     out, force: a.switches.has('force'), csv: a.switches.has('csv'), workers, sceneFile: file,
     commandLine: ['iontrail', 'run', ...argv].join(' '), progress: bar.update, handleSigint: true,
+    maxOutput: limit, onEstimate: printEstimate(),
   });
   bar.end();
   for (const w of summary.warnings) process.stderr.write(`warning: ${w}\n`);
@@ -55,5 +83,5 @@ export async function run(argv: string[]): Promise<number> {
     }
     process.stdout.write(lines.join('\n') + '\n');
   }
-  return summary.complete ? 0 : 130;
+  return summary.complete ? 0 : interruptedExitCode();
 }

@@ -2,10 +2,13 @@
 //   [--method auto|direct|matrix] [--seed N] [--workers N] [--set k=v]... [--force] [--json]
 
 import { readFileSync } from 'node:fs';
-import { parseArgs, flag } from '../args.js';
+import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
-import { runSweep, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
+import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
+import { onStopSignal } from '../../sim/runs/stop-signals.js';
+import { aboutDuration, checkOutputLimit, estimateRun } from '../../sim/runs/estimate.js';
+import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 import { checkSweepFolder, writeSweepFolder } from '../../sim/sweeps/sweep-folder.js';
 import { parseCount } from './run.js';
 import { finiteOrNull } from '../../sim/core/json.js';
@@ -13,19 +16,51 @@ import { finiteOrNull } from '../../sim/core/json.js';
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
 
 const USAGE = 'usage: iontrail sweep SCENE.yaml --vary KEY=A..B:N [--vary KEY=A..B:N] -o DIR [--scan-lines A..B:N] '
-  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--force] [--json]';
+  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force] [--json]';
 
-/** How --vary ranges read (sim/sweeps/vary.ts); part of `sweep --help`. */
-export const RANGE_NOTE = '  --vary KEY=A..B:N   N evenly spaced values from A to B inclusive, A below B (a reversed range such as mz=514..490:10 is refused; write mz=490..514:10)';
+const HELP = `${USAGE}
+
+Runs the scene at every point of one or two varied keys and writes DIR:
+  sweep.csv             one row per point: the varied keys, total, detected, transmission (and --collect columns)
+  summary.json          peak m/z, FWHM, R50 and R10 of an m/z sweep, method, warnings and provenance
+  scan-lines.csv        with --scan-lines: resolution and transmission per U/V line
+  scan-line-points.csv  with --scan-lines: the transmission of every point of every line
+
+  -o, --out DIR            sweep folder; its parent must exist
+  --vary KEY=A..B:N        N evenly spaced values of KEY from A to B inclusive in the key's units, A below B
+                           (a reversed range such as mz=514..490:10 is refused; write mz=490..514:10),
+                           e.g. mz=480..520:201 or stages.0.dc=137V..138.5V:4; twice for a map (first key
+                           outer); at most 100000 points in all
+  --scan-lines A..B:N      N U/V ratios of the first quadrupole (needs one --vary mz): resolution against
+                           transmission along each scan line
+  --method M               auto (transfer matrix where the scene is linear, else integration), direct or matrix
+  --collect PATH,...       run every point in full and collect summary.json figures, e.g.
+                           space_charge.frequency_shift_z,cooling.tau_s (columns after transmission)
+  --seed N                 replace the scene's seed
+  --workers N              worker threads for integrated points (default: all cores)
+  --set key=value          override a scene value at every point, e.g. --set stages.0.dc=42V (repeatable)
+${maxOutputHelp(27)}
+                           (--collect writes each point's run folder to a temporary folder)
+  --force                  replace an existing DIR (the old one is removed only once the new one is complete)
+  --json                   print summary.json to stdout instead of the short table
+  -h, --help               this text
+
+Ctrl-C or SIGTERM stops the sweep after the point in progress: the points finished are written,
+summary.json says "complete": false, and the exit code is 130 (SIGINT) or 143 (SIGTERM).
+`;
+
+/** The flags `iontrail sweep` accepts (the help text describes each). */
+export const FLAGS: FlagSpec = {
+  values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output'],
+  switches: ['force', 'json', 'help'],
+  repeatable: ['set', 'vary'],
+  aliases: { o: 'out', h: 'help' },
+};
+
 
 export async function run(argv: string[]): Promise<number> {
-  const a = parseArgs(argv, {
-    values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect'],
-    switches: ['force', 'json', 'help'],
-    repeatable: ['set', 'vary'],
-    aliases: { o: 'out' },
-  }, 'sweep');
-  if (a.switches.has('help')) { process.stdout.write(USAGE + '\n\n' + RANGE_NOTE + '\n'); return 0; }
+  const a = parseArgs(argv, FLAGS, 'sweep');
+  if (a.switches.has('help')) { process.stdout.write(HELP); return 0; }
   if (a.positional.length !== 1) throw new UsageError(`sweep: give one scene file (${USAGE})`);
   const out = flag(a, 'out');
   if (!out) throw new UsageError('sweep: missing -o DIR (the folder for sweep.csv and summary.json)');
@@ -37,6 +72,7 @@ export async function run(argv: string[]): Promise<number> {
   const seed = parseCount(flag(a, 'seed'), '--seed', 0);
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
   const force = a.switches.has('force');
+  const limit = maxOutput(a);
   const file = a.positional[0];
   let text: string;
   try {
@@ -48,29 +84,48 @@ export async function run(argv: string[]): Promise<number> {
   const tty = process.stderr.isTTY === true;
   let last = 0;
   const commandLine = ['iontrail', 'sweep', ...argv].join(' ');
-  const result = await runSweep({
+  let stoppedBy: string | null = null;
+  const plan = planSweep({
     sceneText: text, sceneFile: file, set: a.values.get('set') ?? [], seed, vary,
     collect: (a.values.get('collect')?.[0] ?? '').split(',').map((x) => x.trim()).filter((x) => x !== ''),
-    scanLines: flag(a, 'scan-lines'), method, workers,
-    progress: (done, total) => {
+    scanLines: flag(a, 'scan-lines'), method, workers, maxOutput: limit, stopped: () => stoppedBy !== null,
+  });
+  if (plan.collect.length > 0) {
+    // Every point is a full run into a temporary run folder (removed after the point).
+    const e = estimateRun({ ...plan.base, run: { ...plan.base.run, recordEvery: 0 } });
+    checkOutputLimit(e, limit);
+    printEstimate('per point: ')(e, plan.workers);
+    process.stderr.write(`estimate: ${plan.tasks.length} points, ${aboutDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
+  }
+  const total = plan.tasks.length;
+  let done = 0;
+  const offSignals = onStopSignal((sig) => { stoppedBy = sig; });
+  let points;
+  try {
+    points = await runPointRange(plan, 0, total, () => {
+      done++;
       if (!tty) return;
       const now = performance.now();
       if (now - last < 200 && done < total) return;
       last = now;
       process.stderr.write(`\rsweep ${done}/${total} points   `);
-    },
-  });
+    });
+  } finally {
+    offSignals();
+  }
   if (tty) process.stderr.write('\n');
+  const result = reduceFinished(plan, points, stoppedBy ?? 'a stop request');
   writeSweepFolder(out, result, { force, commandLine });
   for (const w of result.warnings) process.stderr.write(`warning: ${w}\n`);
+  const code = result.complete ? 0 : interruptedExitCode();
   if (a.switches.has('json')) {
     process.stdout.write(JSON.stringify(sweepSummary(result, { commandLine }), finiteOrNull) + '\n');
-    return 0;
+    return code;
   }
   const f = (v: number | null | undefined, d = 4) => (v === null || v === undefined ? 'n/a' : Number(v.toPrecision(d)).toString());
   const lines = [
     result.scene.name,
-    `  sweep folder  ${out}`,
+    `  sweep folder  ${out}${result.complete ? '' : '  (INCOMPLETE: interrupted)'}`,
     `  ${result.points.length} points × ${ionCount(result.points.map((p) => p.total))} ions, method ${result.method.used}${result.method.direct_because ? ` (direct: ${result.method.direct_because})` : ''}, ${result.wallSeconds.toFixed(2)} s`,
   ];
   const p = result.peak;
@@ -86,11 +141,14 @@ export async function run(argv: string[]): Promise<number> {
     lines.push(`  U/V ${l.u_over_v}: ${q ? `R50 ${f(q.resolution_50)}  R10 ${f(q.resolution_10)}  transmission ${(100 * q.transmission).toFixed(1)} %` : 'nothing transmitted'}  (Mathieu window R ${f(l.mathieu_window?.resolution ?? null)})`);
   }
   process.stdout.write(lines.join('\n') + '\n');
-  return 0;
+  return code;
 }
 
 /** "2000", or "40–120" when the varied keys change the number of ions per point. */
-function ionCount(totals: number[]): string {
-  const lo = Math.min(...totals), hi = Math.max(...totals);
+export function ionCount(totals: number[]): string {
+  // A loop, not Math.min(...totals): spreading 10⁵ or more values overflows the call stack.
+  let lo = Infinity, hi = -Infinity;
+  for (const t of totals) { if (t < lo) lo = t; if (t > hi) hi = t; }
+  if (totals.length === 0) return '0';
   return lo === hi ? String(lo) : `${lo}–${hi}`;
 }

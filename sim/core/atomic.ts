@@ -24,11 +24,28 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   }
 }
 
+/** An output that the system refuses (read-only folder, name too long, disk full): one line, exit 2. */
+export class OutputError extends Error {
+  override name = 'OutputError';
+  readonly exitCode = 2;
+}
+
+/** "EACCES: permission denied" from a system error, without the call and path Node appends. */
+export function systemReason(err: unknown): string {
+  const e = err as NodeJS.ErrnoException;
+  const text = (e?.message ?? String(err)).split('\n')[0];
+  return e?.code ? `${e.code}: ${text.replace(/^[A-Z]+: /, '').replace(/, \w+ '.*$/, '')}` : text;
+}
+
 /** A new empty folder beside `target` (its parent must exist) in which to build target's contents. */
 export function folderBeside(target: string): string {
   const t = resolve(target);
   const temp = join(dirname(t), `${basename(t)}.partial-${stamp()}`);
-  mkdirSync(temp);
+  try {
+    mkdirSync(temp);
+  } catch (err) {
+    throw new OutputError(`${target}: cannot create the output folder in ${dirname(t)} (${systemReason(err)})`);
+  }
   return temp;
 }
 

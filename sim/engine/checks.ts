@@ -4,7 +4,15 @@
 import type { Scene } from '../scene/types.js';
 import { SceneError } from '../scene/schema.js';
 import { stageAt } from './start.js';
-import { hasRf } from '../stages/registry.js';
+import { hasRf, kindOf, rfOf } from '../stages/registry.js';
+import { collisionFrequency } from '../gas/collision-rate.js';
+import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
+
+/**
+ * RF amplitudes (zero-to-peak) above this arc over in the vacuum gaps and feedthroughs of a real
+ * filter or trap; supplies in use give a few kV (common practice, no source).
+ */
+export const MAX_RF_V = 20e3;
 
 /** Checks that need the resolved scene as a whole; warnings go to stderr and summary.json. */
 export function sceneWarnings(scene: Scene): string[] {
@@ -13,6 +21,7 @@ export function sceneWarnings(scene: Scene): string[] {
   if (withRf && scene.run.integrator === 'rk4' && scene.run.stepsPerCycle < 20) {
     w.push(`run.steps_per_cycle = ${scene.run.stepsPerCycle} is below 20: RK4 phase error grows; results may be inaccurate`);
   }
+  w.push(...plausibilityWarnings(scene));
   if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');
   return w;
 }
@@ -30,4 +39,31 @@ export function checkStartsInside(scene: Scene): void {
       throw new SceneError(`ions.${i}.position.z: ${p.position.z * 1e3} mm lies outside every stage (0 to ${(end * 1e3).toPrecision(6)} mm)`);
     }
   });
+}
+
+/** Legal but implausible values: each stage kind's own, RF breakdown, collision-dominated RF motion. */
+export function plausibilityWarnings(scene: Scene): string[] {
+  const w: string[] = [];
+  scene.stages.forEach((st, i) => {
+    const at = `stages.${st.sceneIndex ?? i} (${st.type})`;
+    for (const reason of kindOf(st).plausibility(st)) w.push(`${at}: ${reason}`);
+    const rf = rfOf(st);
+    if (rf === undefined) return;
+    if (rf.amplitude > MAX_RF_V) {
+      w.push(`${at}: RF amplitude ${Number((rf.amplitude / 1e3).toPrecision(4))} kV is above ${MAX_RF_V / 1e3} kV, where electrodes and feedthroughs break down (common practice, no source); check the unit`);
+    }
+    const gas = st.gas ?? scene.gas;
+    if (gas === undefined) return;
+    // Collisions more often than once per RF period: the ions drift in the gas instead of following
+    // the RF, and the Mathieu stability of the vacuum no longer describes them.
+    let worst = 0, worstMz = 0;
+    for (const p of scene.ions) {
+      const nu = collisionFrequency(gas, ionMassKg(p.mz, p.charge), Math.abs(p.charge) * ELEMENTARY_CHARGE);
+      if (nu > worst) { worst = nu; worstMz = p.mz; }
+    }
+    if (worst > rf.frequency) {
+      w.push(`${at}: at ${Number(gas.pressurePa.toPrecision(3))} Pa of ${gas.species} an ion of m/z ${worstMz} collides about ${Number(worst.toPrecision(2)).toExponential()} times per second, more often than the RF frequency ${Number(rf.frequency.toPrecision(4))} Hz: the motion is collision-dominated (mean free time shorter than one RF period)`);
+    }
+  });
+  return w;
 }

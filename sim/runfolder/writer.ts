@@ -56,9 +56,8 @@ export class RunFolderWriter {
   static async create(dir: string, options: RunFolderWriterOptions = {}): Promise<RunFolderWriter> {
     const target = resolve(dir);
     const parent = dirname(target);
-    if (!existsSync(parent) || !statSync(parent).isDirectory()) {
-      throw new RunFolderError(`${dir}: parent folder ${parent} does not exist`);
-    }
+    if (!existsSync(parent)) throw new RunFolderError(`${dir}: parent folder ${parent} does not exist`);
+    if (!statSync(parent).isDirectory()) throw new RunFolderError(`${dir}: ${parent} is a file, not a folder`);
     if (existsSync(target) && !options.force) {
       throw new RunFolderError(`${dir}: already exists (give --force to replace it)`);
     }

@@ -1,6 +1,8 @@
 // A whole run: cut into batches, run them (worker threads or here), stream ions and trajectories
 // into the run folder in batch order, then write summary.json. Ctrl-C stops dispatching, keeps the
-// batches finished so far and marks the summary incomplete.
+// batches finished so far and marks the summary incomplete; SIGTERM does the same (stop-signals.ts).
+// Before anything is written the run's cost is estimated (estimate.ts) and a run whose output
+// would exceed the limit is refused.
 
 import { availableParallelism } from 'node:os';
 import type { Scene } from '../scene/types.js';
@@ -16,6 +18,8 @@ import { isElectrostatic } from '../engine/potential.js';
 import { ArrivalTally, figureBlocks, needsArrivals, SpeciesTally, StepTally, type BatchReducer } from './reducers.js';
 import { checkCoupledScene, runCoupled } from '../engine/run-coupled.js';
 import { checkIntegrator, checkStartsInside, sceneWarnings } from '../engine/checks.js';
+import { checkOutputLimit, estimateRun, type RunEstimate } from './estimate.js';
+import { onStopSignal } from './stop-signals.js';
 export { checkIntegrator, checkStartsInside, sceneWarnings };
 
 export interface RunOptions {
@@ -27,8 +31,12 @@ export interface RunOptions {
   commandLine?: string;
   /** Progress callback: ions done so far of total. */
   progress?: (done: number, total: number) => void;
-  /** Install a SIGINT handler that finishes the folder as incomplete (the CLI does; tests don't). */
+  /** Install SIGINT and SIGTERM handlers that finish the folder as incomplete (the CLI does; tests don't). */
   handleSigint?: boolean;
+  /** Largest estimated output allowed, bytes (default DEFAULT_MAX_OUTPUT, 5 GB). */
+  maxOutput?: number;
+  /** Told the run's estimate once the run folder is started, before the first batch (the CLI prints it). */
+  onEstimate?: (e: RunEstimate, workers: number) => void;
 }
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
@@ -40,7 +48,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const plan = planBatches(scene);
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
+  const estimate = estimateRun(scene, { csv: opts.csv });
+  checkOutputLimit(estimate, opts.maxOutput);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
+  opts.onEstimate?.(estimate, workers);
   const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime);
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
   const tally = new SpeciesTally(scene);
@@ -49,8 +60,8 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const reducers: BatchReducer[] = arrivals ? [tally, stepTally, arrivals] : [tally, stepTally];
   let done = 0;
   let stop = false;
-  const onSigint = () => { stop = true; };
-  if (opts.handleSigint) process.on('SIGINT', onSigint);
+  let stoppedBy = 'a stop request';
+  const offSignals = opts.handleSigint ? onStopSignal((sig) => { stop = true; stoppedBy = sig; }) : null;
   let spaceCharge: Record<string, unknown> | undefined;
   const onResult = (r: BatchResult) => {
         writer.appendIons(r);
@@ -69,13 +80,12 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       await runBatches(scene, plan, { workers, stopped: () => stop, onResult });
     }
   } catch (e) {
+    offSignals?.();
     await writer.abort();
     throw e;
-  } finally {
-    if (opts.handleSigint) process.off('SIGINT', onSigint);
   }
   const complete = done === plan.total;
-  if (!complete) warnings.push(`interrupted: ${done} of ${plan.total} ions finished; the tables hold those only`);
+  if (!complete) warnings.push(`interrupted (${stoppedBy}): ${done} of ${plan.total} ions finished; the tables hold those only`);
   const { steps, energyError } = stepTally;
   if (isElectrostatic(scene) && energyError > 1e-6) {
     warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
@@ -102,6 +112,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       workers,
       started_at: started.toISOString(),
       batch_size: plan.size,
+      estimate,
     },
     units: { length: 'm', time: 's', velocity: 'm/s', energy: 'eV', voltage: 'V', frequency: 'Hz', pressure: 'Pa', mass: 'kg' },
   };
@@ -110,7 +121,12 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   if (spaceCharge) summary.space_charge = spaceCharge;
   if (blocks.tof) summary.tof = blocks.tof;
   if (blocks.scan) summary.scan = blocks.scan;
-  await writer.finish(summary);
+  try {
+    // A signal from here on waits for the folder to be in place (it has nothing left to stop).
+    await writer.finish(summary);
+  } finally {
+    offSignals?.();
+  }
   return summary;
 }
 

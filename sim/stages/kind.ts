@@ -80,4 +80,9 @@ export interface StageKind<S extends Stage = Stage> {
   electrodeLabels(st: Readonly<Record<string, unknown>>): ElectrodeLabel[];
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */
   readonly assumptions: readonly string[];
+  /**
+   * Values of the stage that are legal but implausible for a real instrument (an r0 of metres, a
+   * drift of tens of metres), each with its reason: warnings, not errors (sim/engine/checks.ts).
+   */
+  plausibility(st: S): string[];
 }

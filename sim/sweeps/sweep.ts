@@ -53,6 +53,10 @@ export interface SweepRequest {
   /** Threads for direct integration (default: all cores). The matrix path runs in this thread. */
   workers?: number;
   progress?: (done: number, total: number) => void;
+  /** Output limit of each --collect point's run folder, bytes (runScene's 5 GB when absent). */
+  maxOutput?: number;
+  /** Asked before each point; true stops the sweep there (SIGINT/SIGTERM), keeping the points finished. */
+  stopped?: () => boolean;
 }
 
 export interface SweepPoint {
@@ -77,6 +81,8 @@ export interface ScanLine {
 }
 
 export interface SweepResult {
+  /** False when the sweep was stopped before its last point (the points finished are kept). */
+  complete: boolean;
   axes: { key: string; unit: string; values: number[] }[];
   points: SweepPoint[];
   /** One m/z axis: figures of the transmission peak (null when nothing is transmitted). */
@@ -151,6 +157,7 @@ export function planSweep(req: SweepRequest): SweepPlan {
   if (req.scanLines !== undefined) {
     if (axes.length !== 1 || axes[0].key !== 'mz') throw new SweepError('--scan-lines needs exactly one --vary mz=A..B:N (the m/z range of each line)');
     const ratios = parseRatios(req.scanLines);
+    if (nPoints * (1 + ratios.length) > MAX_POINTS) throw new SweepError(`the sweep and its ${ratios.length} scan lines have ${nPoints * (1 + ratios.length)} points; at most ${MAX_POINTS}`);
     const fileIndex = firstQuadrupoleInFile(req.sceneText);
     const stage = base.stages.findIndex(isQuadrupole);
     if (fileIndex < 0 || stage < 0) throw new SweepError(`--scan-lines: ${req.sceneFile} has no quadrupole stage`);
@@ -166,7 +173,7 @@ export function planSweep(req: SweepRequest): SweepPlan {
   if (collect.length > 0 && scan) throw new SweepError('--collect does not combine with --scan-lines');
   for (const c of collect) if (!/^[A-Za-z_][\w]*(\.[\w]+)*$/.test(c)) throw new SweepError(`--collect expects dot paths into summary.json such as space_charge.frequency_shift_z, got '${c}'`);
   const tasks: SweepTask[] = gridTasks(axes, -1, []);
-  if (scan) scan.ratios.forEach((ratio, line) => tasks.push(...gridTasks(axes, line, scanSet(scan!.fileIndex, ratio, scan!.rf))));
+  if (scan) scan.ratios.forEach((ratio, line) => { for (const t of gridTasks(axes, line, scanSet(scan!.fileIndex, ratio, scan!.rf))) tasks.push(t); });
   const warnings = sceneWarnings(base).filter((w) => !w.startsWith('space_charge'));
   return { req, requested, axes, scenes, base, scan, workers, collect, tasks, warnings, startedAt, t0 };
 }
@@ -179,12 +186,16 @@ function gridTasks(axes: SweepAxis[], line: number, extra: string[]): SweepTask[
   return out;
 }
 
-/** Run the plan's points from..to−1 (one runner: its workers and fast-path state serve them all). */
+/**
+ * Run the plan's points from..to−1 (one runner: its workers and fast-path state serve them all).
+ * Fewer come back when the request's `stopped` said stop (the points before it are whole).
+ */
 export async function runPointRange(plan: SweepPlan, from: number, to: number, tick: () => void = () => {}): Promise<SweepPoint[]> {
-  const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect);
+  const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect, plan.req.maxOutput);
   const out: SweepPoint[] = [];
   try {
     for (let k = from; k < to; k++) {
+      if (plan.req.stopped?.()) break;
       const t = plan.tasks[k];
       const r = await runner.run(plan.scenes.scene(plan.axes, t.idx, t.extra));
       out.push({ values: t.idx.map((i, a) => plan.axes[a].values[i]), ...r });
@@ -233,6 +244,7 @@ export function reduceSweep(plan: SweepPlan, all: SweepPoint[]): SweepResult {
   }
   const used = new Set(all.map((p) => p.method));
   return {
+    complete: true,
     axes: axes.map((a) => ({ key: a.key, unit: a.unit, values: a.values })),
     points: main,
     peak, peaks,
@@ -250,12 +262,33 @@ export function reduceSweep(plan: SweepPlan, all: SweepPoint[]): SweepResult {
   };
 }
 
-/** Run a sweep: plan (every check first), run all its points, reduce. */
+/**
+ * A stopped sweep: the main-grid points finished, in order, without the figures that need every
+ * point (peak, peaks per row, scan lines); marked incomplete with a warning that says so.
+ */
+export function reduceFinished(plan: SweepPlan, done: SweepPoint[], stoppedBy: string): SweepResult {
+  if (done.length >= plan.tasks.length) return reduceSweep(plan, done);
+  const main = done.filter((_, k) => plan.tasks[k].line === -1);
+  const used = new Set(done.map((p) => p.method));
+  return {
+    complete: false,
+    axes: plan.axes.map((a) => ({ key: a.key, unit: a.unit, values: a.values })),
+    points: main, peak: null, peaks: null, scanLines: null,
+    collect: plan.collect,
+    method: { requested: plan.requested, used: used.size === 1 ? [...used][0] : used.size === 0 ? (plan.requested === 'direct' ? 'direct' : 'matrix') : 'mixed', direct_because: used.has('direct') ? plan.directBecause ?? null : null },
+    scene: plan.base, sceneFile: plan.req.sceneFile, seed: plan.base.seed,
+    ionsPerPoint: plan.base.ions.reduce((a, p) => a + p.count, 0),
+    workers: plan.workers, startedAt: plan.startedAt.toISOString(), wallSeconds: (performance.now() - plan.t0) / 1000,
+    warnings: [...plan.warnings, `interrupted (${stoppedBy}): ${done.length} of ${plan.tasks.length} points finished; sweep.csv holds the ${main.length} points of the main grid finished, without peak or scan-line figures`],
+  };
+}
+
+/** Run a sweep: plan (every check first), run all its points, reduce (reduceFinished when stopped). */
 export async function runSweep(req: SweepRequest): Promise<SweepResult> {
   const plan = planSweep(req);
   let done = 0;
   const points = await runPointRange(plan, 0, plan.tasks.length, () => req.progress?.(++done, plan.tasks.length));
-  return reduceSweep(plan, points);
+  return points.length < plan.tasks.length ? reduceFinished(plan, points, 'a stop request') : reduceSweep(plan, points);
 }
 
 function peakOf(x: number[], pts: SweepPoint[]): PeakFigures | null {
@@ -284,13 +317,13 @@ class PointRunner {
   private fate = new Int8Array(0);
   directBecause: string | null = null;
 
-  constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = []) {}
+  constructor(private readonly requested: SweepMethod, private readonly workers: number, private readonly collect: string[] = [], private readonly maxOutput?: number) {}
 
   /** A full engine run of the point into a temporary folder; its summary gives the figures. */
   private async full(scene: Scene, total: number) {
     const dir = mkdtempSync(join(tmpdir(), 'iontrail-sweep-'));
     try {
-      const s = await runScene({ ...scene, run: { ...scene.run, recordEvery: 0 } }, { out: join(dir, 'run'), workers: this.workers });
+      const s = await runScene({ ...scene, run: { ...scene.run, recordEvery: 0 } }, { out: join(dir, 'run'), workers: this.workers, maxOutput: this.maxOutput });
       this.directBecause ??= 'full runs for --collect';
       const figures = this.collect.map((path) => {
         let v: unknown = s;
@@ -460,6 +493,7 @@ export interface SummaryOptions { commandLine?: string }
 /** summary.json content (key order fixed; SI numbers, m/z in Th). */
 export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<string, unknown> {
   const out: Record<string, unknown> = {
+    complete: r.complete,
     scene_name: r.scene.name,
     sweep: {
       keys: r.axes.map((a) => a.key),

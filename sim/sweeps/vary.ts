@@ -27,8 +27,12 @@ export interface SweepAxis {
   overrides: (v: number) => string[];
 }
 
-/** Most points one sweep may have (all axes together). */
-export const MAX_POINTS = 1_000_000;
+/**
+ * Most points one sweep may have (all axes and scan lines together): a 500 × 200 map, or a curve
+ * at 0.001 Th steps over 100 Th. A sweep of 10⁶ points at a few thousand ions each runs for days;
+ * split it into several sweeps instead (a design choice, no source).
+ */
+export const MAX_POINTS = 100_000;
 
 const SPEC = /^([^=]+)=(.+?)\.\.(.+?):(\d+)$/;
 
@@ -42,7 +46,7 @@ export function parseVary(spec: string, sceneText: string, file: string): SweepA
   const key = m[1].trim(), aText = m[2].trim(), bText = m[3].trim();
   const n = Number(m[4]);
   if (!(n >= 2)) throw new SweepError(`--vary ${key}: N must be at least 2, got ${m[4]}`);
-  if (n > MAX_POINTS) throw new SweepError(`--vary ${key}: N = ${n} exceeds ${MAX_POINTS} points`);
+  if (n > MAX_POINTS) throw new SweepError(`--vary ${key}: N = ${n} exceeds ${MAX_POINTS} points per sweep; split the range into several sweeps`);
   const raw = readRaw(sceneText, file);
   if (key === 'mz') {
     const a = plainNumber(aText, key), b = plainNumber(bText, key);

@@ -6,6 +6,7 @@ import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { iontrail, iontrailAsync, tempDir } from '../helpers/cli.js';
+import { expectInterruptedRun } from '../helpers/interrupted.js';
 import { readIons, readSummary, readTrajectories } from '../../sim/runfolder/reader.js';
 
 const SCENE = `
@@ -121,13 +122,7 @@ describe('iontrail run', () => {
     child.kill('SIGINT');
     const code = await new Promise<number>((r) => child.on('exit', (c) => r(c ?? -1)));
     expect(code).toBe(130);
-    const s = readSummary(out);
-    expect(s.complete).toBe(false);
-    const ions = readIons(out);
-    expect(ions.ion.length).toBeGreaterThan(0);
-    expect(ions.ion.length).toBeLessThan(400300);
-    expect(s.ions.total).toBe(ions.ion.length);
-    expect(s.warnings.join(' ')).toMatch(/interrupted/);
+    expectInterruptedRun(out, 400300, /interrupted \(SIGINT\)/);
   });
 });
 

@@ -1,8 +1,6 @@
 // Run the built CLI (dist/, made by `npm test`'s tsc step) as a user would.
 
 import { spawnSync, spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -18,6 +16,4 @@ export function iontrailAsync(args: string[]): ChildProcess {
   return spawn(process.execPath, [CLI, ...args], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
 }
 
-export function tempDir(prefix = 'iontrail-test-'): string {
-  return mkdtempSync(join(tmpdir(), prefix));
-}
+export { tempDir } from './temp.js';

@@ -5,14 +5,12 @@
 // 2nd ed., eqs. 2.63 and 2.75). Good enough to look like a trajectory; not a physics reference.
 // Scene values are demo numbers of the fictional Skerry QF-4 filter.
 
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { tempDir } from '../helpers/temp.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { RunFolderWriter, type RunSummary } from '../../sim/runfolder/index.js';
 
 export function tempRoot(prefix: string): string {
-  return mkdtempSync(join(tmpdir(), `iontrail-${prefix}-`));
+  return tempDir(`iontrail-${prefix}-`);
 }
 
 export const QF4 = {

@@ -10,6 +10,9 @@ import { uniformField } from '../shared/uniform-field.js';
 import { trackUniform } from '../shared/uniform-kernel.js';
 import type { AccelerateStage } from './stage.js';
 
+/** Highest plausible potential step of a gap: TOF sources and reflectrons run to ~30 kV (common practice, no source). */
+const MAX_GAP_V = 30e3;
+
 const region = { kind: 'object', fields: { length: LENGTH_FIELD, voltage: VOLTAGE_FIELD }, required: ['length', 'voltage'] } as const;
 
 const ROLE_LABEL: Record<string, string> = {
@@ -60,5 +63,8 @@ export const accelerateKind: StageKind<AccelerateStage> = {
     const name = ROLE_LABEL[String(s.role)] ?? ROLE_LABEL.gap;
     return [{ text: `${name} ${voltLabel(v)}`, at: [{ r: 1, rim: true, z: s.role === 'reflectron' ? len : 0 }] }];
   },
+  plausibility: (st) => (Math.abs(st.voltage) > MAX_GAP_V
+    ? [`${Number((Math.abs(st.voltage) / 1e3).toPrecision(4))} kV across the ${st.role ?? 'gap'} is above the ~${MAX_GAP_V / 1e3} kV of TOF sources and reflectrons in use (common practice, no source); check the unit`]
+    : []),
   assumptions: ['Acceleration, source and reflectron regions are uniform fields between ideal, fully transparent grids: no grid scattering, no field penetration through the meshes.'],
 };

@@ -9,6 +9,9 @@ import { uniformField } from '../shared/uniform-field.js';
 import { trackUniform } from '../shared/uniform-kernel.js';
 import type { DriftStage } from './stage.js';
 
+/** Longest plausible field-free drift: TOF flight tubes run to a few metres (common practice, no source). */
+const MAX_DRIFT_M = 10;
+
 export const driftKind: StageKind<DriftStage> = {
   type: 'drift',
   entries: {
@@ -34,5 +37,8 @@ export const driftKind: StageKind<DriftStage> = {
   describe: (s) => `drift ${lengthMm(s)} mm`,
   outline: () => [{ shape: 'tube' }],
   electrodeLabels: (s) => [{ text: 'drift tube, field-free', at: [{ r: 1, rim: true, z: 0.5 * (typeof s.length === 'number' ? s.length : 0) }] }],
+  plausibility: (st) => (st.length > MAX_DRIFT_M
+    ? [`a drift of ${Number(st.length.toPrecision(4))} m is longer than the ${MAX_DRIFT_M} m of any flight tube in use (common practice, no source); check the unit`]
+    : []),
   assumptions: ['Drift regions are field-free, with a hard aperture where one is given.'],
 };

@@ -8,6 +8,7 @@ import { quadrupoleField } from './field.js';
 import { trackQuadrupole } from './kernel.js';
 import type { QuadrupoleStage } from './stage.js';
 import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
+import { r0Plausibility } from '../shared/plausible.js';
 
 export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   type: 'quadrupole',
@@ -43,5 +44,6 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
       { text: `rods y −${wrap}`, at: [{ r: 1.6 * r0, z: 0.38 * len, azimuths: [Math.PI / 2, -Math.PI / 2] }] },
     ];
   },
+  plausibility: (st) => r0Plausibility(st.r0, 'quadrupole mass filters'),
   assumptions: ['No fringe fields: an ion meets the full RF and DC the moment it enters a filter stage, and none the moment it leaves.'],
 };

@@ -5,6 +5,7 @@ import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resol
 import type { StageKind } from '../kind.js';
 import { trackAdaptive } from '../shared/adaptive.js';
 import { dcPlusRf, mm2, num, rfAmplitude, voltLabel } from '../shared/describe.js';
+import { r0Plausibility } from '../shared/plausible.js';
 import { adaptiveTrap } from './adaptive.js';
 import { trapField } from './field.js';
 import { trackTrap } from './kernel.js';
@@ -59,5 +60,6 @@ export const trapKind: StageKind<TrapStage> = {
       { text: caps, at: [{ r: 0.8 * r0, z: zc + capZ }, { r: 0.8 * r0, z: zc - capZ }] },
     ];
   },
+  plausibility: (st) => r0Plausibility(st.r0, 'RF ion traps'),
   assumptions: ['No field perturbation by the end-cap holes or the finite size of ring and end caps: the trap field is the ideal quadrupole everywhere inside.'],
 };
