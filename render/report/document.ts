@@ -90,9 +90,9 @@ function operatingPointTable(rows: OperatingPointRow[]): Block[] {
 function speciesTable(r: ReportResults): Block {
   return {
     kind: 'table',
-    head: ['population', 'm/z', 'z', 'ions', 'detected', 'struck', 'in flight / stored', 'transmission', 'mean KE stored (eV)'],
-    rows: r.species.map((s) => [String(s.population), num(s.mz, 6), String(s.charge), int(s.total), int(s.detected), int(s.hit), int(s.alive), pct(s.transmission), num(s.alive_mean_ke_ev, 3)]),
-    numeric: [true, true, true, true, true, true, true, true, true],
+    head: ['population', 'm/z', 'z', 'ions', 'detected', 'struck', 'missed the detector', 'returned', 'in flight / stored', 'transmission', 'mean KE stored (eV)'],
+    rows: r.species.map((s) => [String(s.population), num(s.mz, 6), String(s.charge), int(s.total), int(s.detected), int(s.hit), int(s.missed ?? 0), int(s.returned ?? 0), int(s.alive), pct(s.transmission), num(s.alive_mean_ke_ev, 3)]),
+    numeric: [true, true, true, true, true, true, true, true, true, true, true],
   };
 }
 

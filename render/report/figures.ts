@@ -62,7 +62,7 @@ export function ionsPerPopulation(run: RunFolder, n: number): number[] {
   const out: number[] = [];
   for (const rows of rowsOf.values()) {
     const pick = new Set<number>();
-    for (const fate of ['detected', 'alive', 'hit']) {
+    for (const fate of ['detected', 'alive', 'hit', 'missed', 'returned']) {
       const r = rows.find((x) => run.ions.fate[x] === fate);
       if (r !== undefined && pick.size < n) pick.add(r);
     }
@@ -100,7 +100,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
 
   // Ion fates / transmission.
   await own('transmission', input.kind === 'quadrupole' ? 'Transmission' : 'Ion fates',
-    'Share of each species detected, struck on an electrode, or still in flight (stored) at the end of the run.',
+    'Share of each species detected, missed (reached the detector plane outside the detector), struck on an electrode or aperture, returned through the entrance, or still in flight (stored) at the end of the run.',
     transmissionFigure(run.summary, input.runDir), 560);
 
   // Quadrupole peak shape from an m/z sweep.

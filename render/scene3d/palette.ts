@@ -30,6 +30,9 @@ export const FATE_COLORS: Record<string, Rgb> = {
   detected: hex('#2f8f5b'),
   hit: hex('#c8452f'),
   alive: hex('#3563c4'),
+  // Reached the detector plane outside the detector; left back through the first entrance.
+  missed: hex('#d9901e'),
+  returned: hex('#8a5fb8'),
 };
 export const FATE_UNKNOWN: Rgb = hex('#7a7a7a');
 

@@ -50,7 +50,7 @@ function hasShape(run: RunView, shape: OutlinePart['shape']): boolean {
 }
 
 function openingNote(run: RunView, opened: boolean, marked: boolean): string {
-  const notes = marked ? ['dot: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
+  const notes = marked ? ['dot: where an ion struck an electrode or aperture', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
   if (opened && hasShape(run, 'rod-set')) notes.push('rod nearest the viewer drawn as outline');
   if (opened && hasShape(run, 'hyperbolic-trap')) notes.push('trap cut open toward the viewer');
   return notes.join('; ');

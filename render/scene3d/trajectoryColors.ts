@@ -32,7 +32,7 @@ export function trajectoryColors(run: RunView, by: ColorBy): TrajectoryColors {
       rgb.set(c, 3 * k);
       counts.set(f, (counts.get(f) ?? 0) + 1);
     }
-    const order = ['detected', 'hit', 'alive'];
+    const order = ['detected', 'missed', 'hit', 'returned', 'alive'];
     const entries = [...counts.entries()]
       .sort((a, b) => (order.indexOf(a[0]) + 99 * +(order.indexOf(a[0]) < 0)) - (order.indexOf(b[0]) + 99 * +(order.indexOf(b[0]) < 0)))
       .map(([label, count]) => ({ label, count, color: FATE_COLORS[label] ?? FATE_UNKNOWN }));

@@ -46,6 +46,12 @@ export interface Run {
   maxTime: number;
   /** Loss radius², in units of r0². */
   R2: number;
+  /** Entrance and exit plates' hole radius², detector radius², m² (the loss scale applied). */
+  entry2: number;
+  exit2: number;
+  detector2: number;
+  /** Whether a passing ion's fate needs its exit state (a plate narrower than r0, a finite detector). */
+  exitState: boolean;
 }
 
 /** Tallies for the benchmark's breakdown. */
@@ -68,6 +74,8 @@ const S = {
   arg: new Float64Array(8),
   v: new Float64Array(2),
   fm: mat2(),
+  /** The exit state of the last stableExit() call, in units of r0 and r0·Ω: X, PX, Y, PY. */
+  out: new Float64Array(4),
 };
 
 /** Decides what it can of one run; see the file head. */
@@ -132,6 +140,27 @@ function openExit(run: Run, vz: number, tExit: number): number {
   return Fate.detected;
 }
 
+/**
+ * Fate of an ion that passed every check in the rods, from its exit state (S.out, from
+ * stableExit()): the exit plate, then straight through the open drifts (openDrifts()' arithmetic)
+ * to the detector in the last exit plane, unless max_time comes first (alive).
+ */
+function beyondRods(run: Run, vz: number, tExit: number): number {
+  const o = S.out, r0 = run.stage.r0, toP = 1 / (r0 * (TWO_PI * run.stage.rf.frequency));
+  // The per-ion path's exit state, the same arithmetic: X·r0 and PX / toP.
+  let x = o[0] * r0, y = o[2] * r0;
+  if (x * x + y * y >= run.exit2) return Fate.hit;
+  const vx = o[1] / toP, vy = o[3] / toP;
+  const stages = run.stages;
+  let t = tExit, z = run.stage.zEnd;
+  for (let q = run.s0 + 1; q < stages.length; q++) {
+    const te = (stages[q].zEnd - z) / vz, tl = run.maxTime - t;
+    if (tl < te) return Fate.alive;
+    t += te; z = stages[q].zEnd; x += vx * te; y += vy * te;
+  }
+  return x * x + y * y >= run.detector2 ? Fate.missed : Fate.detected;
+}
+
 /** The most periods any ion of the run can spend in the stage. */
 function periodsTop(run: Run): number {
   return Math.floor(run.maxTime * run.stage.rf.frequency) + 1;
@@ -175,7 +204,7 @@ function growing(t: PeriodTable | null, kTop: number): SpectralRows | null {
  * needs no other); the other is asked for when an ion needs F(ψ) on both axes.
  */
 function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { sc, maxTime, R2 } = run;
+  const { sc, maxTime, R2, entry2 } = run, zStart = run.stage.zStart;
   const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, (run.tx ?? run.ty)!);
   let spX = growing(run.tx, kTop), spY = growing(run.ty, kTop);
   // (1 + 1e-9): rounding between the spectral and the matrix-power forms of the same sample.
@@ -196,6 +225,7 @@ function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: nu
     const full = Math.floor(tExit / h);
     const K = Math.floor(full / M);
     const X0 = X[i] / r0, P0 = VX[i] * sc * toP, Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
+    if (Z[i] === zStart && X[i] * X[i] + Y[i] * Y[i] >= entry2) { fate[j] = Fate.hit; done[j] = 1; continue; }
     if (K >= 1) {
       const wt = e / dT;
       if ((spX !== null && spectralReach(spX, K, i0, wt, X0, P0) >= rLoss) || (spY !== null && spectralReach(spY, K, i0, wt, Y0, Q0) >= rLoss)) {
@@ -318,7 +348,7 @@ function invariantUp(q: TwissRows, i0: number, wt: number, u: number, p: number)
 }
 
 function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { sc, maxTime, R2 } = run;
+  const { sc, maxTime, R2, entry2, exitState } = run, zStart = run.stage.zStart;
   const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, tx);
   // All-time envelope: the grid's largest W plus what W can add between grid points.
   const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = tx.wMax + tx.wMargin;
@@ -342,9 +372,11 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
     const i0 = Math.min(nn - 1, Math.floor(psi / dT));
     const e = psi - i0 * dT;
     const X0 = X[i] / r0, P0 = VX[i] * sc * toP, Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
+    // The entrance plate (sim/stages/quadrupole/apertures.ts) for ions starting in its plane.
+    if (Z[i] === zStart && X[i] * X[i] + Y[i] * Y[i] >= entry2) { fate[j] = Fate.hit; done[j] = 1; continue; }
     // Tier 1 first from the Courant–Snyder form at ψ (TwissRows, interpolated, plus its bound):
-    // most ions pass here without F(ψ) being formed.
-    if (Wx * invariantUp(qx, i0, e / dT, X0, P0) + Wy * invariantUp(qy, i0, e / dT, Y0, Q0) < R2) {
+    // most ions pass here without F(ψ) being formed, unless the exit state is needed.
+    if (!exitState && Wx * invariantUp(qx, i0, e / dT, X0, P0) + Wy * invariantUp(qy, i0, e / dT, Y0, Q0) < R2) {
       counts.envelopeCleared++;
       fate[j] = openExit(run, vz, tExit);
       done[j] = 1;
@@ -356,8 +388,12 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
     const cx1 = E[4], cx2 = E[5], cy1 = E[6], cy2 = E[7];
     const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
     const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
-    if (Wx * ix + Wy * iy < R2) counts.envelopeCleared++;
-    else {
+    a[1] = cx1; a[2] = cx2; a[3] = cy1; a[4] = cy2; a[7] = psi + omega * tExit;
+    if (Wx * ix + Wy * iy < R2) {
+      counts.envelopeCleared++;
+      // Inside the rods' envelope everywhere, so the exit sample passes the rods too.
+      if (exitState) { stableExit(tx, ty, R2); fate[j] = beyondRods(run, vz, tExit); done[j] = 1; continue; }
+    } else {
       const full = Math.floor(tExit / h), Kp = Math.ceil(full / M);
       if (rotTop < Kp && (Kp * Math.abs(tx.muEff) < Math.PI || Kp * Math.abs(ty.muEff) < Math.PI)) {
         rotations(tx.muEff, ty.muEff, kTop);
@@ -369,6 +405,7 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
         fate[j] = Fate.hit; done[j] = 1;
         continue;
       }
+      if (exitState) { fate[j] = beyondRods(run, vz, tExit); done[j] = 1; continue; }
     }
     fate[j] = openExit(run, vz, tExit);
     done[j] = 1;
@@ -473,19 +510,24 @@ function stableScan(tx: PeriodTable, ty: PeriodTable, i0: number, full: number, 
   return false;
 }
 
-/** The exit sample (the direct kernel's shortened last step): F(θr)·M0^K·c at θ_end = θr + 2πK (S.arg). */
+/**
+ * The exit sample (the direct kernel's shortened last step): F(θr)·M0^K·c at θ_end = θr + 2πK
+ * (S.arg); true when it is at or past r0. The whole exit state goes to S.out.
+ */
 function stableExit(tx: PeriodTable, ty: PeriodTable, R2: number): boolean {
   const a = S.arg, cx1 = a[1], cx2 = a[2], cy1 = a[3], cy2 = a[4], thEnd = a[7];
   let K = Math.floor(thEnd / TWO_PI);
   let thr = thEnd - K * TWO_PI;
   if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
   if (thr < 0) thr = 0;
-  const Fm = S.fm, v = S.v;
+  const Fm = S.fm, v = S.v, o = S.out;
   powerApply(tx, K, cx1, cx2, v);
   fAt(tx, thr, Fm);
   const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
+  o[0] = Xe; o[1] = Fm.a21 * v[0] + Fm.a22 * v[1];
   powerApply(ty, K, cy1, cy2, v);
   fAt(ty, thr, Fm);
   const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
+  o[2] = Ye; o[3] = Fm.a21 * v[0] + Fm.a22 * v[1];
   return Xe * Xe + Ye * Ye >= R2;
 }

@@ -50,7 +50,9 @@ export interface ReportResults {
   scene_kind: SceneKind;
   complete: boolean;
   operating_points: OperatingPointRow[];
-  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; alive: number; transmission: number; alive_mean_ke_ev: number | null }[];
+  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; missed: number; returned: number; alive: number; transmission: number; alive_mean_ke_ev: number | null }[];
+  /** The detector of the run (summary.json `detector`), or null for run folders without it. */
+  detector: { radius_m: number | null; source: string } | null;
   cooling: Record<string, unknown> | null;
   scan: Record<string, unknown> | null;
   tof: Record<string, unknown> | null;
@@ -93,10 +95,12 @@ export function buildResults(inp: ReportInputs): ReportResults {
     complete: s.complete,
     operating_points: operatingPointRows(scene),
     species: s.species.map((x) => ({
-      population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit, alive: x.alive,
+      population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit,
+      missed: x.missed ?? 0, returned: x.returned ?? 0, alive: x.alive,
       transmission: x.transmission,
       alive_mean_ke_ev: typeof x.alive_mean_ke_ev === 'number' ? x.alive_mean_ke_ev : null,
     })),
+    detector: s.detector ?? null,
     cooling: obj(s.cooling),
     scan: obj(s.scan),
     tof: obj(s.tof),

@@ -42,4 +42,9 @@ export interface Scene {
   run: RunSettings;
   gas?: GasSettings;
   spaceCharge?: { method: 'direct' | 'tree'; weight: number; softening?: number; theta?: number };
+  /**
+   * The detector in the exit plane of the last stage, when the scene file gives one; otherwise
+   * sim/scene/detector.ts derives it from the stages (so that a sweep of r0 moves it too).
+   */
+  detector?: { radius: number };
 }

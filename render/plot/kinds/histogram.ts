@@ -9,7 +9,7 @@ import type { FigureSpec, LegendEntry } from '../figure.js';
 import { PlotError, choiceFlag, intFlag, type KindOptions, type PlotKind } from '../kind.js';
 import { figureTitle, footerText } from '../provenance.js';
 
-const FATE_CHOICES = ['detected', 'hit', 'alive', 'all'] as const;
+const FATE_CHOICES = ['detected', 'hit', 'missed', 'returned', 'alive', 'all'] as const;
 
 function quantile(sorted: Float64Array, p: number): number {
   const x = p * (sorted.length - 1);
@@ -146,7 +146,7 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
 }
 
 const FLAGS = {
-  fate: 'which ions: detected (default) | hit | alive | all',
+  fate: 'which ions: detected (default) | hit | missed | returned | alive | all',
   bins: 'number of bins (default: Freedman–Diaconis rule)',
 };
 const SWITCHES = { overlay: 'overlaid outlines per species instead of stacked bars' };

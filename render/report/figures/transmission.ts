@@ -1,4 +1,4 @@
-// Fate of the ions per species: stacked bars of the detected, struck and still-stored fractions
+// Fate of the ions per species: stacked bars of the detected, missed, struck, returned and stored fractions
 // (summary.json species[]). For a filter the detected share is the transmission; for a trap the
 // stored share is what the trap holds at the end of the run.
 
@@ -10,7 +10,9 @@ import { figureTitle, footerText } from '../../plot/provenance.js';
 
 const PARTS = [
   { key: 'detected', label: 'detected', color: seriesColor(2) },
-  { key: 'hit', label: 'struck an electrode', color: seriesColor(1) },
+  { key: 'missed', label: 'missed the detector', color: seriesColor(4) },
+  { key: 'hit', label: 'struck an electrode or aperture', color: seriesColor(1) },
+  { key: 'returned', label: 'returned through the entrance', color: seriesColor(3) },
   { key: 'alive', label: 'still in flight / stored at max_time', color: seriesColor(0) },
 ] as const;
 
@@ -31,7 +33,7 @@ export function transmissionFigure(summary: RunSummary, runDir: string): FigureS
         sp.forEach((s, i) => {
           let base = 0;
           for (const p of PARTS) {
-            const f = s.total > 0 ? (s[p.key] as number) / s.total : 0;
+            const f = s.total > 0 ? ((s[p.key] as number | undefined) ?? 0) / s.total : 0;
             if (f > 0) {
               ctx.fillStyle = p.color;
               ctx.fillRect(g.px(i) - w / 2, g.py(base + f), w, g.py(base) - g.py(base + f));
