@@ -25,7 +25,9 @@ describe('iontrail sweep', () => {
     const t0 = performance.now();
     const r = iontrail(['sweep', DEMO, '--vary', 'mz=490..514:121', '-o', dir]);
     const wall = (performance.now() - t0) / 1000;
-    expect(r.stderr).toBe('');
+    // The demo's 4 mm detector 20 mm past the rods takes a jagged share of the ions (it depends
+    // on each ion's RF phase at the exit), so the FWHM may be coarse on this grid; nothing else.
+    for (const line of r.stderr.split('\n').filter(Boolean)) expect(line).toMatch(/^warning: the FWHM .* refine the m\/z step$/);
     expect(r.code).toBe(0);
     // "A few seconds" (issue 6 demo): 10 s leaves room for a loaded 2-core machine.
     expect(wall).toBeLessThan(10);
