@@ -74,8 +74,11 @@ const S = {
   arg: new Float64Array(8),
   v: new Float64Array(2),
   fm: mat2(),
-  /** The exit state of the last stableExit() call, in units of r0 and r0·Ω: X, PX, Y, PY. */
-  out: new Float64Array(4),
+  /**
+   * The exit state of the last stableExit() call, in units of r0 and r0·Ω: X, PX, Y, PY; then
+   * beyondRods()' arguments vz and tExit (passed here, not boxed).
+   */
+  out: new Float64Array(6),
 };
 
 /** Decides what it can of one run; see the file head. */
@@ -145,8 +148,8 @@ function openExit(run: Run, vz: number, tExit: number): number {
  * stableExit()): the exit plate, then straight through the open drifts (openDrifts()' arithmetic)
  * to the detector in the last exit plane, unless max_time comes first (alive).
  */
-function beyondRods(run: Run, vz: number, tExit: number): number {
-  const o = S.out, r0 = run.stage.r0, toP = 1 / (r0 * (TWO_PI * run.stage.rf.frequency));
+function beyondRods(run: Run): number {
+  const o = S.out, vz = o[4], tExit = o[5], r0 = run.stage.r0, toP = 1 / (r0 * (TWO_PI * run.stage.rf.frequency));
   // The per-ion path's exit state, the same arithmetic: X·r0 and PX / toP.
   let x = o[0] * r0, y = o[2] * r0;
   if (x * x + y * y >= run.exit2) return Fate.hit;
@@ -359,6 +362,8 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
   }
   if (S.cand.length < M + 1) { S.cand = new Int32Array(M + 1); S.env = new Float64Array(M + 1); }
   let rotTop = -1; // rotations() filled for this run up to rotTop
+  // Exit states need M0^K for every K an ion can spend in the rods: tabulate once per run.
+  if (exitState) { powers(tx, kTop + 1); powers(ty, kTop + 1); }
   const qx = twissRows(tx), qy = twissRows(ty);
   const X = st.x, Y = st.y, VX = st.vx, VY = st.vy, Z = st.z, VZ = st.vz, TAU = st.tau;
   const E = S.entry;
@@ -392,7 +397,7 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
     if (Wx * ix + Wy * iy < R2) {
       counts.envelopeCleared++;
       // Inside the rods' envelope everywhere, so the exit sample passes the rods too.
-      if (exitState) { stableExit(tx, ty, R2); fate[j] = beyondRods(run, vz, tExit); done[j] = 1; continue; }
+      if (exitState) { stableExit(tx, ty, R2); S.out[4] = vz; S.out[5] = tExit; fate[j] = beyondRods(run); done[j] = 1; continue; }
     } else {
       const full = Math.floor(tExit / h), Kp = Math.ceil(full / M);
       if (rotTop < Kp && (Kp * Math.abs(tx.muEff) < Math.PI || Kp * Math.abs(ty.muEff) < Math.PI)) {
@@ -405,7 +410,7 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
         fate[j] = Fate.hit; done[j] = 1;
         continue;
       }
-      if (exitState) { fate[j] = beyondRods(run, vz, tExit); done[j] = 1; continue; }
+      if (exitState) { S.out[4] = vz; S.out[5] = tExit; fate[j] = beyondRods(run); done[j] = 1; continue; }
     }
     fate[j] = openExit(run, vz, tExit);
     done[j] = 1;
@@ -521,11 +526,19 @@ function stableExit(tx: PeriodTable, ty: PeriodTable, R2: number): boolean {
   if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
   if (thr < 0) thr = 0;
   const Fm = S.fm, v = S.v, o = S.out;
-  powerApply(tx, K, cx1, cx2, v);
+  // M0^K·c from the power tables when stableRun() filled them that far (one product per axis),
+  // else by repeated squaring; the two differ by rounding only.
+  if (K < tx.powCount && K < ty.powCount) {
+    const P = tx.pow, q = 4 * K;
+    v[0] = P[q] * cx1 + P[q + 1] * cx2; v[1] = P[q + 2] * cx1 + P[q + 3] * cx2;
+  } else powerApply(tx, K, cx1, cx2, v);
   fAt(tx, thr, Fm);
   const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
   o[0] = Xe; o[1] = Fm.a21 * v[0] + Fm.a22 * v[1];
-  powerApply(ty, K, cy1, cy2, v);
+  if (K < tx.powCount && K < ty.powCount) {
+    const P = ty.pow, q = 4 * K;
+    v[0] = P[q] * cy1 + P[q + 1] * cy2; v[1] = P[q + 2] * cy1 + P[q + 3] * cy2;
+  } else powerApply(ty, K, cy1, cy2, v);
   fAt(ty, thr, Fm);
   const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
   o[2] = Ye; o[3] = Fm.a21 * v[0] + Fm.a22 * v[1];
