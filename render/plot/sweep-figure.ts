@@ -49,8 +49,15 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
     if (yi < 0) throw new PlotError(`--y '${col}' is not a column of sweep.csv (columns: ${t.columns.join(', ')})`);
     const pts = t.rows.map((r) => [r[xi], r[yi]] as [number, number]).filter(([a, b]) => Number.isFinite(a) && Number.isFinite(b));
     if (pts.length === 0) throw new PlotError(`${t.dir}: column '${col}' has no values`);
+    // A column with its interval beside it (transmission_low, transmission_high: the 95 % Wilson
+    // score interval) is drawn over a band of that interval.
+    const li = t.columns.indexOf(`${col}_low`), hiCol = t.columns.indexOf(`${col}_high`);
+    const band = li >= 0 && hiCol >= 0
+      ? t.rows.map((r) => [r[xi], r[li], r[hiCol]] as [number, number, number]).filter((v) => v.every(Number.isFinite)).sort((p, q) => p[0] - q[0])
+      : [];
     let lo = Infinity, hi = -Infinity, xlo = Infinity, xhi = -Infinity;
     for (const [a, b] of pts) { lo = Math.min(lo, b); hi = Math.max(hi, b); xlo = Math.min(xlo, a); xhi = Math.max(xhi, a); }
+    for (const [, l, h] of band) { lo = Math.min(lo, l); hi = Math.max(hi, h); }
     if (!(hi > lo)) { const p = Math.abs(lo) * 0.05 || 1; lo -= p; hi += p; }
     if (!(xhi > xlo)) { xlo -= 1; xhi += 1; }
     const pad = 0.06 * (hi - lo);
@@ -61,6 +68,14 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
       // Non-negative figures (transmission, widths) keep zero as the floor of the axis.
       y: { label: yu.label, unit: yu.unit, min: lo >= 0 ? Math.max(0, lo - pad) : lo - pad, max: hi + pad },
       draw: (ctx: any, g: any) => {
+        if (band.length > 1) {
+          ctx.fillStyle = color; ctx.globalAlpha = 0.2;
+          ctx.beginPath();
+          band.forEach(([a, , h], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(h)) : ctx.lineTo(g.px(a), g.py(h))));
+          for (let i = band.length - 1; i >= 0; i--) ctx.lineTo(g.px(band[i][0]), g.py(band[i][1]));
+          ctx.closePath(); ctx.fill();
+          ctx.globalAlpha = 1;
+        }
         ctx.strokeStyle = color; ctx.lineWidth = 2;
         ctx.beginPath();
         pts.forEach(([a, b], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(b)) : ctx.lineTo(g.px(a), g.py(b))));
@@ -75,7 +90,11 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
   return {
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
     subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}`,
-    legend: ys.map((c, k) => ({ label: c, color: seriesColor(k), mark: 'line' as const })),
+    legend: ys.flatMap((c, k) => {
+      const line = { label: c, color: seriesColor(k), mark: 'line' as const };
+      const banded = t.columns.includes(`${c}_low`) && t.columns.includes(`${c}_high`);
+      return banded ? [line, { label: `${c}: 95 % Wilson score interval`, color: seriesColor(k), fill: `${seriesColor(k)}33`, mark: 'region' as const }] : [line];
+    }),
     panels, rows: panels.length, cols: 1, sharedX: true,
     footer: `iontrail ${p.tool_version ?? '?'} · seed ${p.seed ?? '?'} · scene ${p.scene_file ?? '?'} · sweep ${basename(resolve(t.dir))}${p.started_at ? ` · started ${p.started_at}` : ''}`,
   };

@@ -15,6 +15,7 @@ export function wilsonInterval(k: number, n: number, z = Z95): [number, number] 
   const d = 1 + z2 / n;
   const centre = (p + z2 / (2 * n)) / d;
   const half = (z / d) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
-  // At k = 0 and k = n the closed form gives exactly 0 and 1 up to rounding: clamp the rounding.
-  return [Math.max(0, centre - half), Math.min(1, centre + half)];
+  // At k = 0 (k = n) centre and half are equal in exact arithmetic, so the low (high) end is
+  // exactly 0 (1); rounding would leave ~1e-19 there.
+  return [k <= 0 ? 0 : Math.max(0, centre - half), k >= n ? 1 : Math.min(1, centre + half)];
 }
