@@ -32,6 +32,9 @@ run: { steps_per_cycle: 40, max_time: 1 ms, record_every: 0 }
 `;
 }
 
+/** One axial 10 eV ion of m/z 100 from z = 0 through the given stage lines. */
+const axial = (stages: string) => `stages:\n${stages}\nions:\n  - { mz: 100, count: 1, energy: 10 eV, direction: axial }\nrun: { max_time: 1 ms, record_every: 0 }\n`;
+
 function one(text: string) {
   const scene = parseScene(text, 'fates.yaml');
   const r = trackBatch(scene, 0, 0, 1, gasFactory(scene));
@@ -94,15 +97,7 @@ describe('fates: detected, hit, missed, returned', () => {
   });
 
   it('returned: turned back by a 20 V retarding gap, the ion leaves the first entrance at t = 2·v0/a', () => {
-    const text = `
-stages:
-  - { type: accelerate, length: 10 mm, voltage: -20 V }
-  - { type: drift, length: 50 mm }
-ions:
-  - { mz: 100, count: 1, energy: 10 eV, direction: axial }
-run: { max_time: 1 ms, record_every: 0 }
-`;
-    const r = one(text);
+    const r = one(axial('  - { type: accelerate, length: 10 mm, voltage: -20 V }\n  - { type: drift, length: 50 mm }'));
     expect(r.fate).toBe('returned');
     expect(r.z).toBe(0);
     const a = (ELEMENTARY_CHARGE * 20) / (0.01 * MASS);
@@ -112,15 +107,7 @@ run: { max_time: 1 ms, record_every: 0 }
   });
 
   it('a reflectron instrument: the ion back through the drift with detect_returning stays detected', () => {
-    const text = `
-stages:
-  - { type: drift, length: 50 mm, detect_returning: true }
-  - { type: reflectron, length: 20 mm, voltage: 20 V }
-ions:
-  - { mz: 100, count: 1, energy: 10 eV, direction: axial }
-run: { max_time: 1 ms, record_every: 0 }
-`;
-    const r = one(text);
+    const r = one(axial('  - { type: drift, length: 50 mm, detect_returning: true }\n  - { type: reflectron, length: 20 mm, voltage: 20 V }'));
     expect(r.fate).toBe('detected');
     expect(r.z).toBe(0);
     const a = (ELEMENTARY_CHARGE * 20) / (0.02 * MASS);
