@@ -21,7 +21,7 @@
 
 import { Fate } from '../core/batch.js';
 import type { QuadrupoleStage, Stage } from '../scene/types.js';
-import { ENVELOPE_MARGIN, fAt, mat2, powerApply, powers, spectralRows, twissRows, type PeriodTable, type SpectralRows, type TwissRows } from './transfer-matrix.js';
+import { ENVELOPE_MARGIN, powerApply, powers, spectralRows, twissRows, type PeriodTable, type SpectralRows, type TwissRows } from './transfer-matrix.js';
 
 /** Start states of the ions (StartStates in linear-path.ts), as the pass reads them. */
 export interface StartArrays {
@@ -73,7 +73,6 @@ const S = {
    */
   arg: new Float64Array(8),
   v: new Float64Array(2),
-  fm: mat2(),
   /**
    * The exit state of the last stableExit() call, in units of r0 and r0·Ω: X, PX, Y, PY; then
    * beyondRods()' arguments vz and tExit (passed here, not boxed).
@@ -517,30 +516,41 @@ function stableScan(tx: PeriodTable, ty: PeriodTable, i0: number, full: number, 
 
 /**
  * The exit sample (the direct kernel's shortened last step): F(θr)·M0^K·c at θ_end = θr + 2πK
- * (S.arg); true when it is at or past r0. The whole exit state goes to S.out.
+ * (S.arg); true when it is at or past r0. The whole exit state goes to S.out. F(θr) is one RK4
+ * step of ε = θr − θ_i from grid point i, and RK4 is linear, so F(θr)·d is that step applied to
+ * F(θ_i)·d: one step per axis rather than one per column of F (fAt()), equal up to rounding.
  */
 function stableExit(tx: PeriodTable, ty: PeriodTable, R2: number): boolean {
-  const a = S.arg, cx1 = a[1], cx2 = a[2], cy1 = a[3], cy2 = a[4], thEnd = a[7];
+  const a = S.arg, thEnd = a[7];
   let K = Math.floor(thEnd / TWO_PI);
   let thr = thEnd - K * TWO_PI;
   if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
   if (thr < 0) thr = 0;
-  const Fm = S.fm, v = S.v, o = S.out;
-  // M0^K·c from the power tables when stableRun() filled them that far (one product per axis),
-  // else by repeated squaring; the two differ by rounding only.
-  if (K < tx.powCount && K < ty.powCount) {
-    const P = tx.pow, q = 4 * K;
-    v[0] = P[q] * cx1 + P[q + 1] * cx2; v[1] = P[q + 2] * cx1 + P[q + 3] * cx2;
-  } else powerApply(tx, K, cx1, cx2, v);
-  fAt(tx, thr, Fm);
-  const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
-  o[0] = Xe; o[1] = Fm.a21 * v[0] + Fm.a22 * v[1];
-  if (K < tx.powCount && K < ty.powCount) {
-    const P = ty.pow, q = 4 * K;
-    v[0] = P[q] * cy1 + P[q + 1] * cy2; v[1] = P[q + 2] * cy1 + P[q + 3] * cy2;
-  } else powerApply(ty, K, cy1, cy2, v);
-  fAt(ty, thr, Fm);
-  const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
-  o[2] = Ye; o[3] = Fm.a21 * v[0] + Fm.a22 * v[1];
-  return Xe * Xe + Ye * Ye >= R2;
+  let i = Math.floor(thr / tx.dTheta);
+  if (i >= tx.n) i = tx.n - 1;
+  const e = thr - i * tx.dTheta;
+  // cos, sin of e and e/2 (smallAngle()'s series; e < 2π/640).
+  const e2 = e * e, hh = 0.5 * e, h2 = hh * hh;
+  const ce = 1 - 0.5 * e2 * (1 - e2 / 12), se = e * (1 - (e2 / 6) * (1 - e2 / 20));
+  const ch = 1 - 0.5 * h2 * (1 - h2 / 12), sh = hh * (1 - (h2 / 6) * (1 - h2 / 20));
+  const c = tx.cos[i], sn = tx.sin[i];
+  const k1 = c * ch - sn * sh, k2 = c * ce - sn * se;
+  const v = S.v, o = S.out;
+  for (let axis = 0; axis < 2; axis++) {
+    const t = axis === 0 ? tx : ty;
+    const d1 = a[1 + 2 * axis], d2 = a[2 + 2 * axis];
+    // M0^K·c from the power table when stableRun() filled it that far, else by squaring.
+    if (K < t.powCount) {
+      const P = t.pow, q = 4 * K;
+      v[0] = P[q] * d1 + P[q + 1] * d2; v[1] = P[q + 2] * d1 + P[q + 3] * d2;
+    } else powerApply(t, K, d1, d2, v);
+    const u = t.f11[i] * v[0] + t.f12[i] * v[1], p = t.f21[i] * v[0] + t.f22[i] * v[1];
+    const g0 = t.w0 + t.w1 * c, g1 = t.w0 + t.w1 * k1, g2 = t.w0 + t.w1 * k2;
+    const a1 = -g0 * u, u2 = u + hh * p, p2 = p + hh * a1, a2 = -g1 * u2;
+    const u3 = u + hh * p2, p3 = p + hh * a2, a3 = -g1 * u3;
+    const u4 = u + e * p3, p4 = p + e * a3, a4 = -g2 * u4;
+    o[2 * axis] = u + (e / 6) * (p + 2 * p2 + 2 * p3 + p4);
+    o[2 * axis + 1] = p + (e / 6) * (a1 + 2 * a2 + 2 * a3 + a4);
+  }
+  return o[0] * o[0] + o[2] * o[2] >= R2;
 }
