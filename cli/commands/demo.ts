@@ -59,7 +59,7 @@ export async function run(argv: string[]): Promise<number> {
     const res = r.results;
     for (const w of res.warnings) process.stderr.write(`warning: ${w}\n`);
     for (const sp of res.species) {
-      process.stdout.write(`  m/z ${sp.mz}: ${sp.detected} detected, ${sp.hit} hit, ${sp.alive} alive of ${sp.total} (transmission ${(100 * sp.transmission).toFixed(1)} %)\n`);
+      process.stdout.write(`  m/z ${sp.mz}: ${sp.detected} detected, ${sp.hit} hit, ${sp.missed ?? 0} missed, ${sp.returned ?? 0} returned, ${sp.alive} alive of ${sp.total} (transmission ${(100 * sp.transmission).toFixed(1)} %)\n`);
     }
     if (res.cooling) {
       const c = res.cooling as Record<string, number | null>;

@@ -71,8 +71,10 @@ export async function run(argv: string[]): Promise<number> {
   } else {
     const lines = [`${summary.scene_name}`, `  run folder  ${out}${summary.complete ? '' : '  (INCOMPLETE: interrupted)'}`];
     for (const s of summary.species) {
-      lines.push(`  m/z ${String(s.mz).padEnd(8)} z=${s.charge}  ${String(s.detected).padStart(7)} detected  ${String(s.hit).padStart(7)} hit  ${String(s.alive).padStart(7)} alive  transmission ${(100 * s.transmission).toFixed(2)} %`);
+      lines.push(`  m/z ${String(s.mz).padEnd(8)} z=${s.charge}  ${String(s.detected).padStart(7)} detected  ${String(s.hit).padStart(7)} hit  ${String(s.missed ?? 0).padStart(7)} missed  ${String(s.returned ?? 0).padStart(7)} returned  ${String(s.alive).padStart(7)} alive  transmission ${(100 * s.transmission).toFixed(2)} %`);
     }
+    const det = summary.detector;
+    if (det) lines.push(`  detector    ${det.radius_m === null ? 'unbounded' : `radius ${(det.radius_m * 1e3).toPrecision(3)} mm`} (${det.source}) in the exit plane of the last stage`);
     const st = summary.stats;
     lines.push(`  ${st.steps} ion-steps in ${st.wall_s.toFixed(2)} s (${(st.steps / Math.max(st.wall_s, 1e-9) / 1e6).toFixed(1)} M ion-steps/s)`);
     if (summary.cooling) {

@@ -5,7 +5,7 @@
 
 import { readFileSync, existsSync } from 'node:fs';
 import { join, basename, resolve } from 'node:path';
-import { seriesColor } from '../common/palette.js';
+import { INK, seriesColor } from '../common/palette.js';
 import { checkOutputFolder, imageFormat, writeFileAtomic } from '../common/output.js';
 import { renderFigure, type FigureSpec } from './figure.js';
 import { PlotError } from './kind.js';
@@ -79,13 +79,20 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
   const panels = ys.map((col, k) => {
     const yi = t.columns.indexOf(col);
     if (yi < 0) throw new PlotError(`--y '${col}' is not a column of sweep.csv (columns: ${t.columns.join(', ')})`);
+    // A column with its interval beside it (transmission_low, transmission_high: the 95 % Wilson
+    // score interval) is drawn over a band of that interval, per curve.
+    const li = t.columns.indexOf(`${col}_low`), hiCol = t.columns.indexOf(`${col}_high`);
     const curves = series.map((s, j) => ({
       color: seriesColor(grouped ? j : k),
       pts: s.rows.map((r) => [r[xi], r[yi]] as [number, number]).filter(([a, b]) => Number.isFinite(a) && Number.isFinite(b)).sort((p, q) => p[0] - q[0]),
+      band: li >= 0 && hiCol >= 0
+        ? s.rows.map((r) => [r[xi], r[li], r[hiCol]] as [number, number, number]).filter((v) => v.every(Number.isFinite)).sort((p, q) => p[0] - q[0])
+        : [],
     }));
     if (curves.every((c) => c.pts.length === 0)) throw new PlotError(`${t.dir}: column '${col}' has no values`);
     let lo = Infinity, hi = -Infinity, xlo = Infinity, xhi = -Infinity;
     for (const c of curves) for (const [a, b] of c.pts) { lo = Math.min(lo, b); hi = Math.max(hi, b); xlo = Math.min(xlo, a); xhi = Math.max(xhi, a); }
+    for (const c of curves) for (const [, l, h] of c.band) { lo = Math.min(lo, l); hi = Math.max(hi, h); }
     if (!(hi > lo)) { const p = Math.abs(lo) * 0.05 || 1; lo -= p; hi += p; }
     if (!(xhi > xlo)) { xlo -= 1; xhi += 1; }
     const pad = 0.06 * (hi - lo);
@@ -95,7 +102,15 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
       // Non-negative figures (transmission, widths) keep zero as the floor of the axis.
       y: { label: yu.label, unit: yu.unit, min: lo >= 0 ? Math.max(0, lo - pad) : lo - pad, max: hi + pad },
       draw: (ctx: any, g: any) => {
-        for (const { color, pts } of curves) {
+        for (const { color, pts, band } of curves) {
+          if (band.length > 1) {
+            ctx.fillStyle = color; ctx.globalAlpha = 0.2;
+            ctx.beginPath();
+            band.forEach(([a, , h], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(h)) : ctx.lineTo(g.px(a), g.py(h))));
+            for (let i = band.length - 1; i >= 0; i--) ctx.lineTo(g.px(band[i][0]), g.py(band[i][1]));
+            ctx.closePath(); ctx.fill();
+            ctx.globalAlpha = 1;
+          }
           ctx.strokeStyle = color; ctx.lineWidth = 2;
           ctx.beginPath();
           pts.forEach(([a, b], i) => (i === 0 ? ctx.moveTo(g.px(a), g.py(b)) : ctx.lineTo(g.px(a), g.py(b))));
@@ -109,9 +124,15 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
   });
   const name = t.summary.scene_name ?? 'sweep';
   const p = t.summary.provenance ?? {};
+  const banded = (c: string) => t.columns.includes(`${c}_low`) && t.columns.includes(`${c}_high`);
+  const band = (c: string, color: string) => ({ label: `${c}: 95 % Wilson score interval`, color, fill: `${color}33`, mark: 'region' as const });
   const legend = grouped
-    ? series.map((s, j) => ({ label: s.label, color: seriesColor(j), mark: 'line' as const }))
-    : ys.map((c, k) => ({ label: c, color: seriesColor(k), mark: 'line' as const }));
+    ? [...series.map((s, j) => ({ label: s.label, color: seriesColor(j), mark: 'line' as const })),
+      ...ys.filter(banded).map((c) => ({ ...band(c, INK), label: `${c}: band = 95 % Wilson score interval` }))]
+    : ys.flatMap((c, k) => {
+      const line = { label: c, color: seriesColor(k), mark: 'line' as const };
+      return banded(c) ? [line, band(c, seriesColor(k))] : [line];
+    });
   return {
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
     subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,

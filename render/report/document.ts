@@ -248,6 +248,11 @@ export function reportDocument(r: ReportResults): ReportDoc {
   sections.push({ id: 'safety', title: 'Safety', blocks: [{ kind: 'cautions', items: r.safety_cautions }] });
   sections.push({ id: 'inputs', title: 'Scene inputs', blocks: inputBlocks(r.inputs) });
   const res: Block[] = [speciesTable(r)];
+  const det = r.detector;
+  if (det) {
+    const size = det.radius_m === null ? 'unbounded (every ion reaching it counts)' : `radius ${num(det.radius_m * 1e3, 3)} mm`;
+    res.push({ kind: 'p', text: `Detector: a disc in the exit plane of the last stage, ${size}, from ${det.source === 'scene' ? 'the scene file' : det.source === 'none' ? 'no aperture or RF stage' : `the ${det.source}`}; an ion crossing that plane outside it is counted as missed.` });
+  }
   if (!r.complete) res.unshift({ kind: 'p', text: 'INCOMPLETE RUN: interrupted before every ion finished; the figures cover the finished ions only.' });
   const ionsTitle = r.scene_kind === 'trap' ? 'Ions stored and lost' : r.scene_kind === 'trap-scan' ? 'Ions ejected and lost' : 'Ions and transmission';
   sections.push({ id: 'results', title: ionsTitle, blocks: res });

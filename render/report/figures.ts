@@ -62,7 +62,7 @@ export function ionsPerPopulation(run: RunFolder, n: number): number[] {
   const out: number[] = [];
   for (const rows of rowsOf.values()) {
     const pick = new Set<number>();
-    for (const fate of ['detected', 'alive', 'hit']) {
+    for (const fate of ['detected', 'alive', 'hit', 'missed', 'returned']) {
       const r = rows.find((x) => run.ions.fate[x] === fate);
       if (r !== undefined && pick.size < n) pick.add(r);
     }

@@ -55,7 +55,7 @@ function hasShape(run: RunView, shape: OutlinePart['shape']): boolean {
 export const STRUCK_FATE = 'hit';
 
 function openingNote(run: RunView, opened: boolean, marked: boolean): string {
-  const notes = marked ? ['×: where an ion struck an electrode', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
+  const notes = marked ? ['×: where an ion struck an electrode or aperture', 'electrodes semi-transparent over hidden ions'] : ['electrodes semi-transparent over hidden ions'];
   if (hasShape(run, 'grid-gap') || hasShape(run, 'ring-stack')) notes.push('field-region labels give the drop across the region');
   if (opened && hasShape(run, 'rod-set')) notes.push('rod nearest the viewer drawn as outline');
   if (opened && hasShape(run, 'hyperbolic-trap')) notes.push('trap cut open toward the viewer');

@@ -24,9 +24,17 @@ export interface IonBatch {
   collisions: Float64Array;
 }
 
-export const Fate = { alive: 0, detected: 1, hit: 2 } as const;
+/**
+ * How an ion's flight ended. detected: it crossed the detector plane (the exit plane of the last
+ * stage) inside the detector radius, or a kind's own detector took it (a reflectron's). hit: it
+ * struck an electrode or the rim of an aperture. missed: it reached the detector plane outside
+ * the detector. returned: it left back through the entrance of the first stage. alive: still in
+ * flight at max_time.
+ */
+export const Fate = { alive: 0, detected: 1, hit: 2, missed: 3, returned: 4 } as const;
 export type FateCode = (typeof Fate)[keyof typeof Fate];
-export const FATE_NAMES = ['alive', 'detected', 'hit'] as const;
+/** Fate names by code (the `fate` column of ions.arrow). */
+export const FATE_NAMES = ['alive', 'detected', 'hit', 'missed', 'returned'] as const;
 
 export function allocateBatch(n: number): IonBatch {
   const f = () => new Float64Array(n);

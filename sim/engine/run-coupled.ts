@@ -16,7 +16,7 @@ import { ParallelDirect } from '../spacecharge/parallel.js';
 import { floquet } from '../mathieu/floquet.js';
 import { mathieuParameters } from '../mathieu/parameters.js';
 import { ELECTRONVOLT } from '../units/constants.js';
-import type { BatchResult } from './track.js';
+import { rfPhase, type BatchResult } from './track.js';
 
 export interface CoupledResult {
   result: BatchResult;
@@ -46,7 +46,9 @@ export async function runCoupled(scene: Scene, workers: number): Promise<Coupled
   let pop = 0;
   for (let i = 0; i < total; i++) {
     while (i >= offsets[pop + 1]) pop++;
-    startIon(scene, b, i, i, pop, scene.ions[pop]);
+    const tau = startIon(scene, b, i, i, pop, scene.ions[pop]);
+    // Every ion starts inside the trap: it "enters" its RF stage at t = 0.
+    res.entry_rf_phase[i] = rfPhase(st.rf.frequency, st.rf.phase, tau);
     res.ion[i] = i; res.population[i] = pop; res.mz[i] = scene.ions[pop].mz; res.charge[i] = scene.ions[pop].charge;
     res.x0[i] = b.x[i]; res.y0[i] = b.y[i]; res.z0[i] = b.z[i];
     res.vx0[i] = b.vx[i]; res.vy0[i] = b.vy[i]; res.vz0[i] = b.vz[i];
@@ -112,7 +114,7 @@ function emptyResult(n: number): BatchResult {
     ion: new Int32Array(n), population: new Int32Array(n), mz: f(), charge: new Int32Array(n),
     x0: f(), y0: f(), z0: f(), vx0: f(), vy0: f(), vz0: f(),
     fate: new Int8Array(n), end_time: f(), end_x: f(), end_y: f(), end_z: f(),
-    end_vx: f(), end_vy: f(), end_vz: f(), end_ke_ev: f(), end_stage: new Int32Array(n), collisions: f(),
+    end_vx: f(), end_vy: f(), end_vz: f(), end_ke_ev: f(), end_stage: new Int32Array(n), collisions: f(), entry_rf_phase: f(),
     trajectory: null, history: new Float64Array(0), steps: 0, energyError: 0,
   };
 }

@@ -8,7 +8,8 @@ import type { GasFactory } from './gas-hooks.js';
 import { TrajectoryRecorder } from './recorder.js';
 import { EnsembleHistory } from './history.js';
 import { populationOffsets, startIon } from './start.js';
-import { kindOf } from '../stages/registry.js';
+import { kindOf, rfOf } from '../stages/registry.js';
+import { detectorOf, missesDetector } from '../scene/detector.js';
 import { dcPotential, isElectrostatic, stageBasePotentials, stageFields } from './potential.js';
 import { ELECTRONVOLT } from '../units/constants.js';
 
@@ -23,6 +24,8 @@ export interface BatchResult {
   end_x: Float64Array; end_y: Float64Array; end_z: Float64Array;
   end_vx: Float64Array; end_vy: Float64Array; end_vz: Float64Array;
   end_ke_ev: Float64Array; end_stage: Int32Array; collisions: Float64Array;
+  /** RF phase Ω(t + τ) + φ mod 2π, rad, as the ion entered its first RF stage; NaN when it never did. */
+  entry_rf_phase: Float64Array;
   /** Recorded points, 8 doubles each (ion, t, x, y, z, vx, vy, vz), or null. */
   trajectory: Float64Array | null;
   /** Ensemble-history sums (see history.ts). */
@@ -43,6 +46,9 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
   // Each stage's kind, looked up once: the loop below asks it when an ion enters the stage.
   const kinds = scene.stages.map(kindOf);
+  const drives = scene.stages.map(rfOf);
+  const last = scene.stages.length - 1;
+  const detectorRadius = detectorOf(scene).radius;
   const fields = stageFields(scene);
   const electrostatic = isElectrostatic(scene, fields);
   const base = stageBasePotentials(scene, fields);
@@ -70,10 +76,13 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     // Sample t = 0 before the first kernel runs.
     if (hist.points > 0) { hist.add(0, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz); c.nextHist = 1; }
     let fate: number = Fate.alive;
+    let entryPhase = NaN;
     // A start drawn outside every stage (a spread reaching past the instrument) is lost at once.
     if (s < 0) { fate = Fate.hit; s = 0; }
     for (; fate === Fate.alive;) {
       const st = scene.stages[s];
+      const rf = drives[s];
+      if (rf !== undefined && entryPhase !== entryPhase) entryPhase = rfPhase(rf.frequency, rf.phase, c.t + c.tau);
       ctx.gas = gasSteps[s].step;
       ctx.gasField = gasSteps[s].field;
       ctx.hardSphere = gasSteps[s].hardSphere;
@@ -85,11 +94,12 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       const own = kind.exitFate(st, forward);
       if (own !== undefined) { fate = own; break; }
       if (forward) {
-        if (s === scene.stages.length - 1) { fate = Fate.detected; break; }
+        // The detector plane is the exit plane of the last stage (sim/scene/detector.ts).
+        if (s === last) { fate = missesDetector(c.x, c.y, detectorRadius) ? Fate.missed : Fate.detected; break; }
         s++;
       } else {
-        // Back out through the entrance of the first stage: lost at the entrance aperture.
-        if (s === 0) { fate = Fate.hit; break; }
+        // Back out through the entrance of the first stage, towards the source.
+        if (s === 0) { fate = Fate.returned; break; }
         s--;
       }
       if (rec !== null) rec.push(ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
@@ -103,6 +113,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     res.end_ke_ev[slot] = ke / ELECTRONVOLT;
     res.end_stage[slot] = s;
     res.collisions[slot] = b.collisions[slot];
+    res.entry_rf_phase[slot] = entryPhase;
     if (electrostatic) {
       const e1 = ke + c.q * dcPotential(fields, base, s, c.x, c.y, c.z);
       const ref = Math.max(Math.abs(e0), Math.abs(e1), ke);
@@ -116,6 +127,14 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   return res;
 }
 
+/** Ω·t + φ reduced to [0, 2π), Ω = 2πf (t includes the ion's start offset τ). */
+export function rfPhase(frequency: number, phase: number, t: number): number {
+  const TWO_PI = 2 * Math.PI;
+  const th = TWO_PI * frequency * t + phase;
+  const r = th - TWO_PI * Math.floor(th / TWO_PI);
+  return r >= TWO_PI ? r - TWO_PI : r;
+}
+
 function allocateResult(batch: number, start: number, n: number): BatchResult {
   const f = () => new Float64Array(n);
   return {
@@ -123,7 +142,7 @@ function allocateResult(batch: number, start: number, n: number): BatchResult {
     ion: new Int32Array(n), population: new Int32Array(n), mz: f(), charge: new Int32Array(n),
     x0: f(), y0: f(), z0: f(), vx0: f(), vy0: f(), vz0: f(),
     fate: new Int8Array(n), end_time: f(), end_x: f(), end_y: f(), end_z: f(),
-    end_vx: f(), end_vy: f(), end_vz: f(), end_ke_ev: f(), end_stage: new Int32Array(n), collisions: f(),
+    end_vx: f(), end_vy: f(), end_vz: f(), end_ke_ev: f(), end_stage: new Int32Array(n), collisions: f(), entry_rf_phase: f(),
     trajectory: null, history: new Float64Array(0), steps: 0, energyError: 0,
   };
 }

@@ -21,7 +21,7 @@
 
 import { Fate } from '../core/batch.js';
 import type { QuadrupoleStage, Stage } from '../scene/types.js';
-import { ENVELOPE_MARGIN, fAt, mat2, powerApply, powers, spectralRows, twissRows, type PeriodTable, type SpectralRows, type TwissRows } from './transfer-matrix.js';
+import { ENVELOPE_MARGIN, powerApply, powers, spectralRows, twissRows, type PeriodTable, type SpectralRows, type TwissRows } from './transfer-matrix.js';
 
 /** Start states of the ions (StartStates in linear-path.ts), as the pass reads them. */
 export interface StartArrays {
@@ -46,6 +46,12 @@ export interface Run {
   maxTime: number;
   /** Loss radius², in units of r0². */
   R2: number;
+  /** Entrance and exit plates' hole radius², detector radius², m² (the loss scale applied). */
+  entry2: number;
+  exit2: number;
+  detector2: number;
+  /** Whether a passing ion's fate needs its exit state (a plate narrower than r0, a finite detector). */
+  exitState: boolean;
 }
 
 /** Tallies for the benchmark's breakdown. */
@@ -67,7 +73,11 @@ const S = {
    */
   arg: new Float64Array(8),
   v: new Float64Array(2),
-  fm: mat2(),
+  /**
+   * The exit state of the last stableExit() call, in units of r0 and r0·Ω: X, PX, Y, PY; then
+   * beyondRods()' arguments vz and tExit (passed here, not boxed).
+   */
+  out: new Float64Array(6),
 };
 
 /** Decides what it can of one run; see the file head. */
@@ -132,6 +142,27 @@ function openExit(run: Run, vz: number, tExit: number): number {
   return Fate.detected;
 }
 
+/**
+ * Fate of an ion that passed every check in the rods, from its exit state (S.out, from
+ * stableExit()): the exit plate, then straight through the open drifts (openDrifts()' arithmetic)
+ * to the detector in the last exit plane, unless max_time comes first (alive).
+ */
+function beyondRods(run: Run): number {
+  const o = S.out, vz = o[4], tExit = o[5], r0 = run.stage.r0, toP = 1 / (r0 * (TWO_PI * run.stage.rf.frequency));
+  // The per-ion path's exit state, the same arithmetic: X·r0 and PX / toP.
+  let x = o[0] * r0, y = o[2] * r0;
+  if (x * x + y * y >= run.exit2) return Fate.hit;
+  const vx = o[1] / toP, vy = o[3] / toP;
+  const stages = run.stages;
+  let t = tExit, z = run.stage.zEnd;
+  for (let q = run.s0 + 1; q < stages.length; q++) {
+    const te = (stages[q].zEnd - z) / vz, tl = run.maxTime - t;
+    if (tl < te) return Fate.alive;
+    t += te; z = stages[q].zEnd; x += vx * te; y += vy * te;
+  }
+  return x * x + y * y >= run.detector2 ? Fate.missed : Fate.detected;
+}
+
 /** The most periods any ion of the run can spend in the stage. */
 function periodsTop(run: Run): number {
   return Math.floor(run.maxTime * run.stage.rf.frequency) + 1;
@@ -175,7 +206,7 @@ function growing(t: PeriodTable | null, kTop: number): SpectralRows | null {
  * needs no other); the other is asked for when an ion needs F(ψ) on both axes.
  */
 function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { sc, maxTime, R2 } = run;
+  const { sc, maxTime, R2, entry2 } = run, zStart = run.stage.zStart;
   const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, (run.tx ?? run.ty)!);
   let spX = growing(run.tx, kTop), spY = growing(run.ty, kTop);
   // (1 + 1e-9): rounding between the spectral and the matrix-power forms of the same sample.
@@ -196,6 +227,7 @@ function growingRun(run: Run, st: StartArrays, start: number, j0: number, j1: nu
     const full = Math.floor(tExit / h);
     const K = Math.floor(full / M);
     const X0 = X[i] / r0, P0 = VX[i] * sc * toP, Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
+    if (Z[i] === zStart && X[i] * X[i] + Y[i] * Y[i] >= entry2) { fate[j] = Fate.hit; done[j] = 1; continue; }
     if (K >= 1) {
       const wt = e / dT;
       if ((spX !== null && spectralReach(spX, K, i0, wt, X0, P0) >= rLoss) || (spY !== null && spectralReach(spY, K, i0, wt, Y0, Q0) >= rLoss)) {
@@ -318,7 +350,7 @@ function invariantUp(q: TwissRows, i0: number, wt: number, u: number, p: number)
 }
 
 function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, start: number, j0: number, j1: number, fate: Int8Array, done: Uint8Array, counts: BatchCounts): void {
-  const { sc, maxTime, R2 } = run;
+  const { sc, maxTime, R2, entry2, exitState } = run, zStart = run.stage.zStart;
   const { M, h, omega, phase, r0, toP, zEnd, dT, nn, kTop } = runConsts(run, tx);
   // All-time envelope: the grid's largest W plus what W can add between grid points.
   const gx = tx.gamma, ax = tx.alpha, bx = tx.beta, Wx = tx.wMax + tx.wMargin;
@@ -329,6 +361,8 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
   }
   if (S.cand.length < M + 1) { S.cand = new Int32Array(M + 1); S.env = new Float64Array(M + 1); }
   let rotTop = -1; // rotations() filled for this run up to rotTop
+  // Exit states need M0^K for every K an ion can spend in the rods: tabulate once per run.
+  if (exitState) { powers(tx, kTop + 1); powers(ty, kTop + 1); }
   const qx = twissRows(tx), qy = twissRows(ty);
   const X = st.x, Y = st.y, VX = st.vx, VY = st.vy, Z = st.z, VZ = st.vz, TAU = st.tau;
   const E = S.entry;
@@ -342,9 +376,11 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
     const i0 = Math.min(nn - 1, Math.floor(psi / dT));
     const e = psi - i0 * dT;
     const X0 = X[i] / r0, P0 = VX[i] * sc * toP, Y0 = Y[i] / r0, Q0 = VY[i] * sc * toP;
+    // The entrance plate (sim/stages/quadrupole/apertures.ts) for ions starting in its plane.
+    if (Z[i] === zStart && X[i] * X[i] + Y[i] * Y[i] >= entry2) { fate[j] = Fate.hit; done[j] = 1; continue; }
     // Tier 1 first from the Courant–Snyder form at ψ (TwissRows, interpolated, plus its bound):
-    // most ions pass here without F(ψ) being formed.
-    if (Wx * invariantUp(qx, i0, e / dT, X0, P0) + Wy * invariantUp(qy, i0, e / dT, Y0, Q0) < R2) {
+    // most ions pass here without F(ψ) being formed, unless the exit state is needed.
+    if (!exitState && Wx * invariantUp(qx, i0, e / dT, X0, P0) + Wy * invariantUp(qy, i0, e / dT, Y0, Q0) < R2) {
       counts.envelopeCleared++;
       fate[j] = openExit(run, vz, tExit);
       done[j] = 1;
@@ -356,8 +392,12 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
     const cx1 = E[4], cx2 = E[5], cy1 = E[6], cy2 = E[7];
     const ix = gx * cx1 * cx1 + 2 * ax * cx1 * cx2 + bx * cx2 * cx2;
     const iy = gy * cy1 * cy1 + 2 * ay * cy1 * cy2 + by * cy2 * cy2;
-    if (Wx * ix + Wy * iy < R2) counts.envelopeCleared++;
-    else {
+    a[1] = cx1; a[2] = cx2; a[3] = cy1; a[4] = cy2; a[7] = psi + omega * tExit;
+    if (Wx * ix + Wy * iy < R2) {
+      counts.envelopeCleared++;
+      // Inside the rods' envelope everywhere, so the exit sample passes the rods too.
+      if (exitState) { stableExit(tx, ty, R2); S.out[4] = vz; S.out[5] = tExit; fate[j] = beyondRods(run); done[j] = 1; continue; }
+    } else {
       const full = Math.floor(tExit / h), Kp = Math.ceil(full / M);
       if (rotTop < Kp && (Kp * Math.abs(tx.muEff) < Math.PI || Kp * Math.abs(ty.muEff) < Math.PI)) {
         rotations(tx.muEff, ty.muEff, kTop);
@@ -369,6 +409,7 @@ function stableRun(run: Run, tx: PeriodTable, ty: PeriodTable, st: StartArrays, 
         fate[j] = Fate.hit; done[j] = 1;
         continue;
       }
+      if (exitState) { S.out[4] = vz; S.out[5] = tExit; fate[j] = beyondRods(run); done[j] = 1; continue; }
     }
     fate[j] = openExit(run, vz, tExit);
     done[j] = 1;
@@ -473,19 +514,43 @@ function stableScan(tx: PeriodTable, ty: PeriodTable, i0: number, full: number, 
   return false;
 }
 
-/** The exit sample (the direct kernel's shortened last step): F(θr)·M0^K·c at θ_end = θr + 2πK (S.arg). */
+/**
+ * The exit sample (the direct kernel's shortened last step): F(θr)·M0^K·c at θ_end = θr + 2πK
+ * (S.arg); true when it is at or past r0. The whole exit state goes to S.out. F(θr) is one RK4
+ * step of ε = θr − θ_i from grid point i, and RK4 is linear, so F(θr)·d is that step applied to
+ * F(θ_i)·d: one step per axis rather than one per column of F (fAt()), equal up to rounding.
+ */
 function stableExit(tx: PeriodTable, ty: PeriodTable, R2: number): boolean {
-  const a = S.arg, cx1 = a[1], cx2 = a[2], cy1 = a[3], cy2 = a[4], thEnd = a[7];
+  const a = S.arg, thEnd = a[7];
   let K = Math.floor(thEnd / TWO_PI);
   let thr = thEnd - K * TWO_PI;
   if (thr >= TWO_PI) { thr -= TWO_PI; K++; }
   if (thr < 0) thr = 0;
-  const Fm = S.fm, v = S.v;
-  powerApply(tx, K, cx1, cx2, v);
-  fAt(tx, thr, Fm);
-  const Xe = Fm.a11 * v[0] + Fm.a12 * v[1];
-  powerApply(ty, K, cy1, cy2, v);
-  fAt(ty, thr, Fm);
-  const Ye = Fm.a11 * v[0] + Fm.a12 * v[1];
-  return Xe * Xe + Ye * Ye >= R2;
+  let i = Math.floor(thr / tx.dTheta);
+  if (i >= tx.n) i = tx.n - 1;
+  const e = thr - i * tx.dTheta;
+  // cos, sin of e and e/2 (smallAngle()'s series; e < 2π/640).
+  const e2 = e * e, hh = 0.5 * e, h2 = hh * hh;
+  const ce = 1 - 0.5 * e2 * (1 - e2 / 12), se = e * (1 - (e2 / 6) * (1 - e2 / 20));
+  const ch = 1 - 0.5 * h2 * (1 - h2 / 12), sh = hh * (1 - (h2 / 6) * (1 - h2 / 20));
+  const c = tx.cos[i], sn = tx.sin[i];
+  const k1 = c * ch - sn * sh, k2 = c * ce - sn * se;
+  const v = S.v, o = S.out;
+  for (let axis = 0; axis < 2; axis++) {
+    const t = axis === 0 ? tx : ty;
+    const d1 = a[1 + 2 * axis], d2 = a[2 + 2 * axis];
+    // M0^K·c from the power table when stableRun() filled it that far, else by squaring.
+    if (K < t.powCount) {
+      const P = t.pow, q = 4 * K;
+      v[0] = P[q] * d1 + P[q + 1] * d2; v[1] = P[q + 2] * d1 + P[q + 3] * d2;
+    } else powerApply(t, K, d1, d2, v);
+    const u = t.f11[i] * v[0] + t.f12[i] * v[1], p = t.f21[i] * v[0] + t.f22[i] * v[1];
+    const g0 = t.w0 + t.w1 * c, g1 = t.w0 + t.w1 * k1, g2 = t.w0 + t.w1 * k2;
+    const a1 = -g0 * u, u2 = u + hh * p, p2 = p + hh * a1, a2 = -g1 * u2;
+    const u3 = u + hh * p2, p3 = p + hh * a2, a3 = -g1 * u3;
+    const u4 = u + e * p3, p4 = p + e * a3, a4 = -g2 * u4;
+    o[2 * axis] = u + (e / 6) * (p + 2 * p2 + 2 * p3 + p4);
+    o[2 * axis + 1] = p + (e / 6) * (a1 + 2 * a2 + 2 * a3 + a4);
+  }
+  return o[0] * o[0] + o[2] * o[2] >= R2;
 }

@@ -65,7 +65,9 @@ export interface ReportResults {
   /** Every fate the engine knows (sim/core/batch.ts FATE_NAMES), in its order; species[].fates counts them. */
   fate_names: string[];
   operating_points: OperatingPointRow[];
-  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; alive: number; transmission: number; alive_mean_ke_ev: number | null; fates: Record<string, number> }[];
+  species: { population: number; mz: number; charge: number; total: number; detected: number; hit: number; missed: number; returned: number; alive: number; transmission: number; alive_mean_ke_ev: number | null; fates: Record<string, number> }[];
+  /** The detector of the run (summary.json `detector`), or null for run folders without it. */
+  detector: { radius_m: number | null; source: string } | null;
   cooling: Record<string, unknown> | null;
   scan: Record<string, unknown> | null;
   tof: Record<string, unknown> | null;
@@ -103,7 +105,8 @@ export function buildResults(inp: ReportInputs): ReportResults {
   }
   for (const w of inp.sweep?.warnings ?? []) warnings.push(`m/z sweep: ${w}`);
   const species = s.species.map((x) => ({
-    population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit, alive: x.alive,
+    population: x.population, mz: x.mz, charge: x.charge, total: x.total, detected: x.detected, hit: x.hit,
+    missed: x.missed ?? 0, returned: x.returned ?? 0, alive: x.alive,
     transmission: x.transmission,
     alive_mean_ke_ev: typeof x.alive_mean_ke_ev === 'number' ? x.alive_mean_ke_ev : null,
     // Counts by fate name as summary.json gives them; a fate it does not count is 0.
@@ -131,6 +134,7 @@ export function buildResults(inp: ReportInputs): ReportResults {
     scan: parts.scan,
     tof: parts.tof,
     space_charge: parts.space_charge,
+    detector: s.detector ?? null,
     sweep: inp.sweep,
     figures: inp.figures,
     assumptions: assumptions(scene, traits),

@@ -6,6 +6,8 @@ export type ColumnKind = 'int32' | 'float64' | 'utf8';
 export interface ColumnSpec {
   readonly name: string;
   readonly kind: ColumnKind;
+  /** Missing from run folders written before the column existed: read back as NaN. */
+  readonly since?: string;
 }
 
 const i = (name: string): ColumnSpec => ({ name, kind: 'int32' });
@@ -19,6 +21,8 @@ export const ION_COLUMNS: readonly ColumnSpec[] = [
   s('fate'), f('end_time'),
   f('end_x'), f('end_y'), f('end_z'), f('end_vx'), f('end_vy'), f('end_vz'),
   f('end_ke_ev'), i('end_stage'), f('collisions'),
+  // RF phase Ω(t + τ) + φ mod 2π, rad, as the ion entered its first RF stage (NaN: it never did).
+  { name: 'entry_rf_phase', kind: 'float64', since: 'issue 11' },
 ];
 
 /** trajectories.arrow: recorded points; the points of one ion contiguous, ions in index order. */
@@ -32,7 +36,7 @@ export const HISTORY_COLUMNS: readonly ColumnSpec[] = [
   f('rms_radius_m'), f('rms_z_m'),
 ];
 
-export const FATES = ['detected', 'hit', 'alive'] as const;
+export const FATES = ['detected', 'hit', 'missed', 'returned', 'alive'] as const;
 export type FateName = (typeof FATES)[number];
 
 type NumericInput = ArrayLike<number>;
@@ -49,6 +53,8 @@ export interface IonColumnsInput {
   end_ke_ev: NumericInput;
   end_stage: NumericInput;
   collisions: NumericInput;
+  /** Optional for writers with no RF stages to report: written as NaN when left out. */
+  entry_rf_phase?: NumericInput;
 }
 
 /** Columns of ions.arrow as read back. */
@@ -63,6 +69,7 @@ export interface IonColumns {
   end_ke_ev: Float64Array;
   end_stage: Int32Array;
   collisions: Float64Array;
+  entry_rf_phase: Float64Array;
 }
 
 export interface TrajectoryColumnsInput {

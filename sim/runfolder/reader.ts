@@ -74,6 +74,7 @@ function columnsOf<T>(table: Table, specs: readonly ColumnSpec[], path: string):
   const out: Record<string, unknown> = {};
   for (const spec of specs) {
     const child = table.getChild(spec.name);
+    if (child === null && spec.since !== undefined) { out[spec.name] = new Float64Array(table.numRows).fill(NaN); continue; }
     if (child === null) throw new RunFolderError(`${path}: column '${spec.name}' missing`);
     if (spec.kind === 'utf8') out[spec.name] = Array.from(child.toArray() as ArrayLike<string>);
     else {

@@ -4,7 +4,13 @@
 
 export interface SpeciesSummary {
   population: number; mz: number; charge: number;
-  total: number; detected: number; hit: number; alive: number;
+  total: number; detected: number; hit: number;
+  /**
+   * Reached the detector plane outside the detector; left back through the first entrance
+   * (absent from run folders written before these fates existed: read as 0).
+   */
+  missed?: number; returned?: number;
+  alive: number;
   /** detected / total. */
   transmission: number;
   [extra: string]: unknown;
@@ -26,7 +32,10 @@ export interface RunProvenance {
 export interface RunSummary {
   complete: boolean;
   scene_name: string;
-  ions: { total: number; detected: number; hit: number; alive: number; [extra: string]: unknown };
+  /** Ion fates in all (missed, returned: see SpeciesSummary). */
+  ions: { total: number; detected: number; hit: number; missed?: number; returned?: number; alive: number; [extra: string]: unknown };
+  /** The detector radius used (null: unbounded) and where it came from (sim/scene/detector.ts). */
+  detector?: { radius_m: number | null; source: string };
   species: SpeciesSummary[];
   stats: { steps: number; wall_s: number; [extra: string]: unknown };
   warnings: string[];
@@ -38,9 +47,9 @@ export interface RunSummary {
 }
 
 const ORDER: Record<string, readonly string[]> = {
-  '': ['complete', 'scene_name', 'ions', 'species', 'stats', 'warnings', 'provenance', 'units', 'cooling'],
-  ions: ['total', 'detected', 'hit', 'alive'],
-  species: ['population', 'mz', 'charge', 'total', 'detected', 'hit', 'alive', 'transmission'],
+  '': ['complete', 'scene_name', 'ions', 'detector', 'species', 'stats', 'warnings', 'provenance', 'units', 'cooling'],
+  ions: ['total', 'detected', 'hit', 'missed', 'returned', 'alive'],
+  species: ['population', 'mz', 'charge', 'total', 'detected', 'hit', 'missed', 'returned', 'alive', 'transmission'],
   stats: ['steps', 'wall_s'],
   provenance: ['tool_version', 'scene', 'scene_file', 'seed', 'command_line', 'integrator', 'workers', 'started_at'],
 };

@@ -97,7 +97,8 @@ export class RunFolderWriter {
       }
       this.lastIon = ion[k];
     }
-    const row = { ...cols, fate } as unknown as Record<string, ArrayLike<unknown>>;
+    const entry_rf_phase = cols.entry_rf_phase ?? new Float64Array(ion.length).fill(NaN);
+    const row = { ...cols, fate, entry_rf_phase } as unknown as Record<string, ArrayLike<unknown>>;
     this.ions.arrow.append(row);
     this.ions.csv?.append(row);
   }

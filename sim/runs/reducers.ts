@@ -18,7 +18,7 @@ export interface BatchReducer {
 export class SpeciesTally implements BatchReducer {
   private readonly pops;
   constructor(scene: Scene) {
-    this.pops = scene.ions.map((p, k) => ({ population: k, mz: p.mz, charge: p.charge, total: 0, detected: 0, hit: 0, alive: 0, collisions: 0, aliveKe: 0 }));
+    this.pops = scene.ions.map((p, k) => ({ population: k, mz: p.mz, charge: p.charge, total: 0, detected: 0, hit: 0, missed: 0, returned: 0, alive: 0, collisions: 0, aliveKe: 0 }));
   }
 
   add(r: BatchResult): void {
@@ -26,15 +26,19 @@ export class SpeciesTally implements BatchReducer {
       const p = this.pops[r.population[k]];
       p.total++;
       p.collisions += r.collisions[k];
-      if (r.fate[k] === Fate.detected) p.detected++;
-      else if (r.fate[k] === Fate.hit) p.hit++;
+      const f = r.fate[k];
+      if (f === Fate.detected) p.detected++;
+      else if (f === Fate.hit) p.hit++;
+      else if (f === Fate.missed) p.missed++;
+      else if (f === Fate.returned) p.returned++;
       else { p.alive++; p.aliveKe += r.end_ke_ev[k]; }
     }
   }
 
   species(): SpeciesSummary[] {
     return this.pops.map((p) => ({
-      population: p.population, mz: p.mz, charge: p.charge, total: p.total, detected: p.detected, hit: p.hit, alive: p.alive,
+      population: p.population, mz: p.mz, charge: p.charge, total: p.total, detected: p.detected, hit: p.hit,
+      missed: p.missed, returned: p.returned, alive: p.alive,
       transmission: p.total > 0 ? p.detected / p.total : 0,
       // Mean kinetic energy of the ions still stored at max_time (RF heating shows here at high q).
       alive_mean_ke_ev: p.alive > 0 ? p.aliveKe / p.alive : null,

@@ -17,6 +17,7 @@ import type { BatchResult } from '../engine/track.js';
 import { isElectrostatic } from '../engine/potential.js';
 import { ArrivalTally, figureBlocks, needsArrivals, SpeciesTally, StepTally, type BatchReducer } from './reducers.js';
 import { checkCoupledScene, runCoupled } from '../engine/run-coupled.js';
+import { detectorOf } from '../scene/detector.js';
 import { checkIntegrator, checkStartsInside, sceneWarnings } from '../engine/checks.js';
 import { checkOutputLimit, estimateRun, type RunEstimate } from './estimate.js';
 import { onStopSignal } from './stop-signals.js';
@@ -93,11 +94,16 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const histCols = hist.table();
   if (!scene.spaceCharge) writer.writeHistory(histCols);
   const species: SpeciesSummary[] = tally.species();
-  const totals = species.reduce((a, s) => ({ total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit, alive: a.alive + s.alive }), { total: 0, detected: 0, hit: 0, alive: 0 });
+  const totals = species.reduce((a, s) => ({
+    total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit,
+    missed: a.missed + (s.missed ?? 0), returned: a.returned + (s.returned ?? 0), alive: a.alive + s.alive,
+  }), { total: 0, detected: 0, hit: 0, missed: 0, returned: 0, alive: 0 });
+  const det = detectorOf(scene);
   const summary: RunSummary = {
     complete,
     scene_name: scene.name,
     ions: totals,
+    detector: { radius_m: Number.isFinite(det.radius) ? det.radius : null, source: det.source },
     species,
     stats: { steps, wall_s: (performance.now() - t0) / 1000, ion_steps_per_s: steps / Math.max(1e-9, (performance.now() - t0) / 1000), max_energy_error: energyError },
     warnings,

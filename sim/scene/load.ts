@@ -62,6 +62,11 @@ export const SCENE_SCHEMA: Field = {
     ions: { kind: 'list', item: population, minItems: 1 },
     run,
     gas: GAS_FIELD,
+    detector: {
+      kind: 'object',
+      fields: { radius: { kind: 'quantity', dim: 'length', positive: true } },
+      required: ['radius'],
+    },
     space_charge: {
       kind: 'object',
       fields: {
@@ -191,6 +196,7 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
     run: runSettings,
   };
   if (raw.gas) scene.gas = resolveGas(raw.gas, ['gas'], doc, origin);
+  if (raw.detector) scene.detector = { radius: raw.detector.radius };
   if (raw.space_charge) {
     const sc = raw.space_charge;
     scene.spaceCharge = { method: sc.method, weight: sc.weight ?? 1, softening: sc.softening, theta: sc.theta };

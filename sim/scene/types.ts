@@ -52,4 +52,9 @@ export interface Scene {
   spaceCharge?: { method: 'direct' | 'tree'; weight: number; softening?: number; theta?: number };
   /** Design targets for the report's verdict (sim/scene/targets.ts); absent when the scene gives none. */
   targets?: Targets;
+  /**
+   * The detector in the exit plane of the last stage, when the scene file gives one; otherwise
+   * sim/scene/detector.ts derives it from the stages (so that a sweep of r0 moves it too).
+   */
+  detector?: { radius: number };
 }

@@ -56,6 +56,11 @@ export interface StageKind<S extends Stage = Stage> {
    * engine's own rules (last stage: detected; first stage: returned): a fate, or undefined.
    */
   exitFate(st: S, forward: boolean): FateCode | undefined;
+  /**
+   * Radius of the opening in the stage's exit plane (z = zEnd), m, or undefined when the plane is
+   * open. A detector at the exit of the last stage defaults to it (sim/scene/detector.ts).
+   */
+  exitAperture(st: S): number | undefined;
   /** The field is uniform in the stage, so the drag gas model's exact step in a uniform field applies. */
   readonly uniformField: boolean;
   /** The kernel takes the hard-sphere gas as kernel pieces (locals), not as a plain step. */

@@ -22,6 +22,7 @@ import { mzWindow } from '../mathieu/operating-point.js';
 import { TOOL_VERSION } from '../version.js';
 import { grid, parseVary, SweepError, MAX_POINTS, type SweepAxis } from './vary.js';
 import { peakFigures, type PeakFigures } from '../analysis/peak.js';
+import { wilsonInterval } from '../analysis/wilson.js';
 import { LinearScratch, LinearTracker, nonLinearReason, StartStates } from '../fastpath/linear-path.js';
 import { DirectPool, sweepRunSettings } from './direct-path.js';
 
@@ -463,10 +464,18 @@ function num(v: number | null): string {
   return v === null ? '' : String(v);
 }
 
-/** sweep.csv: one column per varied key (named as given), then total, detected, transmission. */
+/** The 95 % Wilson score interval of a point's transmission (sim/analysis/wilson.ts). */
+function interval(p: { detected: number; total: number }): [number, number] {
+  return wilsonInterval(p.detected, p.total);
+}
+
+/**
+ * sweep.csv: one column per varied key (named as given), then total, detected, transmission and
+ * its 95 % Wilson score interval (transmission_low, transmission_high), then collected figures.
+ */
 export function sweepCsv(r: SweepResult): string {
-  const lines = [[...r.axes.map((a) => a.key), 'total', 'detected', 'transmission', ...r.collect].join(',')];
-  for (const p of r.points) lines.push([...p.values.map(String), p.total, p.detected, p.transmission, ...(p.figures ?? []).map(num)].join(','));
+  const lines = [[...r.axes.map((a) => a.key), 'total', 'detected', 'transmission', 'transmission_low', 'transmission_high', ...r.collect].join(',')];
+  for (const p of r.points) lines.push([...p.values.map(String), p.total, p.detected, p.transmission, ...interval(p), ...(p.figures ?? []).map(num)].join(','));
   return lines.join('\n') + '\n';
 }
 
@@ -483,12 +492,27 @@ export function scanLinesCsv(r: SweepResult): string | null {
 
 export function scanLinePointsCsv(r: SweepResult): string | null {
   if (!r.scanLines) return null;
-  const lines = ['u_over_v,mz,total,detected,transmission'];
-  for (const l of r.scanLines.lines) for (const p of l.points) lines.push([l.u_over_v, p.values[0], p.total, p.detected, p.transmission].join(','));
+  const lines = ['u_over_v,mz,total,detected,transmission,transmission_low,transmission_high'];
+  for (const l of r.scanLines.lines) for (const p of l.points) lines.push([l.u_over_v, p.values[0], p.total, p.detected, p.transmission, ...interval(p)].join(','));
   return lines.join('\n') + '\n';
 }
 
 export interface SummaryOptions { commandLine?: string }
+
+/** The peak figures with the 95 % Wilson interval of the transmission at the maximum. */
+function peakWithInterval(peak: PeakFigures | null, points: SweepPoint[]): Record<string, unknown> | null {
+  if (peak === null) return null;
+  const at = points.find((p) => p.values[0] === peak.mz_at_max && p.transmission === peak.transmission);
+  if (at === undefined) return { ...peak };
+  const [low, high] = interval(at);
+  const out: Record<string, unknown> = {};
+  // Right after `transmission`, in the key order of PeakFigures otherwise.
+  for (const [k, v] of Object.entries(peak)) {
+    out[k] = v;
+    if (k === 'transmission') { out.transmission_low = low; out.transmission_high = high; }
+  }
+  return out;
+}
 
 /** summary.json content (key order fixed; SI numbers, m/z in Th). */
 export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<string, unknown> {
@@ -502,7 +526,7 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
       points: r.points.length,
       ions_per_point: r.ionsPerPoint,
     },
-    peak: r.peak,
+    peak: peakWithInterval(r.peak, r.points),
   };
   if (r.peaks) out.peaks = r.peaks;
   if (r.collect.length > 0) {
@@ -521,6 +545,8 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
         mz: l.peak?.mz ?? null, fwhm_mz: l.peak?.fwhm_mz ?? null,
         resolution_50: l.peak?.resolution_50 ?? null, resolution_10: l.peak?.resolution_10 ?? null,
         transmission: l.peak?.transmission ?? 0,
+        transmission_low: peakWithInterval(l.peak, l.points)?.transmission_low ?? null,
+        transmission_high: peakWithInterval(l.peak, l.points)?.transmission_high ?? null,
         mathieu_window: l.mathieu_window,
       })),
     };
@@ -546,6 +572,6 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
     started_at: r.startedAt,
     wall_s: r.wallSeconds,
   };
-  out.units = { mz: 'Th (u/e)', transmission: 'fraction of ions detected', voltage: 'V', length: 'm', time: 's', energy: 'eV', frequency: 'Hz' };
+  out.units = { mz: 'Th (u/e)', transmission: 'fraction of ions detected', transmission_low: '95 % Wilson score interval (Wilson 1927), lower end', transmission_high: '95 % Wilson score interval, upper end', voltage: 'V', length: 'm', time: 's', energy: 'eV', frequency: 'Hz' };
   return out;
 }

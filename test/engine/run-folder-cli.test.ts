@@ -41,9 +41,10 @@ describe('iontrail run', () => {
     const r = iontrail(['run', join(d, 's.yaml'), '-o', join(d, 'out'), '--json', '--workers', '1', '--csv']);
     expect(r.code, r.stderr).toBe(0);
     const summary = JSON.parse(r.stdout);
-    expect(Object.keys(summary.ions)).toEqual(['total', 'detected', 'hit', 'alive']);
+    expect(Object.keys(summary.ions)).toEqual(['total', 'detected', 'hit', 'missed', 'returned', 'alive']);
     expect(summary.ions.total).toBe(1000);
-    expect(summary.ions.detected + summary.ions.hit + summary.ions.alive).toBe(1000);
+    const i = summary.ions;
+    expect(i.detected + i.hit + i.missed + i.returned + i.alive).toBe(1000);
     expect(summary.species).toHaveLength(2);
     expect(summary.species[0].transmission).toBeCloseTo(summary.species[0].detected / 700, 12);
     expect(summary.stats.steps).toBeGreaterThan(0);
@@ -53,7 +54,7 @@ describe('iontrail run', () => {
     expect(files).toEqual(expect.arrayContaining(['summary.json', 'ions.arrow', 'trajectories.arrow', 'ions.csv', 'trajectories.csv']));
     const ions = readIons(join(d, 'out'));
     for (const col of ['ion', 'population', 'mz', 'charge', 'x0', 'y0', 'z0', 'vx0', 'vy0', 'vz0', 'fate', 'end_time',
-      'end_x', 'end_y', 'end_z', 'end_vx', 'end_vy', 'end_vz', 'end_ke_ev']) {
+      'end_x', 'end_y', 'end_z', 'end_vx', 'end_vy', 'end_vz', 'end_ke_ev', 'end_stage', 'collisions', 'entry_rf_phase']) {
       expect((ions as unknown as Record<string, ArrayLike<unknown>>)[col], col).toBeDefined();
       expect((ions as unknown as Record<string, ArrayLike<unknown>>)[col].length, col).toBe(1000);
     }

@@ -1,7 +1,8 @@
 // Same scene and seed give the same bytes: every demo scene's ions.arrow, history.arrow and
-// trajectories.arrow against the SHA-256 digests in demo-bytes.json. The digests were recorded
-// with the tree before the stage-registry refactor (commit b7708be, Node 20.20.2, x86-64), so a
-// refactor that changes no result keeps this test green; a change that alters results on purpose
+// trajectories.arrow against the SHA-256 digests in demo-bytes.json. First recorded with the tree
+// before the stage-registry refactor (commit b7708be, Node 20.20.2, x86-64); re-recorded for issue
+// 11 (fates missed and returned, the detector, the entry_rf_phase column), so a refactor that
+// changes no result keeps this test green; a change that alters results on purpose
 // re-records them (IONTRAIL_GOLDEN_RECORD=1 npx vitest run test/golden) and says why in its commit.
 // Workers: 1 here while the digests came from 2, so this also checks worker-count independence.
 import { describe, it, expect, afterAll } from 'vitest';
@@ -38,7 +39,7 @@ describe('demo scenes give the recorded bytes', () => {
     it('records the digests', () => {
       const all: Record<string, Record<string, string>> = {};
       for (const s of scenes) all[s] = digests(s);
-      writeFileSync(MANIFEST, JSON.stringify({ recorded_with: 'commit b7708be, iontrail run --workers 2', scenes: all }, null, 2) + '\n');
+      writeFileSync(MANIFEST, JSON.stringify({ recorded_with: 'issue 11 fates (after b9b042e), iontrail run --workers 2', scenes: all }, null, 2) + '\n');
       expect(Object.keys(all).length).toBe(scenes.length);
     }, 300_000);
     return;

@@ -18,7 +18,7 @@ describe('demo', () => {
       expect(r.stdout).toContain(`$ iontrail report scenes/${scene}.yaml -o ${join(out, scene)} --force`);
       expect(r.stdout).toContain(`report: ${join(out, scene, 'report.html')}`);
     }
-    expect(r.stdout).toMatch(/m\/z 502: \d+ detected, \d+ hit, \d+ alive of 1000 \(transmission [\d.]+ %\)/);
+    expect(r.stdout).toMatch(/m\/z 502: \d+ detected, \d+ hit, \d+ missed, \d+ returned, \d+ alive of 1000 \(transmission [\d.]+ %\)/);
     expect(r.stdout).toMatch(/cooling: tau [\d.]+ ms/);
     expect(r.stdout).toMatch(/verified on the bench/);
   }, 300_000); // five scenes at full size on a shared 2-core machine (about 15 s alone)

@@ -17,13 +17,13 @@ describe('sweep --collect', () => {
       '-o', join(d, 'cap'), '--workers', '2']);
     expect(r.code, r.stderr).toBe(0);
     const lines = readFileSync(join(d, 'cap', 'sweep.csv'), 'utf8').trim().split('\n');
-    expect(lines[0]).toBe('space_charge.weight,total,detected,transmission,space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r');
+    expect(lines[0]).toBe('space_charge.weight,total,detected,transmission,transmission_low,transmission_high,space_charge.real_charges,space_charge.frequency_shift_z,space_charge.frequency_shift_r');
     const rows = lines.slice(1).map((l) => l.split(',').map(Number));
-    expect(rows.map((x) => x[4])).toEqual([80, 80 * 151, 80 * 301]);
-    expect(Math.abs(rows[0][5])).toBeLessThan(0.01);
-    expect(rows[1][5]).toBeLessThan(rows[0][5] - 0.01);
-    expect(rows[2][5]).toBeLessThan(rows[1][5]);
-    expect(rows[2][6]).toBeLessThan(rows[1][6]);
+    expect(rows.map((x) => x[6])).toEqual([80, 80 * 151, 80 * 301]);
+    expect(Math.abs(rows[0][7])).toBeLessThan(0.01);
+    expect(rows[1][7]).toBeLessThan(rows[0][7] - 0.01);
+    expect(rows[2][7]).toBeLessThan(rows[1][7]);
+    expect(rows[2][8]).toBeLessThan(rows[1][8]);
     const summary = JSON.parse(readFileSync(join(d, 'cap', 'summary.json'), 'utf8'));
     expect(summary.collected.figures).toHaveLength(3);
     // The renderer draws the curve from the sweep folder.

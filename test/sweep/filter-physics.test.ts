@@ -19,7 +19,10 @@ import { repoRoot } from '../bench/cbuild.js';
 const ROOT = repoRoot();
 
 const FILE = join(ROOT, 'scenes/qf4-peak-scan.yaml');
-const TEXT = readFileSync(FILE, 'utf8');
+// The subject here is the rods' stability window, so the detector is made wide enough to take
+// every ion that leaves the rods (the demo's own detector, r0 after a 20 mm drift, also sorts
+// ions by their RF phase at the exit: test/sweep/detector-fates.test.ts).
+const TEXT = readFileSync(FILE, 'utf8') + '\ndetector: { radius: 10 m }\n';
 // The demo scene: r0 = 4 mm, 1.2 MHz, V = 832 V, U = 138.528 V, 5 eV ions, 150 mm rods.
 const OP = { analyzer: 'quadrupole' as const, r0: 4e-3, freq: 1.2e6, rf: 832, dc: 138.528, mz: 502 };
 

@@ -25,25 +25,33 @@ describe('iontrail sweep', () => {
     const t0 = performance.now();
     const r = iontrail(['sweep', DEMO, '--vary', 'mz=490..514:121', '-o', dir]);
     const wall = (performance.now() - t0) / 1000;
-    expect(r.stderr).toBe('');
+    // The demo's 4 mm detector 20 mm past the rods takes a jagged share of the ions (it depends
+    // on each ion's RF phase at the exit), so the FWHM may be coarse on this grid; nothing else.
+    for (const line of r.stderr.split('\n').filter(Boolean)) expect(line).toMatch(/^warning: the FWHM .* refine the m\/z step$/);
     expect(r.code).toBe(0);
     // "A few seconds" (issue 6 demo): 10 s leaves room for a loaded 2-core machine.
     expect(wall).toBeLessThan(10);
     const csv = readFileSync(join(dir, 'sweep.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toBe('mz,total,detected,transmission');
+    expect(csv[0]).toBe('mz,total,detected,transmission,transmission_low,transmission_high');
     expect(csv.length).toBe(122);
     expect(csv[1].split(',')[0]).toBe('490');
     expect(csv[121].split(',')[0]).toBe('514');
     for (const line of csv.slice(1)) {
-      const [, total, detected, t] = line.split(',').map(Number);
+      const [, total, detected, t, lo, hi] = line.split(',').map(Number);
       expect(total).toBe(2000);
       expect(t).toBeCloseTo(detected / total, 15);
+      // The 95 % Wilson interval (test/sweep/wilson.test.ts) holds the point estimate.
+      expect(lo).toBeLessThanOrEqual(t);
+      expect(hi).toBeGreaterThanOrEqual(t);
+      expect(hi - lo).toBeLessThan(0.05);
     }
     const s = JSON.parse(readFileSync(join(dir, 'summary.json'), 'utf8'));
     expect(Object.keys(s.peak).slice(0, 5)).toEqual(['mz', 'fwhm_mz', 'resolution_50', 'resolution_10', 'transmission']);
     expect(s.peak.mz).toBeGreaterThan(500);
     expect(s.peak.mz).toBeLessThan(504);
     expect(s.peak.resolution_50).toBeCloseTo(s.peak.mz / s.peak.fwhm_mz, 10);
+    expect(s.peak.transmission_low).toBeLessThan(s.peak.transmission);
+    expect(s.peak.transmission_high).toBeGreaterThan(s.peak.transmission);
     expect(s.method.used).toBe('matrix');
     for (const k of ['tool_version', 'scene', 'seed', 'command_line', 'method', 'wall_s']) expect(s.provenance).toHaveProperty(k);
     expect(s.provenance.seed).toBe(42);
@@ -70,10 +78,14 @@ describe('iontrail sweep', () => {
 
   it('a 2D map (m/z × DC) and U/V scan lines', () => {
     const base = tempDir();
-    const r = iontrail(['sweep', DEMO, '--vary', 'mz=498..506:9', '--vary', 'stages.0.dc=130V..138V:3', '--set', 'ions.0.count=200', '-o', join(base, 'map'), '--json']);
+    // The rods' own trade-off: a detector wide enough for every ion leaving them (the demo's 4 mm
+    // one 20 mm downstream also sorts ions by their RF phase at the exit).
+    const WIDE = join(base, 'wide.yaml');
+    writeFileSync(WIDE, readFileSync(join(ROOT, DEMO), 'utf8') + '\ndetector: { radius: 10 m }\n');
+    const r = iontrail(['sweep', WIDE, '--vary', 'mz=498..506:9', '--vary', 'stages.0.dc=130V..138V:3', '--set', 'ions.0.count=200', '-o', join(base, 'map'), '--json']);
     expect(r.code).toBe(0);
     const csv = readFileSync(join(base, 'map/sweep.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toBe('mz,stages.0.dc,total,detected,transmission');
+    expect(csv[0]).toBe('mz,stages.0.dc,total,detected,transmission,transmission_low,transmission_high');
     expect(csv.length).toBe(1 + 27);
     const s = JSON.parse(r.stdout);
     expect(s.peaks.map((p: { value: number }) => p.value)).toEqual([130, 134, 138]);
@@ -81,7 +93,7 @@ describe('iontrail sweep', () => {
     const res = s.peaks.map((p: { peak: { resolution_50: number | null } }) => p.peak.resolution_50);
     if (res[0] !== null && res[2] !== null) expect(res[2]).toBeGreaterThan(res[0]);
 
-    const l = iontrail(['sweep', DEMO, '--vary', 'mz=494..510:81', '--scan-lines', '0.162..0.1665:4', '--set', 'ions.0.count=500', '-o', join(base, 'lines')]);
+    const l = iontrail(['sweep', WIDE, '--vary', 'mz=494..510:81', '--scan-lines', '0.162..0.1665:4', '--set', 'ions.0.count=500', '-o', join(base, 'lines')]);
     expect(l.code).toBe(0);
     const lines = readFileSync(join(base, 'lines/scan-lines.csv'), 'utf8').trim().split('\n');
     expect(lines[0]).toBe('u_over_v,dc_v,mz,fwhm_mz,resolution_50,resolution_10,transmission,mathieu_low_mz,mathieu_high_mz,mathieu_resolution');

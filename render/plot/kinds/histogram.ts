@@ -11,7 +11,7 @@ import { figureTitle, footerText } from '../provenance.js';
 import { tofResolution, TOF_RESOLUTION_DEFINITION } from '../../../sim/analysis/arrival.js';
 import { speciesColors } from '../../common/species.js';
 
-const FATE_CHOICES = ['detected', 'hit', 'alive', 'all'] as const;
+const FATE_CHOICES = ['detected', 'hit', 'missed', 'returned', 'alive', 'all'] as const;
 
 function quantile(sorted: Float64Array, p: number): number {
   const x = p * (sorted.length - 1);
@@ -175,7 +175,7 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
 }
 
 const FLAGS = {
-  fate: 'which ions: detected (default) | hit | alive | all',
+  fate: 'which ions: detected (default) | hit | missed | returned | alive | all',
   bins: 'number of bins (default: Freedman–Diaconis rule)',
 };
 const SWITCHES = { overlay: 'overlaid outlines per species instead of stacked bars' };

@@ -12,7 +12,9 @@ import { figureTitle, footerText } from '../../plot/provenance.js';
 /** Colour and label of each fate; a fate added to the engine later gets the next series colour. */
 const KNOWN: Record<string, { label: string; color: string }> = {
   detected: { label: 'detected', color: seriesColor(2) },
-  hit: { label: 'struck an electrode', color: seriesColor(1) },
+  missed: { label: 'missed the detector', color: seriesColor(4) },
+  hit: { label: 'struck an electrode or aperture', color: seriesColor(1) },
+  returned: { label: 'returned through the entrance', color: seriesColor(3) },
   alive: { label: 'still in flight at max_time', color: seriesColor(0) },
 };
 

@@ -51,6 +51,7 @@ export const accelerateKind: StageKind<AccelerateStage> = {
   track: (st, c, ctx, run) => trackUniform(st, c, ctx, run.stepNoRf),
   // A reflectron's closed back plate: an ion that reaches it is lost.
   exitFate: (st, forward) => (forward && st.closed ? Fate.hit : undefined),
+  exitAperture: (st) => (Number.isFinite(st.aperture) ? st.aperture : undefined),
   uniformField: true,
   gasPieces: false,
   describe: (s) => `${s.role === 'reflectron' ? 'reflectron' : 'acceleration'} ${lengthMm(s)} mm${typeof s.voltage === 'number' ? `, ${volts(s.voltage)}` : ''}`,

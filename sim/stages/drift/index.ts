@@ -31,6 +31,7 @@ export const driftKind: StageKind<DriftStage> = {
   track: (st, c, ctx, run) => trackUniform(st, c, ctx, run.stepNoRf),
   // A reflectron's detector sits at the entrance of the drift the ions come back through.
   exitFate: (st, forward) => (!forward && st.detectReturning ? Fate.detected : undefined),
+  exitAperture: (st) => (Number.isFinite(st.aperture) ? st.aperture : undefined),
   uniformField: true,
   gasPieces: false,
   fastPathKeys: new Set(['type', 'length', 'aperture', 'zStart', 'zEnd', 'sceneIndex', 'gas']),

@@ -1,6 +1,7 @@
 // Stage kind `quadrupole`: the ideal hyperbolic mass filter (stage.ts, field.ts, kernel.ts).
 
-import { GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
+import { Exit } from '../../core/cursor.js';
+import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
 import { trackAdaptive } from '../shared/adaptive.js';
 import { adaptiveQuadrupole } from './adaptive.js';
@@ -9,27 +10,43 @@ import { trackQuadrupole } from './kernel.js';
 import type { QuadrupoleStage } from './stage.js';
 import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
 import { r0Plausibility } from '../shared/plausible.js';
+import { blockedOnEntry, exitRadius, throughExitPlate } from './apertures.js';
 
 export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   type: 'quadrupole',
   entries: {
     quadrupole: {
-      fields: { length: LENGTH_FIELD, r0: LENGTH_FIELD, rf: RF_FIELD, dc: VOLTAGE_FIELD, gas: GAS_FIELD },
+      fields: {
+        length: LENGTH_FIELD, r0: LENGTH_FIELD, rf: RF_FIELD, dc: VOLTAGE_FIELD, gas: GAS_FIELD,
+        entrance_aperture: APERTURE_FIELD, exit_aperture: APERTURE_FIELD,
+      },
       required: ['length', 'r0', 'rf'],
-      resolve: (s, at) => [{ type: 'quadrupole', length: s.length, r0: s.r0, rf: resolveRf(s.rf), dc: s.dc ?? 0, zStart: at.z, zEnd: at.z + s.length }],
+      resolve(s, at) {
+        const st: QuadrupoleStage = { type: 'quadrupole', length: s.length, r0: s.r0, rf: resolveRf(s.rf), dc: s.dc ?? 0, zStart: at.z, zEnd: at.z + s.length };
+        // Kept only when given, so that a sweep of r0 moves the default holes with the rods.
+        if (s.entrance_aperture !== undefined) st.entranceAperture = s.entrance_aperture;
+        if (s.exit_aperture !== undefined) st.exitAperture = s.exit_aperture;
+        return [st];
+      },
     },
   },
   hasRf: true,
   analyzer: 'quadrupole',
   rf: (st) => st.rf,
   field: quadrupoleField,
-  track: (st, c, ctx, run) => (run.integrator === 'dopri5'
-    ? trackAdaptive(adaptiveQuadrupole(st, c, ctx), c, ctx, run.tolerance)
-    : trackQuadrupole(st, c, ctx, run.stepsPerCycle)),
+  track(st, c, ctx, run) {
+    // The entrance and exit plates (apertures.ts), then the rods.
+    if (blockedOnEntry(st, c)) return Exit.hit;
+    const code = run.integrator === 'dopri5'
+      ? trackAdaptive(adaptiveQuadrupole(st, c, ctx), c, ctx, run.tolerance)
+      : trackQuadrupole(st, c, ctx, run.stepsPerCycle);
+    return throughExitPlate(st, c, code);
+  },
   exitFate: () => undefined,
+  exitAperture: exitRadius,
   uniformField: false,
   gasPieces: false,
-  fastPathKeys: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas']),
+  fastPathKeys: new Set(['type', 'length', 'r0', 'rf', 'dc', 'zStart', 'zEnd', 'sceneIndex', 'gas', 'entranceAperture', 'exitAperture']),
   operatingPoint: (st) => ({ analyzer: 'quadrupole', r0: st.r0, z0: undefined, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   describe: (s) => `quadrupole ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
   outline: () => [{ shape: 'rod-set', reachR0: 1.5 }],

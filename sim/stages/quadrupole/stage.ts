@@ -6,4 +6,7 @@ export interface QuadrupoleStage extends StageBase {
   r0: number;
   rf: RfDrive;
   dc: number;
+  /** Hole radius of the entrance and exit plates, m; undefined: r0 (see apertures.ts). */
+  entranceAperture?: number;
+  exitAperture?: number;
 }

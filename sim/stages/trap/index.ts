@@ -42,6 +42,8 @@ export const trapKind: StageKind<TrapStage> = {
     ? trackAdaptive(adaptiveTrap(st, c, ctx), c, ctx, run.tolerance)
     : trackTrap(st, c, ctx, run.stepsPerCycle)),
   exitFate: () => undefined,
+  // Ions leave through the end-cap hole; the exit plane is at the end cap's apex.
+  exitAperture: (st) => st.aperture,
   uniformField: false,
   gasPieces: true,
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
