@@ -16,7 +16,7 @@ afterAll(() => { for (const d of dirs) rmSync(d, { recursive: true, force: true 
 describe('detector fates, CLI end to end', () => {
   it('demo filter: every detected ion crosses the detector plane inside the detector; the rest are accounted for', () => {
     const out = join(fresh(), 'run');
-    const r = iontrail(['run', 'scenes/qf4-compact-filter.yaml', '-o', out, '--workers', '2']);
+    const r = iontrail(['run', 'test/fixtures/qf4-compact-filter-drift.yaml', '-o', out, '--workers', '2']);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toMatch(/\d+ detected +\d+ hit +\d+ missed +\d+ returned +\d+ alive/);
     expect(r.stdout).toMatch(/detector +radius 4\.00 mm \(r0 of stage 0\)/);
@@ -55,7 +55,7 @@ describe('detector fates, CLI end to end', () => {
 
   it('iontrail plot --kind sweep draws the 95 % Wilson band of the transmission', () => {
     const d = fresh();
-    const sw = iontrail(['sweep', 'scenes/qf4-peak-scan.yaml', '--vary', 'mz=499..505:13', '--set', 'ions.0.count=300', '-o', join(d, 'sw')]);
+    const sw = iontrail(['sweep', 'test/fixtures/qf4-peak-scan-drift.yaml', '--vary', 'mz=499..505:13', '--set', 'ions.0.count=300', '-o', join(d, 'sw')]);
     expect(sw.code, sw.stderr).toBe(0);
     const p = iontrail(['plot', join(d, 'sw'), '--kind', 'sweep', '-o', join(d, 'sw.png')]);
     expect(p.code, p.stderr).toBe(0);

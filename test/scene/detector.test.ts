@@ -14,7 +14,10 @@ const demo = (name: string) => parseScene(readFileSync(join(ROOT, 'scenes', name
 
 describe('detector', () => {
   it('defaults: a drift without aperture after the rods takes r0; an aperture of the last stage wins; none: unbounded', () => {
-    expect(detectorOf(demo('qf4-compact-filter.yaml'))).toEqual({ radius: 0.004, source: 'r0 of stage 0' });
+    const drift = 'qf4-compact-filter-drift.yaml';
+    expect(detectorOf(parseScene(readFileSync(join(ROOT, 'test/fixtures', drift), 'utf8'), drift))).toEqual({ radius: 0.004, source: 'r0 of stage 0' });
+    // The QF-4 demo itself names its detector in the rods' exit plane.
+    expect(detectorOf(demo('qf4-compact-filter.yaml'))).toEqual({ radius: 0.004, source: 'scene' });
     // Linear TOF: a source entry (two resolved stages) then a drift with a 20 mm aperture: the
     // scene-file index of the drift is 1.
     expect(detectorOf(demo('lt1-linear-tof.yaml'))).toEqual({ radius: 0.02, source: 'aperture of stage 1' });
@@ -25,7 +28,7 @@ describe('detector', () => {
   });
 
   it('the scene key, in any length unit, wins over the default', () => {
-    const text = readFileSync(join(ROOT, 'scenes/qf4-compact-filter.yaml'), 'utf8') + 'detector: { radius: 1.25 cm }\n';
+    const text = readFileSync(join(ROOT, 'test/fixtures/qf4-compact-filter-drift.yaml'), 'utf8') + 'detector: { radius: 1.25 cm }\n';
     expect(detectorOf(parseScene(text, 'f.yaml'))).toEqual({ radius: 0.0125, source: 'scene' });
   });
 

@@ -18,7 +18,7 @@ import { repoRoot } from '../bench/cbuild.js';
 // The repository root from the sources or from dist/ (vitest may collect both).
 const ROOT = repoRoot();
 
-const FILE = join(ROOT, 'scenes/qf4-peak-scan.yaml');
+const FILE = join(ROOT, 'test/fixtures/qf4-peak-scan-drift.yaml');
 // The subject here is the rods' stability window, so the detector is made wide enough to take
 // every ion that leaves the rods (the demo's own detector, r0 after a 20 mm drift, also sorts
 // ions by their RF phase at the exit: test/sweep/detector-fates.test.ts).

@@ -25,7 +25,7 @@ import { repoRoot } from '../bench/cbuild.js';
 // The repository root from the sources or from dist/ (vitest may collect both).
 const ROOT = repoRoot();
 
-const PEAK_SCAN = readFileSync(join(ROOT, 'scenes/qf4-peak-scan.yaml'), 'utf8');
+const PEAK_SCAN = readFileSync(join(ROOT, 'test/fixtures/qf4-peak-scan-drift.yaml'), 'utf8');
 
 function compare(scene: Scene) {
   const n = scene.ions.reduce((a, p) => a + p.count, 0);

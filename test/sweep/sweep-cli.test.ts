@@ -81,7 +81,7 @@ describe('iontrail sweep', () => {
     // The rods' own trade-off: a detector wide enough for every ion leaving them (the demo's 4 mm
     // one 20 mm downstream also sorts ions by their RF phase at the exit).
     const WIDE = join(base, 'wide.yaml');
-    writeFileSync(WIDE, readFileSync(join(ROOT, DEMO), 'utf8') + '\ndetector: { radius: 10 m }\n');
+    writeFileSync(WIDE, readFileSync(join(ROOT, 'test/fixtures/qf4-peak-scan-drift.yaml'), 'utf8') + '\ndetector: { radius: 10 m }\n');
     const r = iontrail(['sweep', WIDE, '--vary', 'mz=498..506:9', '--vary', 'stages.0.dc=130V..138V:3', '--set', 'ions.0.count=200', '-o', join(base, 'map'), '--json']);
     expect(r.code).toBe(0);
     const csv = readFileSync(join(base, 'map/sweep.csv'), 'utf8').trim().split('\n');
@@ -111,7 +111,7 @@ describe('iontrail sweep', () => {
   it('bad input: exit 2, one line, nothing written', () => {
     const base = tempDir();
     const gasScene = join(base, 'gas.yaml');
-    writeFileSync(gasScene, readFileSync(join(ROOT, DEMO), 'utf8') + 'gas: { species: He, pressure: 1 mTorr, temperature: 300 K, model: hard-sphere, cross_section: 150 A^2 }\n');
+    writeFileSync(gasScene, readFileSync(join(ROOT, 'test/fixtures/qf4-peak-scan-drift.yaml'), 'utf8') + 'gas: { species: He, pressure: 1 mTorr, temperature: 300 K, model: hard-sphere, cross_section: 150 A^2 }\n');
     const cases: [string[], RegExp][] = [
       [['--vary', 'mz=480-520:201'], /KEY=A\.\.B:N/],
       [['--vary', 'mz=480..520:1'], /at least 2/],
