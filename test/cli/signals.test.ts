@@ -33,11 +33,16 @@ async function stopAfter(child: ChildProcess, signal: NodeJS.Signals, ms: number
   let stderr = '', stdout = '';
   child.stderr!.on('data', (d) => { stderr += d; });
   child.stdout!.on('data', (d) => { stdout += d; });
+  // Listen for the exit from the start: a child that ends before the signal must fail the test
+  // with its output, not leave it waiting for an exit that has already happened.
+  let ended = false;
+  const exited = new Promise<number | null>((r) => child.on('exit', (c) => { ended = true; r(c); }));
   const t0 = Date.now();
-  while (!ready(stderr) && Date.now() - t0 < 60_000) await new Promise((r) => setTimeout(r, 50));
+  while (!ready(stderr) && !ended && Date.now() - t0 < 60_000) await new Promise((r) => setTimeout(r, 50));
   await new Promise((r) => setTimeout(r, ms));
+  if (ended) throw new Error(`the command ended before ${signal} was sent (exit ${await exited}): ${stderr}`);
   child.kill(signal);
-  const code = await new Promise<number | null>((r) => child.on('exit', (c) => r(c)));
+  const code = await exited;
   return { code, stderr, stdout };
 }
 
@@ -57,8 +62,8 @@ describe('SIGTERM', () => {
     const d = temp();
     writeFileSync(join(d, 's.yaml'), FILTER.replace('count: 400000', 'count: 2000'));
     const out = join(d, 'out');
-    // Direct integration: 2000 ions a point, a few points a second; 400 points take minutes.
-    const child = iontrailAsync(['sweep', join(d, 's.yaml'), '--vary', 'mz=495..510:400', '--method', 'direct', '--workers', '2', '-o', out]);
+    // Direct integration: 2000 ions a point, tens of points a second; 4000 points take minutes.
+    const child = iontrailAsync(['sweep', join(d, 's.yaml'), '--vary', 'mz=495..510:4000', '--method', 'direct', '--workers', '2', '-o', out]);
     // No estimate line without --collect: wait a fixed time after start instead.
     const r = await stopAfter(child, 'SIGTERM', 3000, () => true);
     expect(r.code, r.stderr).toBe(143);
@@ -67,12 +72,12 @@ describe('SIGTERM', () => {
     expect(summary.complete).toBe(false);
     const rows = readFileSync(join(out, 'sweep.csv'), 'utf8').trim().split('\n').slice(1);
     expect(rows.length).toBeGreaterThan(0);
-    expect(rows.length).toBeLessThan(400);
+    expect(rows.length).toBeLessThan(4000);
     expect(summary.sweep.points).toBe(rows.length);
-    // The rows are the first points of the grid, in order (mz = 495 + 15·k/399).
-    rows.forEach((row, k) => expect(Number(row.split(',')[0])).toBeCloseTo(495 + (15 * k) / 399, 6));
+    // The rows are the first points of the grid, in order (mz = 495 + 15·k/3999).
+    rows.forEach((row, k) => expect(Number(row.split(',')[0])).toBeCloseTo(495 + (15 * k) / 3999, 6));
     expect(summary.peak).toBeNull();
-    expect(r.stderr).toMatch(/warning: interrupted \(SIGTERM\): \d+ of 400 points finished/);
+    expect(r.stderr).toMatch(/warning: interrupted \(SIGTERM\): \d+ of 4000 points finished/);
     expect(r.stdout).toMatch(/INCOMPLETE: interrupted/);
   }, 120_000);
 
