@@ -97,7 +97,9 @@ export function keyNumbers(r: VerdictInput): KeyNumber[] {
   const w = firstWindowRow(r);
   if (w && w.analyzer === 'quadrupole') {
     out.push({ key: 'mz_window_low', label: 'm/z window, lower edge', value: w.mz_window?.low ?? null, unit: '' });
-    out.push({ key: 'mz_window_high', label: 'm/z window, upper edge (none: RF only)', value: w.mz_window?.high ?? null, unit: '' });
+    const high = w.mz_window?.high ?? null;
+    // RF only (U = 0) has no upper edge: say so instead of leaving an empty cell.
+    out.push({ key: 'mz_window_high', label: high === null ? 'm/z window, upper edge (none: RF only)' : 'm/z window, upper edge', value: high, unit: '' });
   } else if (w && w.analyzer === 'trap') {
     out.push({ key: 'lmco', label: `low-mass cut-off${w.at === 'ramp start' ? ' at the start of the ramp' : ''}`, value: w.lmco_mz, unit: '' });
   }
