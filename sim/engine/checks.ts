@@ -7,6 +7,7 @@ import { stageAt } from './start.js';
 import { hasRf, kindOf, rfOf } from '../stages/registry.js';
 import { collisionFrequency } from '../gas/collision-rate.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
+import { fastestSecular, HISTORY_STEPS_PER_SECULAR } from '../scene/secular.js';
 
 /**
  * RF amplitudes (zero-to-peak) above this arc over in the vacuum gaps and feedthroughs of a real
@@ -22,8 +23,20 @@ export function sceneWarnings(scene: Scene): string[] {
     w.push(`run.steps_per_cycle = ${scene.run.stepsPerCycle} is below 20: RK4 phase error grows; results may be inaccurate`);
   }
   w.push(...plausibilityWarnings(scene));
+  const alias = historyAliasWarning(scene);
+  if (alias) w.push(alias);
   if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');
   return w;
+}
+
+/** A history grid coarser than a quarter of the fastest secular period aliases the cloud size. */
+export function historyAliasWarning(scene: Scene): string | null {
+  const sec = fastestSecular(scene.stages, scene.ions);
+  if (sec === null) return null;
+  const limit = 1 / (4 * sec.hz);
+  if (!(scene.run.historyEvery > limit * (1 + 1e-9))) return null;
+  const us = (t: number) => `${Number((t * 1e6).toPrecision(3))} µs`;
+  return `run.history_every = ${us(scene.run.historyEvery)} aliases the cloud-size trace: the secular motion of m/z ${sec.mz} in stage ${sec.stage} runs at ${Number((sec.hz / 1e3).toPrecision(4))} kHz (period ${us(1 / sec.hz)}) and a cloud breathes at twice that; use at most ${us(limit)} (leave it out for ${HISTORY_STEPS_PER_SECULAR} samples per period)`;
 }
 
 export function checkIntegrator(scene: Scene): void {

@@ -6,6 +6,7 @@ import { LineCounter, parseDocument, parse as parseYaml, isMap, isSeq, type Docu
 import { validate, fail, yamlDocumentErrors, SceneError, type Field, type Origin } from './schema.js';
 import type { Scene, Stage, Population, RunSettings, GasSettings } from './types.js';
 import { GAS_FIELD } from './fields.js';
+import { fastestSecular, HISTORY_STEPS_PER_SECULAR } from './secular.js';
 import { STAGE_ENTRIES, firstRf as firstRfOf } from '../stages/registry.js';
 import { resolveGas } from './gas.js';
 import { TARGETS_FIELD, type Targets } from './targets.js';
@@ -184,7 +185,9 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
     tolerance: r.tolerance ?? 1e-8,
     maxTime,
     recordEvery: r.record_every ?? 10,
-    historyEvery: r.history_every ?? maxTime / 200,
+    // Default grid: 200 points over the run, finer where the cloud size would alias against the
+    // fastest secular motion (secular.ts).
+    historyEvery: r.history_every ?? defaultHistoryEvery(maxTime, stages, ions),
     stepNoRf: r.step_without_rf ?? rfStep ?? maxTime / 10000,
   };
 
@@ -209,4 +212,10 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
     scene.targets = { ...t };
   }
   return scene;
+}
+
+function defaultHistoryEvery(maxTime: number, stages: Stage[], ions: Population[]): number {
+  const sec = fastestSecular(stages, ions);
+  const fine = sec ? 1 / (HISTORY_STEPS_PER_SECULAR * sec.hz) : Infinity;
+  return Math.min(maxTime / 200, fine);
 }

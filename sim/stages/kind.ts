@@ -44,6 +44,11 @@ export interface StageKind<S extends Stage = Stage> {
   readonly type: S['type'];
   /** Scene-file entries this kind reads (a kind may read several, e.g. reflectron and source). */
   readonly entries: Readonly<Record<string, StageEntry>>;
+  /**
+   * Stages of this kind hold ions (a trap): the cloud's size and energy over time are figures of
+   * merit, so the default history grid resolves their secular motion (sim/scene/secular.ts).
+   */
+  readonly holdsIons: boolean;
   /** Stages of this kind carry an RF drive (the kind's `rf` gives it per stage). */
   readonly hasRf: boolean;
   /** The RF drive of the stage, or undefined when it has none. */

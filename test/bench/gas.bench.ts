@@ -148,7 +148,7 @@ ions:
     position: { z: 3.536 mm, spread: 0.2 mm, spread_z: 0.2 mm }
     energy: 0.05 eV
     direction: isotropic
-run: { steps_per_cycle: 20, max_time: 1 ms, record_every: 0 }
+run: { steps_per_cycle: 20, max_time: 1 ms, record_every: 0, history_every: 5 us }
 `;
 
 async function engineRates(): Promise<string> {

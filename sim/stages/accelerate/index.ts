@@ -45,6 +45,7 @@ export const accelerateKind: StageKind<AccelerateStage> = {
       resolve: (s, at) => [{ type: 'accelerate', role: 'gap', length: s.length, voltage: s.voltage, aperture: s.aperture ?? Infinity, zStart: at.z, zEnd: at.z + s.length }],
     },
   },
+  holdsIons: false,
   hasRf: false,
   rf: () => undefined,
   field: (st) => uniformField(st.zStart, st.length, st.voltage, st.aperture),

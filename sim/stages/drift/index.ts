@@ -25,6 +25,7 @@ export const driftKind: StageKind<DriftStage> = {
       },
     },
   },
+  holdsIons: false,
   hasRf: false,
   rf: () => undefined,
   field: (st) => uniformField(st.zStart, st.length, 0, st.aperture),

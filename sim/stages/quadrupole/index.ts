@@ -30,6 +30,7 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
       },
     },
   },
+  holdsIons: false,
   hasRf: true,
   analyzer: 'quadrupole',
   rf: (st) => st.rf,

@@ -34,6 +34,7 @@ export const trapKind: StageKind<TrapStage> = {
       },
     },
   },
+  holdsIons: true,
   hasRf: true,
   analyzer: 'trap',
   rf: (st) => st.rf,
