@@ -437,7 +437,12 @@ export class LinearTracker {
           stage: st, s0, stages, sc: scale[pop], maxTime: this.ctx.maxTime, R2: this.r2,
           entry2: (this.scale * entranceRadius(st)) ** 2, exit2: (this.scale * exitRadius(st)) ** 2,
           detector2: this.detector * this.detector,
-          exitState: exitRadius(st) < st.r0 || Number.isFinite(this.detector),
+          // The exit state decides a fate only where the exit plate is narrower than the rods, or a
+          // finite detector lies beyond further stages or inside the loss radius: an ion that never
+          // reached the loss radius s·r0 in the rods (every check, the exit included) is otherwise
+          // inside plate and detector, as in the direct engine.
+          exitState: exitRadius(st) < st.r0
+            || (Number.isFinite(this.detector) && (s0 < stages.length - 1 || this.detector < this.scale * st.r0)),
           complete: (r: Run) => {
             r.tx = this.axisTable(s0, pop, st, mass[pop], charge[pop], 0);
             r.ty = this.axisTable(s0, pop, st, mass[pop], charge[pop], 1);
