@@ -113,7 +113,10 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
 
   // Buffer-gas cooling.
   if (input.gas && input.kind !== 'trap-scan' && run.hasHistory) {
-    await kindFig('cooling', 'Buffer-gas cooling', 'Mean kinetic energy of the ions still stored (log scale, all species together) with its x, y and z parts and the exponential of the fitted time constant τ; below, RMS radius and RMS z of the cloud, against time.', input.runDir, 'cooling', 800);
+    const several = (run.summary.species ?? []).length > 1;
+    await kindFig('cooling', 'Buffer-gas cooling', several
+      ? 'Mean kinetic energy of the ions still stored (log scale): the whole cloud with the exponential of its fitted time constant τ, and each species by m/z in its colour; below, RMS radius and RMS z of the cloud and, dashed, the RMS radius of each species, against time.'
+      : 'Mean kinetic energy of the ions still stored (log scale) with its x, y and z parts and the exponential of the fitted time constant τ; below, RMS radius and RMS z of the cloud, against time.', input.runDir, 'cooling', 800);
   }
 
   // Trap mass scan.

@@ -41,7 +41,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   const offsets = populationOffsets(scene);
   const run = scene.run;
   const rec = run.recordEvery > 0 ? new TrajectoryRecorder(Math.min(1 << 16, count * 64)) : null;
-  const hist = new EnsembleHistory(run.historyEvery, run.maxTime);
+  const hist = new EnsembleHistory(run.historyEvery, run.maxTime, scene.ions.length);
   const ctx: StepContext = { batch: b, maxTime: run.maxTime, recordEvery: run.recordEvery, ...(run.recordSpacing ? { recordSpacing: run.recordSpacing } : {}), rec, hist, gas: null, gasField: null, hardSphere: null };
   const gasSteps = scene.stages.map((_, s) => gasFor(s));
   // Each stage's kind, looked up once: the loop below asks it when an ion enters the stage.
@@ -62,6 +62,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
     const ion = start + slot;
     while (ion >= offsets[pop + 1]) pop++;
     const p = scene.ions[pop];
+    hist.population = pop;
     c.tau = startIon(scene, b, slot, ion, pop, p);
     c.ion = ion; c.slot = slot; c.m = b.mass[slot]; c.q = b.charge[slot];
     c.t = 0; c.x = b.x[slot]; c.y = b.y[slot]; c.z = b.z[slot];

@@ -36,6 +36,11 @@ export const HISTORY_COLUMNS: readonly ColumnSpec[] = [
   f('rms_radius_m'), f('rms_z_m'),
 ];
 
+/** history_species.arrow: the history means per population (runs of several populations). */
+export const SPECIES_HISTORY_COLUMNS: readonly ColumnSpec[] = [
+  i('population'), f('t'), f('n_alive'), f('mean_ke_ev'), f('rms_radius_m'), f('rms_z_m'),
+];
+
 export const FATES = ['detected', 'hit', 'missed', 'returned', 'alive'] as const;
 export type FateName = (typeof FATES)[number];
 
@@ -88,6 +93,12 @@ export interface HistoryColumnsInput {
   t: NumericInput; n_alive: NumericInput; mean_ke_ev: NumericInput;
   mean_ke_x_ev: NumericInput; mean_ke_y_ev: NumericInput; mean_ke_z_ev: NumericInput;
   rms_radius_m: NumericInput; rms_z_m: NumericInput;
+}
+
+/** history_species.arrow rows: one per (population, sample time), population-major. */
+export interface SpeciesHistoryColumns {
+  population: Int32Array; t: Float64Array; n_alive: Float64Array; mean_ke_ev: Float64Array;
+  rms_radius_m: Float64Array; rms_z_m: Float64Array;
 }
 
 export interface HistoryColumns {

@@ -7,7 +7,7 @@ import { open, type FileHandle } from 'node:fs/promises';
 import { join } from 'node:path';
 import { RecordBatchReader, tableFromIPC, type RecordBatch, type Table } from 'apache-arrow';
 import {
-  HISTORY_COLUMNS, ION_COLUMNS, TRAJECTORY_COLUMNS,
+  HISTORY_COLUMNS, ION_COLUMNS, TRAJECTORY_COLUMNS, SPECIES_HISTORY_COLUMNS, type SpeciesHistoryColumns,
   type ColumnSpec, type FateName, type HistoryColumns, type IonColumns, type TrajectoryColumns,
 } from './columns.js';
 import { RunFolderError } from './errors.js';
@@ -98,6 +98,13 @@ export function readHistory(dir: string): HistoryColumns | null {
   const path = join(dir, FILES.history);
   if (!existsSync(path)) return null;
   return columnsOf<HistoryColumns>(readTable(path), HISTORY_COLUMNS, path);
+}
+
+/** history_species.arrow (the history per population), or null when the run has none. */
+export function readSpeciesHistory(dir: string): SpeciesHistoryColumns | null {
+  const path = join(dir, FILES.speciesHistory);
+  if (!existsSync(path)) return null;
+  return columnsOf<SpeciesHistoryColumns>(readTable(path), SPECIES_HISTORY_COLUMNS, path);
 }
 
 /** summary.json and the ions table of a run folder. */

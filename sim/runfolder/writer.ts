@@ -10,7 +10,7 @@ import { FATE_NAMES } from '../core/batch.js';
 import { ArrowFileStream } from './arrowFile.js';
 import { CsvFileStream } from './csv.js';
 import {
-  FATES, HISTORY_COLUMNS, ION_COLUMNS, TRAJECTORY_COLUMNS,
+  FATES, HISTORY_COLUMNS, ION_COLUMNS, SPECIES_HISTORY_COLUMNS, TRAJECTORY_COLUMNS, type SpeciesHistoryColumns,
   type ColumnSpec, type HistoryColumnsInput, type IonColumnsInput, type TrajectoryColumnsInput,
 } from './columns.js';
 import { RunFolderError } from './errors.js';
@@ -28,9 +28,11 @@ export const FILES = {
   ions: 'ions.arrow',
   trajectories: 'trajectories.arrow',
   history: 'history.arrow',
+  speciesHistory: 'history_species.arrow',
   ionsCsv: 'ions.csv',
   trajectoriesCsv: 'trajectories.csv',
   historyCsv: 'history.csv',
+  speciesHistoryCsv: 'history_species.csv',
 } as const;
 
 interface Table {
@@ -125,6 +127,20 @@ export class RunFolderWriter {
     if (this.history) throw new RunFolderError(`${FILES.history}: written twice`);
     this.history = true;
     const t = this.openTable(FILES.history, FILES.historyCsv, HISTORY_COLUMNS, 'history');
+    const row = cols as unknown as Record<string, ArrayLike<unknown>>;
+    try {
+      t.arrow.append(row);
+      t.csv?.append(row);
+    } finally {
+      t.arrow.finish();
+      t.csv?.close();
+    }
+  }
+
+  /** The ensemble history per population (runs of several populations), whole. */
+  writeSpeciesHistory(cols: SpeciesHistoryColumns): void {
+    this.live();
+    const t = this.openTable(FILES.speciesHistory, FILES.speciesHistoryCsv, SPECIES_HISTORY_COLUMNS, 'species history');
     const row = cols as unknown as Record<string, ArrayLike<unknown>>;
     try {
       t.arrow.append(row);

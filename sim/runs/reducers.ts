@@ -82,7 +82,7 @@ export interface FigureBlocks { cooling?: RunSummary['cooling']; tof?: Record<st
 
 /** The figures-of-merit blocks of summary.json that the scene's kind calls for. */
 export function figureBlocks(scene: Scene, hist: ReturnType<EnsembleHistory['table']>, tally: SpeciesTally, arrivals: ArrivalTally | null,
-  totalIons: number, warnings: string[]): FigureBlocks {
+  totalIons: number, warnings: string[], species: ReturnType<EnsembleHistory['speciesTable']> = null): FigureBlocks {
   const out: FigureBlocks = {};
   const scan = scanTrap(scene) !== undefined;
   if (scene.gas || scene.stages.some((s) => s.gas)) {
@@ -97,6 +97,18 @@ export function figureBlocks(scene: Scene, hist: ReturnType<EnsembleHistory['tab
       plateau_mean_ke_ev: fit.plateau_mean_ke_ev,
       collisions_per_ion: totalIons > 0 ? tally.collisions() / totalIons : 0,
     };
+    // The same fit per species, from its own history (history_species.arrow).
+    if (species) {
+      const K = hist.t.length;
+      out.cooling.species = scene.ions.map((p, k) => {
+        const t = species.t.subarray(k * K, (k + 1) * K), ke = species.mean_ke_ev.subarray(k * K, (k + 1) * K);
+        const f = fitCooling(t, ke);
+        return {
+          population: k, mz: p.mz, tau_s: f.tau_s, initial_mean_ke_ev: f.initial_mean_ke_ev, final_mean_ke_ev: f.final_mean_ke_ev,
+          plateau_mean_ke_ev: f.plateau_mean_ke_ev, final_rms_radius_m: species.rms_radius_m[(k + 1) * K - 1],
+        };
+      });
+    }
     if (fit.tau_s === null && !scan) warnings.push('cooling: mean kinetic energy does not fall over the run; no time constant fitted');
   }
   if (arrivals && isTimeOfFlight(scene)) out.tof = tofSummary(scene, arrivals.arrivals, arrivals.energies);

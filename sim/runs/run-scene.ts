@@ -53,7 +53,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   checkOutputLimit(estimate, opts.maxOutput);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
   opts.onEstimate?.(estimate, workers);
-  const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime);
+  const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime, scene.ions.length);
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
   const tally = new SpeciesTally(scene);
   const stepTally = new StepTally();
@@ -92,7 +92,11 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
     warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
   }
   const histCols = hist.table();
-  if (!scene.spaceCharge) writer.writeHistory(histCols);
+  const speciesCols = hist.speciesTable();
+  if (!scene.spaceCharge) {
+    writer.writeHistory(histCols);
+    if (speciesCols) writer.writeSpeciesHistory(speciesCols);
+  }
   const species: SpeciesSummary[] = tally.species();
   const totals = species.reduce((a, s) => ({
     total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit,
@@ -122,7 +126,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
     },
     units: { length: 'm', time: 's', velocity: 'm/s', energy: 'eV', voltage: 'V', frequency: 'Hz', pressure: 'Pa', mass: 'kg' },
   };
-  const blocks = figureBlocks(scene, histCols, tally, arrivals, totals.total, warnings);
+  const blocks = figureBlocks(scene, histCols, tally, arrivals, totals.total, warnings, speciesCols);
   if (blocks.cooling) summary.cooling = blocks.cooling;
   if (spaceCharge) summary.space_charge = spaceCharge;
   if (blocks.tof) summary.tof = blocks.tof;

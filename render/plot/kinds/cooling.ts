@@ -2,7 +2,8 @@
 // and the exponential with the run's fitted time constant τ (summary.cooling.tau_s); below, the
 // cloud size (rms radius and rms z) against time. Data from history.arrow.
 
-import { readHistory, type RunFolder } from '../../../sim/runfolder/index.js';
+import { readHistory, readSpeciesHistory, type RunFolder } from '../../../sim/runfolder/index.js';
+import { speciesColors } from '../../common/species.js';
 import { INK, seriesColor } from '../../common/palette.js';
 import { formatWithUnit } from '../../common/ticks.js';
 import { extent } from '../axis.js';
@@ -49,7 +50,7 @@ export function exponentialWithTau(t: ArrayLike<number>, e: ArrayLike<number>, t
 
 export const cooling: PlotKind = {
   name: 'cooling',
-  describe: 'ensemble mean kinetic energy (log axis) with the fitted τ, and cloud size, against time',
+  describe: 'ensemble mean kinetic energy (log axis) with the fitted τ, and cloud size, against time; one curve per species',
   flags: {},
   async build(run: RunFolder): Promise<FigureSpec> {
     const h = readHistory(run.dir);
@@ -74,7 +75,23 @@ export const cooling: PlotKind = {
       { label: 'rms radius', color: seriesColor(4), mark: 'line' },
       { label: 'rms z', color: seriesColor(5), mark: 'line' },
     ];
-    const [s0, s1] = extent([h.rms_radius_m, h.rms_z_m]);
+    const rmsNote = 'dashed: rms radius of each species';
+    // Several species: each one's mean energy and rms radius in its colour (history_species.arrow),
+    // beside the whole cloud's; the x, y, z parts are left out there so that the curves stay legible.
+    const sh = readSpeciesHistory(run.dir);
+    const K = h.t.length;
+    const species = sh === null ? [] : [...new Set(sh.population)].map((p) => {
+      const pop = (run.summary.species ?? []).find((x) => x.population === p);
+      return { mz: pop?.mz ?? NaN, ke: sh.mean_ke_ev.subarray(p * K, (p + 1) * K), r: sh.rms_radius_m.subarray(p * K, (p + 1) * K) };
+    });
+    const colorOf = speciesColors(species.map((s) => s.mz));
+    const perSpecies = species.length > 1;
+    if (perSpecies) {
+      legend.splice(1, 3, ...species.map((s) => ({ label: `m/z ${s.mz}`, color: colorOf(s.mz), mark: 'line' as const })));
+      legend[0] = { label: 'mean kinetic energy, whole cloud', color: C.total, mark: 'line' };
+    }
+    const [s0, s1] = extent([h.rms_radius_m, h.rms_z_m, ...species.map((s) => s.r)]);
+    const [eLo, eHi] = perSpecies ? extent([h.mean_ke_ev, ...species.map((s) => s.ke)], true) : [e0, e1];
     return {
       title: figureTitle(run.summary, hasGas ? 'buffer-gas cooling' : 'ensemble energy and size'),
       subtitle: `${h.t.length} history samples; ${Math.round(h.n_alive[0])} ions alive at the start, ${Math.round(h.n_alive[h.n_alive.length - 1])} at the end${tau !== null && tau > t1 - t0 ? '; τ longer than the run: extrapolated' : ''}`,
@@ -83,11 +100,14 @@ export const cooling: PlotKind = {
       panels: [
         {
           x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
-          y: { label: 'mean kinetic energy', unit: 'eV', min: e0 / 1.3, max: e1 * 1.3, log: true },
+          y: { label: 'mean kinetic energy', unit: 'eV', min: eLo / 1.3, max: eHi * 1.3, log: true },
           draw: (ctx, g) => {
-            polyline(ctx, g, h.t, h.mean_ke_x_ev, C.x, 1);
-            polyline(ctx, g, h.t, h.mean_ke_y_ev, C.y, 1);
-            polyline(ctx, g, h.t, h.mean_ke_z_ev, C.z, 1);
+            if (perSpecies) for (const s of species) polyline(ctx, g, h.t, s.ke, colorOf(s.mz), 1.3);
+            else {
+              polyline(ctx, g, h.t, h.mean_ke_x_ev, C.x, 1);
+              polyline(ctx, g, h.t, h.mean_ke_y_ev, C.y, 1);
+              polyline(ctx, g, h.t, h.mean_ke_z_ev, C.z, 1);
+            }
             polyline(ctx, g, h.t, h.mean_ke_ev, C.total, 2.2);
             if (fitCurve) polyline(ctx, g, h.t, fitCurve, C.fit, 1.5, [7, 4]);
             if (tau !== null && tau >= t0 && tau <= t1) {
@@ -103,9 +123,11 @@ export const cooling: PlotKind = {
           x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
           y: { label: 'cloud size', unit: 'm', min: Math.min(0, s0), max: s1 },
           draw: (ctx, g) => {
+            if (perSpecies) for (const s of species) polyline(ctx, g, h.t, s.r, colorOf(s.mz), 1.1, [5, 3]);
             polyline(ctx, g, h.t, h.rms_radius_m, seriesColor(4), 2);
             polyline(ctx, g, h.t, h.rms_z_m, seriesColor(5), 2);
           },
+          note: perSpecies ? rmsNote : undefined,
         },
       ],
       footer: footerText(run.summary, run.dir),
