@@ -7,6 +7,7 @@ import { UsageError } from '../errors.js';
 import { parseQuantity, formatSI } from '../../sim/units/quantity.js';
 import { analyzeOperatingPoint, type OperatingPointReport, type AxisReport } from '../../sim/mathieu/operating-point.js';
 import type { Analyzer, OperatingPoint } from '../../sim/mathieu/parameters.js';
+import { multipoleFigures } from '../../sim/mathieu/multipole.js';
 
 export const describe = 'Mathieu a/q, stability, β, secular frequencies and m/z limits of an operating point';
 
@@ -29,6 +30,10 @@ function help(): string {
     '  --rf-max    largest RF amplitude of the supply: reports the highest m/z reachable',
     '  --qeject    trap cut-off q_z for the low-mass cut-off; default 0.908',
     '  --json      one JSON object (an array for several m/z), SI units',
+    '',
+    'usage: iontrail check --analyzer multipole --poles 8 --r0 2mm --freq 5MHz --rf 200V --mz 100 [--radius 1mm] [--charge 1] [--json]',
+    '  RF-only multipole of 2n rods (Gerlich 1992): effective potential V*(r) at --radius (default r0) and',
+    '  at r0, the adiabaticity parameter η there and the radius where η reaches 0.3',
     '',
   ].join('\n');
 }
@@ -58,7 +63,7 @@ export function parseCheckArgs(argv: string[]): CheckInput {
   const analyzerText = requireFlag(args, 'analyzer', 'check', 'quadrupole');
   if (!(ANALYZERS as readonly string[]).includes(analyzerText)) {
     const hint = closest(analyzerText, ANALYZERS);
-    throw new UsageError(`check: --analyzer expects quadrupole or trap, got '${analyzerText}'${hint ? ` (did you mean '${hint}'?)` : ''}`);
+    throw new UsageError(`check: --analyzer expects quadrupole, trap or multipole, got '${analyzerText}'${hint ? ` (did you mean '${hint}'?)` : ''}`);
   }
   const analyzer = analyzerText as Analyzer;
   const r0 = positive(requireFlag(args, 'r0', 'check', analyzer === 'trap' ? '7.07mm' : '4mm'), 'length', 'r0');
@@ -201,6 +206,7 @@ export async function run(argv: string[]): Promise<number> {
     process.stdout.write(help());
     return 0;
   }
+  if (multipoleRequested(argv)) return runMultipole(argv);
   const input = parseCheckArgs(argv);
   const reports = input.mzList.map((mz) =>
     analyzeOperatingPoint({ ...input.base, mz, charge: input.charge }, { rfMax: input.rfMax, qEject: input.qEject }));
@@ -211,5 +217,49 @@ export async function run(argv: string[]): Promise<number> {
     const blocks = reports.map((r) => checkLines(r).join('\n'));
     process.stdout.write(blocks.join('\n\n') + '\n' + SAFETY + '\n');
   }
+  return 0;
+}
+
+/** `--analyzer multipole` (either spelling of the flag). */
+function multipoleRequested(argv: string[]): boolean {
+  const i = argv.indexOf('--analyzer');
+  return (i >= 0 && argv[i + 1] === 'multipole') || argv.includes('--analyzer=multipole');
+}
+
+/** RF-only multipoles: Gerlich's effective potential and adiabaticity (sim/mathieu/multipole.ts). */
+function runMultipole(argv: string[]): number {
+  const args = parseArgs(argv, { values: ['analyzer', 'poles', 'r0', 'freq', 'rf', 'mz', 'charge', 'radius'], switches: ['json', 'help'] }, 'check');
+  if (args.positional.length > 0) throw new UsageError(`check: unexpected argument '${args.positional[0]}'`);
+  const polesText = requireFlag(args, 'poles', 'check', '8');
+  const poles = /^\d+$/.test(polesText.trim()) ? Number(polesText) : NaN;
+  if (!(poles >= 4 && poles % 2 === 0)) throw new UsageError(`check: --poles expects an even number of rods, 4 or more (4, 6, 8, ...), got '${polesText}'`);
+  const r0 = positive(requireFlag(args, 'r0', 'check', '2mm'), 'length', 'r0');
+  const freq = positive(requireFlag(args, 'freq', 'check', '5MHz'), 'frequency', 'freq');
+  const rf = positive(requireFlag(args, 'rf', 'check', '200V'), 'voltage', 'rf');
+  const mzText = requireFlag(args, 'mz', 'check', '100');
+  const mz = Number(mzText);
+  if (!(mz > 0) || !Number.isFinite(mz)) throw new UsageError(`check: --mz expects a positive m/z such as 100, got '${mzText}'`);
+  const chargeText = flag(args, 'charge') ?? '1';
+  if (!/^[+-]?\d+$/.test(chargeText.trim()) || Number(chargeText) === 0) throw new UsageError(`check: --charge expects a non-zero whole number, got '${chargeText}'`);
+  const radiusText = flag(args, 'radius');
+  const radius = radiusText === undefined ? r0 : positive(radiusText, 'length', 'radius');
+  if (radius > r0) throw new UsageError(`check: --radius ${radiusText} lies beyond the rods' inscribed radius r0`);
+  const r = multipoleFigures({ poles, r0, freq, rf, mz, charge: Number(chargeText), radius });
+  if (args.switches.has('json')) {
+    process.stdout.write(JSON.stringify({ analyzer: 'multipole', mz, charge: Number(chargeText), r0_m: r0, freq_hz: freq, rf_v: rf, ...r }, null, 2) + '\n');
+    return 0;
+  }
+  const mm = (v: number) => `${(v * 1e3).toPrecision(4)} mm`;
+  const lines = [
+    `${poles}-pole RF guide, r0 ${mm(r0)}, f ${formatSI(freq, 'Hz')}, V ${formatSI(rf, 'V')} (0-peak), m/z ${mz}`,
+    `  effective potential V*(${mm(radius)}) = ${r.effective_potential_ev.toPrecision(4)} eV; depth at r0 ${r.depth_at_r0_ev.toPrecision(4)} eV (Gerlich 1992)`,
+    `  adiabaticity η = ${r.eta_at_radius.toPrecision(3)} at ${mm(radius)}, ${r.eta_at_r0.toPrecision(3)} at r0`,
+    r.n === 2
+      ? `  quadrupole: η is the same at every radius (the Mathieu q); η < ${r.eta_limit} ${r.eta_at_r0 < r.eta_limit ? 'holds' : 'does not hold'}`
+      : r.eta_limit_radius_m === null
+        ? `  η stays below ${r.eta_limit} inside r0: the effective potential holds out to the rods`
+        : `  η reaches ${r.eta_limit} at r = ${mm(r.eta_limit_radius_m)}: beyond it the effective potential does not hold`,
+  ];
+  process.stdout.write(lines.join('\n') + '\n' + SAFETY + '\n');
   return 0;
 }
