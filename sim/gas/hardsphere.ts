@@ -38,6 +38,7 @@ import { uniformAt } from '../random/counter.js';
 import { checkGasSpec, GasSpecError, type GasSpec, type GasStep } from './model.js';
 import { numberDensity } from './mobility.js';
 import { GasScratchTable, type GasScratch } from './scratch.js';
+import type { HardSphereKernel } from '../core/cursor.js';
 
 /** Uniforms consumed per candidate collision (fixed, so counters stay easy to audit). */
 export const DRAWS_PER_CANDIDATE = 9;
@@ -48,7 +49,6 @@ const STRIDE = 4;
 
 /** The kernel pieces' contract lives with the other stepping types (sim/core/cursor.ts). */
 export type { HardSphereKernel } from '../core/cursor.js';
-import type { HardSphereKernel } from '../core/cursor.js';
 
 export function makeHardSphereStep(gas: GasSpec, seed: number): GasStep {
   return makeHardSphereKernel(gas, seed).step;

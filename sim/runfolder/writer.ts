@@ -126,21 +126,18 @@ export class RunFolderWriter {
     this.live();
     if (this.history) throw new RunFolderError(`${FILES.history}: written twice`);
     this.history = true;
-    const t = this.openTable(FILES.history, FILES.historyCsv, HISTORY_COLUMNS, 'history');
-    const row = cols as unknown as Record<string, ArrayLike<unknown>>;
-    try {
-      t.arrow.append(row);
-      t.csv?.append(row);
-    } finally {
-      t.arrow.finish();
-      t.csv?.close();
-    }
+    this.writeWhole(FILES.history, FILES.historyCsv, HISTORY_COLUMNS, 'history', cols);
   }
 
   /** The ensemble history per population (runs of several populations), whole. */
   writeSpeciesHistory(cols: SpeciesHistoryColumns): void {
     this.live();
-    const t = this.openTable(FILES.speciesHistory, FILES.speciesHistoryCsv, SPECIES_HISTORY_COLUMNS, 'species history');
+    this.writeWhole(FILES.speciesHistory, FILES.speciesHistoryCsv, SPECIES_HISTORY_COLUMNS, 'species history', cols);
+  }
+
+  /** A table written in one piece and closed. */
+  private writeWhole(file: string, csvFile: string, specs: readonly ColumnSpec[], table: string, cols: object): void {
+    const t = this.openTable(file, csvFile, specs, table);
     const row = cols as unknown as Record<string, ArrayLike<unknown>>;
     try {
       t.arrow.append(row);
