@@ -5,7 +5,7 @@
 
 export const FLOORS: readonly { floor: number; name: string; paths: readonly string[] }[] = [
   { floor: 0, name: 'ground: core types, units, random streams, integrators, Mathieu', paths: ['sim/core/', 'sim/units/', 'sim/random/', 'sim/integrate/', 'sim/mathieu/', 'sim/version.ts'] },
-  { floor: 1, name: 'physics models and file formats', paths: ['sim/gas/', 'sim/spacecharge/', 'sim/runfolder/', 'sim/scene/schema.ts', 'sim/scene/gas.ts'] },
+  { floor: 1, name: 'physics models and file formats', paths: ['sim/fields/', 'sim/gas/', 'sim/spacecharge/', 'sim/runfolder/', 'sim/scene/schema.ts', 'sim/scene/gas.ts'] },
   { floor: 2, name: 'stage kinds', paths: ['sim/stages/', 'sim/scene/fields.ts'] },
   { floor: 3, name: 'loader, engine and the linear fast path beside it', paths: ['sim/scene/', 'sim/engine/', 'sim/fastpath/'] },
   { floor: 4, name: 'figures of merit', paths: ['sim/analysis/'] },
