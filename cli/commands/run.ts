@@ -4,12 +4,13 @@ import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
+import { parseShard } from '../../sim/runs/shard.js';
 import { progressBar } from '../progress.js';
 import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 
 export const describe = 'integrate the ions of a scene file and write a run folder';
 
-const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force] [--csv] [--json]';
+const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--force] [--csv] [--json]';
 
 const HELP = `${USAGE}
 
@@ -23,6 +24,8 @@ Integrates every ion of the scene and writes the run folder DIR:
   --seed N           replace the scene's seed
   --workers N        worker threads (default: all cores; results do not depend on it)
   --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
+  --shard I/N        run only slice I (0-based) of N, whole batches of ions, into a part folder
+                     (with shard.json); \`iontrail merge\` joins the N parts into this run's bytes
 ${maxOutputHelp()}
   --force            replace an existing DIR (the old one is removed only once the new one is complete)
   --csv              also write ions.csv, history.csv and trajectories.csv
@@ -41,7 +44,7 @@ export function parseCount(text: string | undefined, what: string, min: number):
 
 /** The flags `iontrail run` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
-  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  values: ['out', 'seed', 'workers', 'set', 'max-output', 'shard'],
   switches: ['force', 'json', 'csv', 'help'],
   repeatable: ['set'],
   aliases: { o: 'out', h: 'help' },
@@ -57,12 +60,16 @@ export async function run(argv: string[]): Promise<number> {
   const seed = parseCount(flag(a, 'seed'), '--seed', 0);
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
   const limit = maxOutput(a);
-  const { scene } = loadSceneFile(file, { set: a.values.get('set') ?? [], seed });
+  const set = a.values.get('set') ?? [];
+  const shardText = flag(a, 'shard');
+  const spec = shardText === undefined ? undefined : parseShard(shardText);
+  const { scene, text } = loadSceneFile(file, { set, seed });
   const bar = progressBar('run');
   const summary = await runScene(scene, {
     out, force: a.switches.has('force'), csv: a.switches.has('csv'), workers, sceneFile: file,
     commandLine: ['iontrail', 'run', ...argv].join(' '), progress: bar.update, handleSigint: true,
     maxOutput: limit, onEstimate: printEstimate(),
+    shard: spec && { spec, source: { text, file, set, seed: seed ?? null } },
   });
   bar.end();
   for (const w of summary.warnings) process.stderr.write(`warning: ${w}\n`);

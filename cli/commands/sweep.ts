@@ -12,11 +12,14 @@ import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '..
 import { checkSweepFolder, writeSweepFolder } from '../../sim/sweeps/sweep-folder.js';
 import { parseCount } from './run.js';
 import { finiteOrNull } from '../../sim/core/json.js';
+import { parseShard, type ShardSpec } from '../../sim/runs/shard.js';
+import { runSweepShard } from '../../sim/sweeps/shard-sweep.js';
+import type { SweepPlan } from '../../sim/sweeps/sweep.js';
 
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
 
 const USAGE = 'usage: iontrail sweep SCENE.yaml --vary KEY=A..B:N [--vary KEY=A..B:N] -o DIR [--scan-lines A..B:N] '
-  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force] [--json]';
+  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--force] [--json]';
 
 const HELP = `${USAGE}
 
@@ -39,6 +42,8 @@ Runs the scene at every point of one or two varied keys and writes DIR:
   --seed N                 replace the scene's seed
   --workers N              worker threads for integrated points (default: all cores)
   --set key=value          override a scene value at every point, e.g. --set stages.0.dc=42V (repeatable)
+  --shard I/N              run only slice I (0-based) of N of the points (point × ion ranges when N exceeds
+                           the points) into a part folder; \`iontrail merge\` joins the parts into this sweep's bytes
 ${maxOutputHelp(27)}
                            (--collect writes each point's run folder to a temporary folder)
   --force                  replace an existing DIR (the old one is removed only once the new one is complete)
@@ -51,7 +56,7 @@ summary.json says "complete": false, and the exit code is 130 (SIGINT) or 143 (S
 
 /** The flags `iontrail sweep` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
-  values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output'],
+  values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output', 'shard'],
   switches: ['force', 'json', 'help'],
   repeatable: ['set', 'vary'],
   aliases: { o: 'out', h: 'help' },
@@ -97,6 +102,8 @@ export async function run(argv: string[]): Promise<number> {
     printEstimate('per point: ')(e, plan.workers);
     process.stderr.write(`estimate: ${plan.tasks.length} points, ${aboutDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
   }
+  const shardText = flag(a, 'shard');
+  if (shardText !== undefined) return runShard(plan, parseShard(shardText), out, force, commandLine, a.switches.has('json'));
   const total = plan.tasks.length;
   let done = 0;
   const offSignals = onStopSignal((sig) => { stoppedBy = sig; });
@@ -151,4 +158,20 @@ export function ionCount(totals: number[]): string {
   for (const t of totals) { if (t < lo) lo = t; if (t > hi) hi = t; }
   if (totals.length === 0) return '0';
   return lo === hi ? String(lo) : `${lo}–${hi}`;
+}
+
+/** One shard of the sweep into a part folder (sim/sweeps/shard-sweep.ts). */
+async function runShard(plan: SweepPlan, spec: ShardSpec, out: string, force: boolean, commandLine: string, json: boolean): Promise<number> {
+  let stoppedBy: string | null = null;
+  plan.req.stopped = () => stoppedBy !== null;
+  const offSignals = onStopSignal((sig) => { stoppedBy = sig; });
+  let r;
+  try {
+    r = await runSweepShard(plan, spec, out, { force, commandLine });
+  } finally {
+    offSignals();
+  }
+  const line = `shard ${spec.index}/${spec.count}: ${r.pieces} pieces in ${out}${r.complete ? '' : '  (INCOMPLETE: interrupted)'}`;
+  process.stdout.write(json ? JSON.stringify({ shard: spec, pieces: r.pieces, complete: r.complete, out }) + '\n' : `${plan.base.name}\n  ${line}\n`);
+  return r.complete ? 0 : interruptedExitCode();
 }

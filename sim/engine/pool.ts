@@ -13,6 +13,9 @@ export interface PoolOptions {
   onResult: (r: BatchResult) => void;
   /** Polled between batches: true stops dispatching (Ctrl-C). */
   stopped: () => boolean;
+  /** Only batches first..end−1 (a shard's slice; default all). */
+  first?: number;
+  end?: number;
 }
 
 /** The message of one batch (worker.ts). */
@@ -23,7 +26,8 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
   // The main thread computes too: --workers N means N computing threads, N − 1 of them workers.
   // Each worker keeps two batches queued so it never waits for the main thread to feed it.
   // With one thread (or one batch) no worker starts and this thread runs every batch.
-  const n = Math.max(0, Math.min(opts.workers, plan.count) - 1);
+  const first = opts.first ?? 0, count = (opts.end ?? plan.count) - first;
+  const n = Math.max(0, Math.min(opts.workers, count) - 1);
   const exec = new Executor<BatchTask, BatchResult>({
     workers: n, script: n > 0 ? workerScript(new URL('./worker.js', import.meta.url)) : undefined,
     workerData: () => ({ scene }), inflight: 2,
@@ -31,9 +35,9 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
   const gas = gasFactory(scene);
   try {
     return await exec.runOrdered({
-      count: plan.count,
-      task: (b) => {
-        const start = b * plan.size;
+      count,
+      task: (k) => {
+        const b = first + k, start = b * plan.size;
         return { batch: b, start, count: Math.min(plan.size, plan.total - start) };
       },
       here: ({ batch, start, count }) => trackBatch(scene, batch, start, count, gas),

@@ -30,6 +30,6 @@ export {
 export { formatSummary, type RunSummary, type SpeciesSummary, type RunProvenance } from './summary.js';
 export { RunFolderWriter, FILES, type RunFolderWriterOptions } from './writer.js';
 export {
-  readRunFolder, readSummary, readIons, readHistory, readSpeciesHistory, readTrajectories, trajectoryBatches, ionSegments, estimateTrajectoryRows,
+  readRunFolder, readSummary, readIons, tableBatches, readHistory, readSpeciesHistory, readTrajectories, trajectoryBatches, ionSegments, estimateTrajectoryRows,
   TrajectoryFile, type RunFolder, type TrajectorySelection,
 } from './reader.js';

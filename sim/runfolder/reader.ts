@@ -209,6 +209,35 @@ export async function* trajectoryBatches(dir: string): AsyncGenerator<Trajectory
   }
 }
 
+/**
+ * Every record batch of any Arrow IPC file of the folder in order, one at a time, as columns of
+ * `specs` (utf8 as string arrays): a merge streams tables of any size through it.
+ */
+export async function* tableBatches<T>(path: string, specs: readonly ColumnSpec[]): AsyncGenerator<T> {
+  if (!existsSync(path)) throw new RunFolderError(`${path}: missing`);
+  const handle = await open(path, 'r');
+  try {
+    const { size } = await handle.stat();
+    const head = new Uint8Array(6), tail = new Uint8Array(6);
+    await handle.read(head, 0, 6, 0);
+    await handle.read(tail, 0, 6, Math.max(0, size - 6));
+    checkMagic(path, head, tail, size);
+    const reader = await openReader(handle, path);
+    for (let i = 0; i < reader.numRecordBatches; i++) {
+      let b: RecordBatch | null;
+      try {
+        b = await reader.readRecordBatch(i);
+      } catch (err) {
+        throw new RunFolderError(`${path}: batch ${i} unreadable (${firstLine(err)})`);
+      }
+      if (b === null) throw new RunFolderError(`${path}: batch ${i} missing`);
+      yield columnsOf<T>(b as unknown as Table, specs, path);
+    }
+  } finally {
+    await handle.close();
+  }
+}
+
 export interface TrajectorySelection {
   /** Only these ions (any order; output stays in ion order). */
   ions?: readonly number[];

@@ -44,6 +44,8 @@ export class RunFolderWriter {
   private ions: Table;
   private trajectories: Table | null = null;
   private history = false;
+  /** Tables beside the run-folder ones (a shard part's per-batch sums), closed by finish(). */
+  private extras: ArrowFileStream[] = [];
   private lastIon = -1;
   private lastTrajectoryIon = -1;
   private done = false;
@@ -148,6 +150,21 @@ export class RunFolderWriter {
     }
   }
 
+  /** A further Arrow table in the folder, streamed like the others (a shard part's own files). */
+  extraTable(file: string, specs: readonly ColumnSpec[], table: string): ArrowFileStream {
+    this.live();
+    const t = new ArrowFileStream(join(this.tempDir, file), specs, table);
+    this.extras.push(t);
+    return t;
+  }
+
+  /** A further small file, written as the folder goes into place (a shard part's manifest). */
+  extraFile(file: string, text: string): void {
+    this.live();
+    this.extraText.push([file, text]);
+  }
+  private extraText: [string, string][] = [];
+
   /** Write summary.json, close the tables and put the folder in place at `dir`. */
   async finish(summary: RunSummary): Promise<void> {
     this.live();
@@ -158,6 +175,8 @@ export class RunFolderWriter {
         t.arrow.finish();
         t.csv?.close();
       }
+      for (const t of this.extras) t.finish();
+      for (const [file, text] of this.extraText) writeFileSync(join(this.tempDir, file), text);
       writeFileSync(join(this.tempDir, FILES.summary), formatSummary(summary));
       if (!swapFolderIntoPlace(this.tempDir, this.dir, this.options.force ?? false)) {
         throw new RunFolderError(`${this.dir}: already exists (give --force to replace it)`);
@@ -178,6 +197,7 @@ export class RunFolderWriter {
       t.arrow.discard();
       t.csv?.close();
     }
+    for (const t of this.extras) t.discard();
     this.removeTemp();
   }
 

@@ -7,21 +7,19 @@
 import { availableParallelism } from 'node:os';
 import type { Scene } from '../scene/types.js';
 import { RunFolderWriter } from '../runfolder/writer.js';
-import type { RunSummary, SpeciesSummary } from '../runfolder/summary.js';
+import type { RunSummary } from '../runfolder/summary.js';
+import type { ColumnSpec } from '../runfolder/columns.js';
 import { TOOL_VERSION } from '../version.js';
-import { finiteOrNull } from '../core/json.js';
 import { planBatches } from '../engine/batches.js';
 import { runBatches } from '../engine/pool.js';
-import { EnsembleHistory } from '../engine/history.js';
 import type { BatchResult } from '../engine/track.js';
-import { isElectrostatic } from '../engine/potential.js';
-import { ArrivalTally, figureBlocks, needsArrivals, SpeciesTally, StepTally, type BatchReducer } from './reducers.js';
 import { checkCoupledScene, runCoupled } from '../engine/run-coupled.js';
-import { detectorOf } from '../scene/detector.js';
 import { checkIntegrator, checkStartsInside, sceneWarnings } from '../engine/checks.js';
 import { checkOutputLimit, estimateRun, type RunEstimate } from './estimate.js';
 import { onStopSignal } from './stop-signals.js';
-export { checkIntegrator, checkStartsInside, sceneWarnings };
+import { runSummary, runTallies, sceneForJson } from './run-summary.js';
+import { HISTORY_BATCHES_FILE, SHARD_FILE, SHARD_FORMAT, ShardError, sceneHash, sliceRange, type SceneSource, type ShardSpec } from './shard.js';
+export { checkIntegrator, checkStartsInside, sceneWarnings, sceneForJson };
 
 export interface RunOptions {
   out: string;
@@ -38,7 +36,12 @@ export interface RunOptions {
   maxOutput?: number;
   /** Told the run's estimate once the run folder is started, before the first batch (the CLI prints it). */
   onEstimate?: (e: RunEstimate, workers: number) => void;
+  /** Run only shard I of N (a slice of the batches) into a part folder for `iontrail merge`. */
+  shard?: { spec: ShardSpec; source: SceneSource };
 }
+
+/** A run part's per-batch history sums (history_batches.arrow). */
+export const HISTORY_BATCH_COLUMNS: readonly ColumnSpec[] = [{ name: 'batch', kind: 'int32' }, { name: 'sum', kind: 'float64' }];
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
   checkStartsInside(scene);
@@ -47,18 +50,24 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const started = new Date();
   const t0 = performance.now();
   const plan = planBatches(scene);
+  let batches: [number, number] = [0, plan.count];
+  if (opts.shard) {
+    if (scene.spaceCharge) throw new ShardError('--shard: space charge couples every ion of the run, so it cannot be cut into shards');
+    batches = sliceRange(opts.shard.spec, plan.count, `the run has ${plan.count} batches of ${plan.size} ions and a shard holds whole batches`);
+  }
+  const ions: [number, number] = [batches[0] * plan.size, Math.min(plan.total, batches[1] * plan.size)];
+  const total = ions[1] - ions[0];
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
   const estimate = estimateRun(scene, { csv: opts.csv });
-  checkOutputLimit(estimate, opts.maxOutput);
+  // A part writes its slice only: the limit applies to that share of the run's output.
+  checkOutputLimit(opts.shard ? { ...estimate, output_bytes: Math.round(estimate.output_bytes * (total / Math.max(1, plan.total))) } : estimate, opts.maxOutput);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
   opts.onEstimate?.(estimate, workers);
-  const hist = new EnsembleHistory(scene.run.historyEvery, scene.run.maxTime, scene.ions.length);
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
-  const tally = new SpeciesTally(scene);
-  const stepTally = new StepTally();
-  const arrivals = needsArrivals(scene) ? new ArrivalTally(scene) : null;
-  const reducers: BatchReducer[] = arrivals ? [tally, stepTally, arrivals] : [tally, stepTally];
+  const t = runTallies(scene);
+  // A part keeps each batch's history sums: the merge adds them in batch order, as a run does.
+  const historyBatches = opts.shard ? writer.extraTable(HISTORY_BATCHES_FILE, HISTORY_BATCH_COLUMNS, 'history batches') : null;
   let done = 0;
   let stop = false;
   let stoppedBy = 'a stop request';
@@ -67,10 +76,11 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const onResult = (r: BatchResult) => {
         writer.appendIons(r);
         if (r.trajectory && r.trajectory.length > 0) writer.appendTrajectory(splitPoints(r.trajectory));
-        hist.merge(r.history);
-        for (const red of reducers) red.add(r);
+        t.hist.merge(r.history);
+        if (historyBatches && r.history.length > 0) historyBatches.append({ batch: new Int32Array(r.history.length).fill(r.batch), sum: r.history });
+        for (const red of t.reducers) red.add(r);
         done += r.count;
-        opts.progress?.(done, plan.total);
+        opts.progress?.(done, total);
   };
   try {
     if (scene.spaceCharge) {
@@ -78,59 +88,31 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       spaceCharge = c.figures;
       onResult(c.result);
     } else {
-      await runBatches(scene, plan, { workers, stopped: () => stop, onResult });
+      await runBatches(scene, plan, { workers, stopped: () => stop, onResult, first: batches[0], end: batches[1] });
     }
   } catch (e) {
     offSignals?.();
     await writer.abort();
     throw e;
   }
-  const complete = done === plan.total;
-  if (!complete) warnings.push(`interrupted (${stoppedBy}): ${done} of ${plan.total} ions finished; the tables hold those only`);
-  const { steps, energyError } = stepTally;
-  if (isElectrostatic(scene) && energyError > 1e-6) {
-    warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
-  }
-  const histCols = hist.table();
-  const speciesCols = hist.speciesTable();
+  const { summary, histCols, speciesCols } = runSummary(scene, t, {
+    done, total, stoppedBy, warnings, workers, started, wallS: (performance.now() - t0) / 1000, estimate,
+    batchSize: plan.size, sceneFile: opts.sceneFile ?? null, commandLine: opts.commandLine ?? '', spaceCharge,
+  });
   if (!scene.spaceCharge) {
     writer.writeHistory(histCols);
     if (speciesCols) writer.writeSpeciesHistory(speciesCols);
   }
-  const species: SpeciesSummary[] = tally.species();
-  const totals = species.reduce((a, s) => ({
-    total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit,
-    missed: a.missed + (s.missed ?? 0), returned: a.returned + (s.returned ?? 0), alive: a.alive + s.alive,
-  }), { total: 0, detected: 0, hit: 0, missed: 0, returned: 0, alive: 0 });
-  const det = detectorOf(scene);
-  const summary: RunSummary = {
-    complete,
-    scene_name: scene.name,
-    ions: totals,
-    detector: { radius_m: Number.isFinite(det.radius) ? det.radius : null, source: det.source },
-    species,
-    stats: { steps, wall_s: (performance.now() - t0) / 1000, ion_steps_per_s: steps / Math.max(1e-9, (performance.now() - t0) / 1000), max_energy_error: energyError },
-    warnings,
-    provenance: {
-      tool_version: TOOL_VERSION,
-      scene: sceneForJson(scene),
-      scene_file: opts.sceneFile ?? null,
-      seed: scene.seed,
-      command_line: opts.commandLine ?? '',
-      // Only the settings that apply: a tolerance exists for the adaptive method alone.
-      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, ...(scene.run.integrator === 'dopri5' && !scene.spaceCharge ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
-      workers,
-      started_at: started.toISOString(),
-      batch_size: plan.size,
-      estimate,
-    },
-    units: { length: 'm', time: 's', velocity: 'm/s', energy: 'eV', voltage: 'V', frequency: 'Hz', pressure: 'Pa', mass: 'kg' },
-  };
-  const blocks = figureBlocks(scene, histCols, tally, arrivals, totals.total, warnings, speciesCols);
-  if (blocks.cooling) summary.cooling = blocks.cooling;
-  if (spaceCharge) summary.space_charge = spaceCharge;
-  if (blocks.tof) summary.tof = blocks.tof;
-  if (blocks.scan) summary.scan = blocks.scan;
+  if (opts.shard) {
+    const shard = { index: opts.shard.spec.index, count: opts.shard.spec.count, batches, ions };
+    summary.provenance.shard = shard;
+    writer.extraFile(SHARD_FILE, JSON.stringify({
+      format: SHARD_FORMAT, kind: 'run', tool_version: TOOL_VERSION, scene_sha256: sceneHash(scene), seed: scene.seed,
+      shard: opts.shard.spec, units: { total: plan.count, from: batches[0], to: batches[1], unit: 'batches' }, ions,
+      complete: summary.complete, wall_s: summary.stats.wall_s, workers, started_at: started.toISOString(),
+      steps: t.stepTally.steps, energy_error: t.stepTally.energyError, csv: opts.csv ?? false, source: opts.shard.source,
+    }, null, 2) + '\n');
+  }
   try {
     // A signal from here on waits for the folder to be in place (it has nothing left to stop).
     await writer.finish(summary);
@@ -150,9 +132,4 @@ function splitPoints(d: Float64Array) {
     for (let c = 0; c < 7; c++) cols[c][k] = d[o + 1 + c];
   }
   return { ion, t: cols[0], x: cols[1], y: cols[2], z: cols[3], vx: cols[4], vy: cols[5], vz: cols[6] };
-}
-
-/** The resolved scene as JSON-safe data (Infinity → null). */
-export function sceneForJson(scene: Scene): unknown {
-  return JSON.parse(JSON.stringify(scene, finiteOrNull));
 }

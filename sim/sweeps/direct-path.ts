@@ -34,17 +34,19 @@ export class DirectPool {
 
   constructor(readonly threads: number) {}
 
-  /** Detected ions of one point (all its ions, in engine batches). */
-  async count(scene: Scene): Promise<number> {
+  /** Detected ions of one point (all its ions, or from..to−1 only, in engine-sized batches). */
+  async count(scene: Scene, from = 0, to?: number): Promise<number> {
     const plan = planBatches(scene);
-    const local = this.threads <= 1 || plan.count <= 1;
+    const end = to ?? plan.total;
+    const count = Math.ceil((end - from) / plan.size);
+    const local = this.threads <= 1 || count <= 1;
     if (!local) this.exec ??= new Executor({ workers: this.threads, script: workerScript(new URL('./sweep-worker.js', import.meta.url)) });
     let d = 0;
     await (local ? new Executor<PointBatch, number>({ workers: 0 }) : this.exec!).runOrdered({
-      count: plan.count,
+      count,
       task: (b) => {
-        const start = b * plan.size;
-        return { scene, start, count: Math.min(plan.size, plan.total - start) };
+        const start = from + b * plan.size;
+        return { scene, start, count: Math.min(plan.size, end - start) };
       },
       here: local ? (t) => directCounts(t.scene, t.start, t.count) : undefined,
       onResult: (r) => { d += r; },

@@ -16,7 +16,7 @@ export function checkSweepFolder(dir: string, force: boolean): void {
   if (existsSync(target) && !force) throw new SweepError(`${dir}: already exists (give --force to replace it)`);
 }
 
-export function writeSweepFolder(dir: string, r: SweepResult, opts: { force?: boolean; commandLine?: string } = {}): void {
+export function writeSweepFolder(dir: string, r: SweepResult, opts: { force?: boolean; commandLine?: string; provenance?: Record<string, unknown> } = {}): void {
   checkSweepFolder(dir, opts.force ?? false);
   const target = resolve(dir);
   const temp = folderBeside(target);
@@ -25,7 +25,7 @@ export function writeSweepFolder(dir: string, r: SweepResult, opts: { force?: bo
     const lines = scanLinesCsv(r), pts = scanLinePointsCsv(r);
     if (lines !== null) writeFileSync(join(temp, SWEEP_FILES.scanLines), lines);
     if (pts !== null) writeFileSync(join(temp, SWEEP_FILES.scanLinePoints), pts);
-    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine }), finiteOrNull, 2) + '\n');
+    writeFileSync(join(temp, SWEEP_FILES.summary), JSON.stringify(sweepSummary(r, { commandLine: opts.commandLine, provenance: opts.provenance }), finiteOrNull, 2) + '\n');
     swapFolderIntoPlace(temp, target, true); // an existing DIR was allowed (force) by checkSweepFolder
   } catch (e) {
     rmSync(temp, { recursive: true, force: true });

@@ -192,13 +192,27 @@ function gridTasks(axes: SweepAxis[], line: number, extra: string[]): SweepTask[
  * Fewer come back when the request's `stopped` said stop (the points before it are whole).
  */
 export async function runPointRange(plan: SweepPlan, from: number, to: number, tick: () => void = () => {}): Promise<SweepPoint[]> {
+  const pieces: SweepPiece[] = [];
+  for (let k = from; k < to; k++) pieces.push({ task: k });
+  return runPieces(plan, pieces, tick);
+}
+
+/** A point of the plan, or only its ions from..to−1 (a shard's piece of a point). */
+export interface SweepPiece { task: number; ions?: [number, number] }
+
+/**
+ * Run pieces of the plan in order (one runner: its workers and fast-path state serve them all).
+ * A piece with an ion range counts those ions only (total and detected of the range): counts are
+ * integers, so the pieces of a point add up to the whole point exactly.
+ */
+export async function runPieces(plan: SweepPlan, pieces: SweepPiece[], tick: () => void = () => {}): Promise<SweepPoint[]> {
   const runner = new PointRunner(plan.collect.length > 0 ? 'direct' : plan.requested, plan.workers, plan.collect, plan.req.maxOutput);
   const out: SweepPoint[] = [];
   try {
-    for (let k = from; k < to; k++) {
+    for (const piece of pieces) {
       if (plan.req.stopped?.()) break;
-      const t = plan.tasks[k];
-      const r = await runner.run(plan.scenes.scene(plan.axes, t.idx, t.extra));
+      const t = plan.tasks[piece.task];
+      const r = await runner.run(plan.scenes.scene(plan.axes, t.idx, t.extra), piece.ions);
       out.push({ values: t.idx.map((i, a) => plan.axes[a].values[i]), ...r });
       tick();
     }
@@ -337,22 +351,25 @@ class PointRunner {
     }
   }
 
-  async run(scene: Scene): Promise<{ total: number; detected: number; transmission: number; method: PointMethod; figures?: (number | null)[] }> {
+  /** The point, or its ions range[0]..range[1]−1 only (total and detected of the range). */
+  async run(scene: Scene, range?: [number, number]): Promise<{ total: number; detected: number; transmission: number; method: PointMethod; figures?: (number | null)[] }> {
     const { method, reason } = pointMethod(scene, this.requested);
-    const total = scene.ions.reduce((a, p) => a + p.count, 0);
+    const all = scene.ions.reduce((a, p) => a + p.count, 0);
+    const [from, to] = range ?? [0, all];
+    const total = to - from;
     if (this.collect.length > 0) return this.full(scene, total);
     let detected: number;
     if (method === 'matrix') {
-      detected = this.matrix(scene, total);
+      detected = this.matrix(scene, all, from, to);
     } else {
       this.directBecause ??= reason;
       this.pool ??= new DirectPool(this.workers);
-      detected = await this.pool.count(sweepRunSettings(scene));
+      detected = await this.pool.count(sweepRunSettings(scene), from, to);
     }
     return { total, detected, transmission: total > 0 ? detected / total : 0, method };
   }
 
-  private matrix(scene: Scene, total: number): number {
+  private matrix(scene: Scene, total: number, from: number, to: number): number {
     // Reuse the start draws while they serve the point (at most 4 million ions kept).
     if (total <= 4_000_000 && (this.starts === null || !this.starts.serves(scene))) this.starts = new StartStates(scene);
     this.linear ??= new LinearScratch();
@@ -360,8 +377,8 @@ class PointRunner {
     if (this.fate.length < Math.min(total, 65536)) this.fate = new Int8Array(Math.min(total, 65536));
     const fate = this.fate;
     let d = 0;
-    for (let start = 0; start < total; start += fate.length) {
-      const n = Math.min(fate.length, total - start);
+    for (let start = from; start < to; start += fate.length) {
+      const n = Math.min(fate.length, to - start);
       tracker.track(start, n, fate, undefined, total <= 4_000_000 ? this.starts! : undefined);
       for (let i = 0; i < n; i++) if (fate[i] === Fate.detected) d++;
     }
@@ -497,7 +514,11 @@ export function scanLinePointsCsv(r: SweepResult): string | null {
   return lines.join('\n') + '\n';
 }
 
-export interface SummaryOptions { commandLine?: string }
+export interface SummaryOptions {
+  commandLine?: string;
+  /** Keys added at the end of provenance (a merge's parts). */
+  provenance?: Record<string, unknown>;
+}
 
 /** The peak figures with the 95 % Wilson interval of the transmission at the maximum. */
 function peakWithInterval(peak: PeakFigures | null, points: SweepPoint[]): Record<string, unknown> | null {
@@ -571,6 +592,7 @@ export function sweepSummary(r: SweepResult, opts: SummaryOptions = {}): Record<
     workers: r.workers,
     started_at: r.startedAt,
     wall_s: r.wallSeconds,
+    ...opts.provenance,
   };
   out.units = { mz: 'Th (u/e)', transmission: 'fraction of ions detected', transmission_low: '95 % Wilson score interval (Wilson 1927), lower end', transmission_high: '95 % Wilson score interval, upper end', voltage: 'V', length: 'm', time: 's', energy: 'eV', frequency: 'Hz' };
   return out;
