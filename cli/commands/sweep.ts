@@ -13,7 +13,7 @@ import { checkSweepFolder, writeSweepFolder } from '../../sim/sweeps/sweep-folde
 import { parseCount } from './run.js';
 import { finiteOrNull } from '../../sim/core/json.js';
 import { parseShard, type ShardSpec } from '../../sim/runs/shard.js';
-import { runSweepShard } from '../../sim/sweeps/shard-sweep.js';
+import { runSweepShard, sweepSlice } from '../../sim/sweeps/shard-sweep.js';
 import type { SweepPlan } from '../../sim/sweeps/sweep.js';
 
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
@@ -95,6 +95,9 @@ export async function run(argv: string[]): Promise<number> {
     collect: (a.values.get('collect')?.[0] ?? '').split(',').map((x) => x.trim()).filter((x) => x !== ''),
     scanLines: flag(a, 'scan-lines'), method, workers, maxOutput: limit, stopped: () => stoppedBy !== null,
   });
+  const shardText = flag(a, 'shard');
+  const shard = shardText === undefined ? undefined : parseShard(shardText);
+  if (shard) sweepSlice(plan, shard);
   if (plan.collect.length > 0) {
     // Every point is a full run into a temporary run folder (removed after the point).
     const e = estimateRun({ ...plan.base, run: { ...plan.base.run, recordEvery: 0 } });
@@ -102,8 +105,7 @@ export async function run(argv: string[]): Promise<number> {
     printEstimate('per point: ')(e, plan.workers);
     process.stderr.write(`estimate: ${plan.tasks.length} points, ${aboutDuration((e.cpu_time_s / plan.workers) * plan.tasks.length)} in all\n`);
   }
-  const shardText = flag(a, 'shard');
-  if (shardText !== undefined) return runShard(plan, parseShard(shardText), out, force, commandLine, a.switches.has('json'));
+  if (shard) return runShard(plan, shard, out, force, commandLine, a.switches.has('json'));
   const total = plan.tasks.length;
   let done = 0;
   const offSignals = onStopSignal((sig) => { stoppedBy = sig; });

@@ -40,12 +40,18 @@ function pieces(plan: SweepPlan, B: number, from: number, to: number): SweepPiec
 }
 
 /** Run shard `spec` of the plan into the part folder `out` (shard.json, summary.json, sweep-part.csv). */
-export async function runSweepShard(plan: SweepPlan, spec: ShardSpec, out: string, opts: { force?: boolean; commandLine?: string; tick?: () => void } = {}): Promise<{ complete: boolean; pieces: number }> {
+/** Units [from, to) of shard `spec`, and the ion blocks per point; refuses an N the sweep cannot take. */
+export function sweepSlice(plan: SweepPlan, spec: ShardSpec): { B: number; from: number; to: number } {
   const B = blocksPerPoint(plan, spec.count);
   const what = plan.collect.length > 0
     ? `the sweep has ${plan.tasks.length} points and --collect runs each point whole`
     : `the sweep has ${plan.tasks.length} points`;
   const [from, to] = sliceRange(spec, plan.tasks.length * B, what);
+  return { B, from, to };
+}
+
+export async function runSweepShard(plan: SweepPlan, spec: ShardSpec, out: string, opts: { force?: boolean; commandLine?: string; tick?: () => void } = {}): Promise<{ complete: boolean; pieces: number }> {
+  const { B, from, to } = sweepSlice(plan, spec);
   checkSweepFolder(out, opts.force ?? false);
   const mine = pieces(plan, B, from, to);
   const points = await runPieces(plan, mine, opts.tick);
