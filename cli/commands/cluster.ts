@@ -73,6 +73,10 @@ export async function run(argv: string[]): Promise<number> {
   if (time !== undefined && !/^(\d+-)?\d{1,3}:[0-5]\d:[0-5]\d$/.test(time)) throw new UsageError(`cluster: --time expects HH:MM:SS or D-HH:MM:SS (for example 02:00:00), got '${time}'`);
   if (target === 'kubernetes' && (partition || time || a.switches.has('submit'))) throw new UsageError('cluster kubernetes: --partition, --time and --submit are for slurm');
   if (target === 'slurm' && (flag(a, 'image') || flag(a, 'claim'))) throw new UsageError('cluster slurm: --image and --claim are for kubernetes');
+  const submit = a.switches.has('submit');
+  if (submit && spawnSync('sh', ['-c', 'command -v sbatch'], { encoding: 'utf8' }).status !== 0) {
+    throw new UsageError('cluster: --submit needs sbatch on PATH (none found); write the job without --submit and submit it where sbatch runs');
+  }
   const force = a.switches.has('force');
   const dir = resolve(out);
   if (!existsSync(dirname(dir)) || !statSync(dirname(dir)).isDirectory()) throw new UsageError(`cluster: ${out}: parent folder ${dirname(dir)} does not exist`);
@@ -113,11 +117,9 @@ export async function run(argv: string[]): Promise<number> {
   }
   const readme = readFileSync(join(dir, 'README.md'), 'utf8').trim();
   process.stdout.write(`${out}: ${target} job of ${shards} shards of \`iontrail ${job.command}\`\n  ${readme}\n`);
-  if (a.switches.has('submit')) {
-    const which = spawnSync('sh', ['-c', 'command -v sbatch'], { encoding: 'utf8' });
-    if (which.status !== 0) throw new UsageError(`cluster: --submit needs sbatch on PATH (none found); the job is written, submit it later with sh ${join(out, 'submit.sh')}`);
+  if (submit) {
     const r = spawnSync('sh', [join(dir, 'submit.sh')], { encoding: 'utf8' });
-    if (r.status !== 0) throw new UsageError(`cluster: sbatch refused the job: ${(r.stderr || r.stdout).trim().split('\n')[0]}`);
+    if (r.status !== 0) throw new UsageError(`cluster: sbatch refused the job (${(r.stderr || r.stdout).trim().split('\n')[0]}); the job folder ${out} is written, submit it with sh ${join(out, 'submit.sh')}`);
     process.stdout.write(r.stdout);
   }
   return 0;

@@ -1,0 +1,114 @@
+// `iontrail cluster slurm|kubernetes` job folders without a scheduler: the scripts and manifests
+// say what Slurm (sbatch(1): --array, --dependency=afterok, $SLURM_ARRAY_TASK_ID) and Kubernetes
+// (batch/v1 Job, completionMode: Indexed, JOB_COMPLETION_INDEX) read, and running each task's
+// command by hand with its index set, as the scheduler would, gives the unsharded bytes.
+
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { chmodSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { parse as parseYaml } from 'yaml';
+import { CLI, ROOT, iontrail, tempDir } from '../helpers/cli.js';
+import { cli, expectSameFolder } from '../shards/compare.js';
+
+const SCENE = `
+name: Skerry QF-4 job-folder check
+seed: 23
+stages:
+  - type: quadrupole
+    length: 40 mm
+    r0: 4 mm
+    rf: { amplitude: 600 V, frequency: 1.2 MHz }
+    dc: 90 V
+ions:
+  - mz: 502
+    count: 60
+    position: { spread: 0.2 mm }
+    energy: 5 eV
+run: { steps_per_cycle: 20, max_time: 20 us, record_every: 0 }
+`;
+
+function setup() {
+  const d = tempDir();
+  const scene = join(d, 'scene.yaml');
+  writeFileSync(scene, SCENE);
+  return { d, scene };
+}
+
+function sh(script: string, env: Record<string, string>) {
+  const r = spawnSync('bash', ['-c', script], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ...env } });
+  expect(r.status, r.stderr).toBe(0);
+}
+
+describe('iontrail cluster', () => {
+  it('slurm: an array script, a merge held by afterok, and their commands give the unsharded bytes', () => {
+    const { d, scene } = setup();
+    const job = join(d, 'job');
+    const out = cli(['cluster', 'slurm', scene, '--shards', '3', '-o', job, '--partition', 'short', '--time', '00:20:00', '--cpus', '2']);
+    expect(out).toMatch(/Submit with `sh .*submit\.sh`/);
+    const shards = readFileSync(join(job, 'shards.sbatch'), 'utf8');
+    for (const line of ['#SBATCH --array=0-2', '#SBATCH --cpus-per-task=2', '#SBATCH --partition=short', '#SBATCH --time=00:20:00']) expect(shards).toContain(line);
+    expect(shards).toContain('--shard "${SLURM_ARRAY_TASK_ID}/3"');
+    const submit = readFileSync(join(job, 'submit.sh'), 'utf8');
+    expect(submit).toMatch(/sbatch --parsable --dependency=afterok:"\$array" .*merge\.sbatch/);
+    expect(readFileSync(join(job, 'README.md'), 'utf8')).toMatch(/--dependency=afterok/);
+    // As Slurm would: each array task with its id (the #SBATCH lines are comments to bash), then the merge.
+    for (let i = 0; i < 3; i++) sh(`bash ${join(job, 'shards.sbatch')}`, { SLURM_ARRAY_TASK_ID: String(i), SLURM_CPUS_PER_TASK: '1' });
+    sh(`bash ${join(job, 'merge.sbatch')}`, {});
+    const full = join(d, 'full');
+    cli(['run', scene, '-o', full]);
+    expectSameFolder(full, join(job, 'result'), 'run');
+  }, 60_000);
+
+  it('kubernetes: an Indexed Job and a merge Job whose commands give the unsharded sweep', () => {
+    const { d, scene } = setup();
+    const job = join(d, 'k8s');
+    const vary = ['--vary', 'mz=500..504:3'];
+    cli(['cluster', 'kubernetes', scene, ...vary, '--shards', '4', '-o', job, '--image', 'registry.example/iontrail:1', '--claim', 'skerry-work']);
+    const m = parseYaml(readFileSync(join(job, 'job.yaml'), 'utf8'));
+    expect([m.apiVersion, m.kind, m.spec.completionMode, m.spec.completions]).toEqual(['batch/v1', 'Job', 'Indexed', 4]);
+    const c = m.spec.template.spec.containers[0];
+    expect(c.image).toBe('registry.example/iontrail:1');
+    expect(m.spec.template.spec.volumes[0].persistentVolumeClaim.claimName).toBe('skerry-work');
+    expect(m.spec.template.spec.restartPolicy).toBe('Never');
+    const script: string = c.command[2];
+    expect(script).toContain('--shard "$JOB_COMPLETION_INDEX/4"');
+    const mj = parseYaml(readFileSync(join(job, 'merge-job.yaml'), 'utf8'));
+    expect(readFileSync(join(job, 'submit-kubernetes.sh'), 'utf8')).toMatch(/kubectl wait --for=condition=complete .*\n.*merge-job\.yaml/);
+    // As the cluster would: `iontrail` on PATH in the image, each index, then the merge.
+    const bin = join(d, 'bin');
+    mkdirSync(bin);
+    writeFileSync(join(bin, 'iontrail'), `#!/bin/sh\nexec ${process.execPath} ${CLI} "$@"\n`);
+    chmodSync(join(bin, 'iontrail'), 0o755);
+    const PATH = `${bin}:${process.env.PATH}`;
+    for (let i = 0; i < 4; i++) sh(script, { JOB_COMPLETION_INDEX: String(i), PATH });
+    sh(mj.spec.template.spec.containers[0].command[2], { PATH });
+    const full = join(d, 'full');
+    cli(['sweep', scene, ...vary, '-o', full]);
+    expectSameFolder(full, join(job, 'result'), 'sweep');
+  }, 60_000);
+
+  it('refuses a bad job before writing anything', () => {
+    const { d, scene } = setup();
+    const job = join(d, 'bad');
+    const cases: [string[], RegExp][] = [
+      [['--shards', '3', '--time', '2h'], /--time expects HH:MM:SS or D-HH:MM:SS/],
+      [['--shards', '3', '--partition', 'a b'], /--partition expects a partition name/],
+      [['--shards', '0'], /--shards expects a whole number of at least 1/],
+      [['--shards', '99'], /the run has 8 batches of 8 ions .* give at most 8 shards/],
+      [['--shards', '2', '--image', 'x'], /--image and --claim are for kubernetes/],
+    ];
+    for (const [extra, msg] of cases) {
+      const r = iontrail(['cluster', 'slurm', scene, '-o', job, ...extra]);
+      expect(r.code, extra.join(' ')).toBe(2);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).toMatch(msg);
+      expect(existsSync(job)).toBe(false);
+    }
+    // --submit where no sbatch is on PATH: refused before the folder is written.
+    const r = spawnSync(process.execPath, [CLI, 'cluster', 'slurm', scene, '--shards', '2', '-o', job, '--submit'], { encoding: 'utf8', env: { ...process.env, PATH: '/nonexistent' } });
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/--submit needs sbatch on PATH/);
+    expect(existsSync(job)).toBe(false);
+  });
+});
