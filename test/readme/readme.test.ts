@@ -10,7 +10,7 @@
 
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { parse as parseYaml } from 'yaml';
 import { ROOT, iontrail, tempDir } from '../helpers/cli.js';
 import { readSweepFolder, sweepSeries } from '../../render/plot/sweep-figure.js';
@@ -88,6 +88,69 @@ function runExample(e: Example, extra: string[] = []) {
 }
 
 const json = (text: string) => JSON.parse(text);
+
+/** The folder an example writes (its -o), in the temporary folder. */
+const outOf = (e: Example) => join(tmp, e.args[e.args.indexOf('-o') + 1]);
+
+// Shards, merges and cluster jobs (README "Beyond one machine"), each as written: a part is a run
+// or sweep folder that says its slice; a merge gives the unsharded command's bytes; a job folder
+// holds what its scheduler reads.
+const SHARD_CHECKERS: Checker[] = [
+  {
+    name: 'run or sweep --shard I/N: a part folder with its own summary that names its slice',
+    matches: (e) => (e.args[0] === 'run' || e.args[0] === 'sweep') && e.args.includes('--shard'),
+    check: (e) => {
+      runExample(e);
+      const [i, n] = e.args[e.args.indexOf('--shard') + 1].split('/').map(num);
+      const m = json(readFileSync(join(outOf(e), 'shard.json'), 'utf8'));
+      expect([m.shard.index, m.shard.count]).toEqual([i, n]);
+      expect(json(readFileSync(join(outOf(e), 'summary.json'), 'utf8')).complete).toBe(true);
+    },
+  },
+  {
+    name: 'merge: the folder the unsharded command writes, byte for byte (summary.json apart from wall times and parts)',
+    matches: (e) => e.args[0] === 'merge',
+    check: (e) => {
+      runExample(e);
+      const inputs = e.args.slice(1, e.args.indexOf('-o'));
+      const part = EXAMPLES.find((x) => x.args.includes('--shard') && inputs.includes(x.args[x.args.indexOf('-o') + 1]))!;
+      expect(inputs, 'the merge names every part of its job').toHaveLength(num(part.args[part.args.indexOf('--shard') + 1].split('/')[1]));
+      // The unsharded command: the part's arguments without --shard I/N and -o.
+      const skip = new Set([part.args.indexOf('--shard'), part.args.indexOf('--shard') + 1, part.args.indexOf('-o'), part.args.indexOf('-o') + 1]);
+      const whole = join(tmp, `whole-${basename(outOf(e))}`);
+      const r = iontrail([...localArgs(part.args.filter((_, k) => !skip.has(k))), '-o', whole], { cwd: tmp });
+      expect(r.code, r.stderr).toBe(0);
+      const tables = part.args[0] === 'run' ? ['ions.arrow', 'trajectories.arrow', 'history.arrow'] : ['sweep.csv'];
+      for (const f of tables) expect(readFileSync(join(outOf(e), f)).equals(readFileSync(join(whole, f))), f).toBe(true);
+      const a = json(readFileSync(join(whole, 'summary.json'), 'utf8')), b = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      expect(b.provenance.shards.count).toBe(inputs.length);
+      expect(b.species ?? b.peak).toEqual(a.species ?? a.peak);
+    },
+  },
+  {
+    name: 'cluster slurm: a job array of --shards tasks, a merge held by afterok, submit.sh',
+    matches: (e) => e.args[0] === 'cluster' && e.args[1] === 'slurm',
+    check: (e) => {
+      runExample(e);
+      const n = num(e.args[e.args.indexOf('--shards') + 1]);
+      expect(readFileSync(join(outOf(e), 'shards.sbatch'), 'utf8')).toContain(`#SBATCH --array=0-${n - 1}`);
+      const submit = /sh (\S+submit\.sh)/.exec(e.claim)!;
+      expect(submit, e.claim).not.toBeNull();
+      expect(readFileSync(join(tmp, submit[1]), 'utf8')).toMatch(/--dependency=afterok/);
+    },
+  },
+  {
+    name: 'cluster kubernetes: an Indexed Job of --shards completions and a merge Job',
+    matches: (e) => e.args[0] === 'cluster' && e.args[1] === 'kubernetes',
+    check: (e) => {
+      runExample(e);
+      const m = parseYaml(readFileSync(join(outOf(e), 'job.yaml'), 'utf8'));
+      expect([m.spec.completionMode, m.spec.completions]).toEqual(['Indexed', num(e.args[e.args.indexOf('--shards') + 1])]);
+      expect(m.spec.template.spec.containers[0].command.join(' ')).toContain('$JOB_COMPLETION_INDEX');
+      expect(existsSync(join(outOf(e), 'merge-job.yaml'))).toBe(true);
+    },
+  },
+];
 
 /** m/z window (`iontrail check --json`) of the scene's first stage, a quadrupole, optionally at another DC. */
 function sceneWindow(args: string[], dc?: string): { low: number; high: number; resolution: number } {
@@ -169,7 +232,7 @@ const CHECKERS: Checker[] = [
   {
     // 200 ions: the claim is that m/z 502 is transmitted, not a transmission figure.
     name: 'run: a run folder with counts per fate, m/z 502 transmitted',
-    matches: (e) => e.args[0] === 'run',
+    matches: (e) => e.args[0] === 'run' && !e.args.includes('--shard'),
     check: (e) => {
       runExample(e, fewerIons(e.args, 200));
       const dir = join(tmp, e.args[e.args.indexOf('-o') + 1]);
@@ -184,7 +247,7 @@ const CHECKERS: Checker[] = [
   {
     // The full count: the matrix path decides 121 × 2000 ions in about a second.
     name: 'sweep over m/z: a bounded peak at m/z 502 inside the Mathieu window, R10 below R50',
-    matches: (e) => e.args[0] === 'sweep' && e.args.filter((a) => a === '--vary').length === 1,
+    matches: (e) => e.args[0] === 'sweep' && !e.args.includes('--shard') && e.args.filter((a) => a === '--vary').length === 1,
     check: (e) => {
       runExample(e);
       const s = json(readFileSync(join(tmp, e.args[e.args.indexOf('-o') + 1], 'summary.json'), 'utf8'));
@@ -240,6 +303,7 @@ const CHECKERS: Checker[] = [
       expect(series.reduce((a, s) => a + s.rows.length, 0)).toBe(t.summary.sweep.points);
     },
   },
+  ...SHARD_CHECKERS,
   {
     // 20 ions per species: the claim is the bundle's contents, not its figures.
     name: 'report: report.html (self-contained), report.md with PNGs, results.json, run/',
