@@ -60,12 +60,13 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
   const estimate = estimateRun(scene, { csv: opts.csv });
-  // A part writes its slice only: the limit applies to that share of the run's output.
-  checkOutputLimit(opts.shard ? { ...estimate, output_bytes: Math.round(estimate.output_bytes * (total / Math.max(1, plan.total))) } : estimate, opts.maxOutput);
-  const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
-  opts.onEstimate?.(estimate, workers);
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
   const t = runTallies(scene);
+  // A part writes its slice only, and each of its batches' history sums (history_batches.arrow).
+  const partBytes = () => Math.round(estimate.output_bytes * (total / Math.max(1, plan.total))) + (batches[1] - batches[0]) * t.hist.sums.length * 12;
+  checkOutputLimit(opts.shard ? { ...estimate, output_bytes: partBytes() } : estimate, opts.maxOutput);
+  const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
+  opts.onEstimate?.(estimate, workers);
   // A part keeps each batch's history sums: the merge adds them in batch order, as a run does.
   const historyBatches = opts.shard ? writer.extraTable(HISTORY_BATCHES_FILE, HISTORY_BATCH_COLUMNS, 'history batches') : null;
   let done = 0;
