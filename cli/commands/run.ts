@@ -76,7 +76,9 @@ export async function run(argv: string[]): Promise<number> {
   if (a.switches.has('json')) {
     process.stdout.write(JSON.stringify(summary) + '\n');
   } else {
-    const lines = [`${summary.scene_name}`, `  run folder  ${out}${summary.complete ? '' : '  (INCOMPLETE: interrupted)'}`];
+    const part = summary.provenance.shard as { index: number; count: number; ions: [number, number] } | undefined;
+    const slice = part ? `  (part ${part.index}/${part.count}: ions ${part.ions[0]}–${part.ions[1] - 1}; join the parts with iontrail merge)` : '';
+    const lines = [`${summary.scene_name}`, `  run folder  ${out}${slice}${summary.complete ? '' : '  (INCOMPLETE: interrupted)'}`];
     for (const s of summary.species) {
       lines.push(`  m/z ${String(s.mz).padEnd(8)} z=${s.charge}  ${String(s.detected).padStart(7)} detected  ${String(s.hit).padStart(7)} hit  ${String(s.missed ?? 0).padStart(7)} missed  ${String(s.returned ?? 0).padStart(7)} returned  ${String(s.alive).padStart(7)} alive  transmission ${(100 * s.transmission).toFixed(2)} %`);
     }

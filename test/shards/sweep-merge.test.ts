@@ -69,6 +69,18 @@ describe('sweep shards merge into the unsharded bytes', () => {
     expect(JSON.parse(readFileSync(join(full, 'summary.json'), 'utf8')).method.used).toBe('direct');
   }, 90_000);
 
+  it('scan lines (scan-lines.csv, scan-line-points.csv): 5 shards', () => {
+    const { d, scene } = setup();
+    const args = [scene, '--vary', 'mz=496..508:9', '--scan-lines', '0.160..0.166:3'];
+    const full = join(d, 'full');
+    cli(['sweep', ...args, '-o', full]);
+    const parts = writeParts('sweep', args, 5, d, () => 1);
+    const merged = join(d, 'm');
+    cli(['merge', ...parts, '-o', merged]);
+    expectSameFolder(full, merged, 'sweep');
+    expect(JSON.parse(readFileSync(join(full, 'summary.json'), 'utf8')).scan_lines.tradeoff).toHaveLength(3);
+  }, 60_000);
+
   it('--collect needs whole points: more shards than points is refused', () => {
     const { d, scene } = setup();
     const r = iontrail(['sweep', scene, '--vary', 'mz=500..504:3', '--collect', 'ions.detected', '--shard', '0/4', '-o', join(d, 'p')]);
