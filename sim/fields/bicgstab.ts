@@ -1,0 +1,58 @@
+// BiCGSTAB with right preconditioning (van der Vorst, SIAM J. Sci. Stat. Comput. 13 (1992) 631;
+// Saad, Iterative Methods for Sparse Linear Systems, 2nd ed., SIAM 2003, algorithm 7.7 with the
+// preconditioned variant of §9.3.4). The shadow residual is r̂ = r₀ = b, which is nonzero only next
+// to the electrode, so it is kept as a sparse list; with x₀ = 0 the vectors are x, r (s overwrites
+// it), p, v, t and y (holding p̂ = M p, then ŝ = M s): six of the grid's size.
+
+import type { LevelOperator } from './assemble.js';
+import { applyA } from './stencil.js';
+import type { Multigrid } from './multigrid.js';
+
+export interface KrylovResult { iterations: number; residual: number; converged: boolean }
+
+export interface KrylovVectors { x: Float64Array; r: Float64Array; p: Float64Array; v: Float64Array; t: Float64Array; y: Float64Array }
+
+function dot(a: Float64Array, b: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
+  return s;
+}
+
+function sparseDot(idx: Int32Array, val: Float64Array, a: Float64Array): number {
+  let s = 0;
+  for (let q = 0; q < idx.length; q++) s += val[q] * a[idx[q]];
+  return s;
+}
+
+/** Solves A x = b with r holding b on entry; x starts at 0. Relative residual ‖r‖₂/‖b‖₂. */
+export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tolerance: number, maxIterations: number): KrylovResult {
+  const { x, r, p, v, t, y } = w, N = x.length;
+  x.fill(0);
+  let m = 0;
+  for (let i = 0; i < N; i++) if (r[i] !== 0) m++;
+  const hatIdx = new Int32Array(m), hatVal = new Float64Array(m);
+  for (let i = 0, q = 0; i < N; i++) if (r[i] !== 0) { hatIdx[q] = i; hatVal[q++] = r[i]; }
+  const bnorm = Math.sqrt(dot(r, r));
+  if (bnorm === 0) return { iterations: 0, residual: 0, converged: true };
+  p.set(r);
+  let rho = sparseDot(hatIdx, hatVal, r), res = 1;
+  for (let it = 1; it <= maxIterations; it++) {
+    mg.apply(p, y);                       // p̂ = M p
+    applyA(op, y, v);                     // v = A p̂
+    const alpha = rho / sparseDot(hatIdx, hatVal, v);
+    let ss = 0;
+    for (let i = 0; i < N; i++) { x[i] += alpha * y[i]; const si = r[i] - alpha * v[i]; r[i] = si; ss += si * si; }
+    if (Math.sqrt(ss) / bnorm <= tolerance) return { iterations: it, residual: Math.sqrt(ss) / bnorm, converged: true };
+    mg.apply(r, y);                       // ŝ = M s
+    applyA(op, y, t);                     // t = A ŝ
+    const omega = dot(t, r) / dot(t, t);
+    let rr = 0;
+    for (let i = 0; i < N; i++) { x[i] += omega * y[i]; const ri = r[i] - omega * t[i]; r[i] = ri; rr += ri * ri; }
+    res = Math.sqrt(rr) / bnorm;
+    if (res <= tolerance) return { iterations: it, residual: res, converged: true };
+    const rhoNew = sparseDot(hatIdx, hatVal, r), beta = (rhoNew / rho) * (alpha / omega);
+    rho = rhoNew;
+    for (let i = 0; i < N; i++) p[i] = r[i] + beta * (p[i] - omega * v[i]);
+  }
+  return { iterations: maxIterations, residual: res, converged: false };
+}

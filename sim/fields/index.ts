@@ -1,0 +1,6 @@
+// The electrode field solver: geometry, finite-volume Laplace operator with the symmetric
+// Shortley–Weller curved-boundary rows, multigrid-preconditioned BiCGSTAB, unit solutions on
+// worker threads, and the multipole and axis-series fits of a solution.
+
+export * from './problem.js';
+export { solveField, type SolveOptions } from './solve.js';
