@@ -18,13 +18,30 @@ function dot(a: Float64Array, b: Float64Array): number {
   return s;
 }
 
+/**
+ * ‖D⁻¹ r‖₂ with D the diagonal: the residual of the row-scaled system, so that the rows of nodes
+ * very close to a surface (coefficients up to 1/THETA_MIN) do not inflate ‖b‖ and hide the error
+ * of every other row.
+ */
+function scaledNorm(op: LevelOperator, r: Float64Array): number {
+  const d = op.diag, rd = op.rows.diag;
+  let s = 0;
+  for (let i = 0; i < r.length; i++) {
+    const di = d[i];
+    if (di === 0) continue;
+    const v = r[i] / (di > 0 ? di : rd[-di - 1]);
+    s += v * v;
+  }
+  return Math.sqrt(s);
+}
+
 function sparseDot(idx: Int32Array, val: Float64Array, a: Float64Array): number {
   let s = 0;
   for (let q = 0; q < idx.length; q++) s += val[q] * a[idx[q]];
   return s;
 }
 
-/** Solves A x = b with r holding b on entry; x starts at 0. Relative residual ‖r‖₂/‖b‖₂. */
+/** Solves A x = b with r holding b on entry; x starts at 0. Relative residual ‖D⁻¹r‖₂/‖D⁻¹b‖₂. */
 export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tolerance: number, maxIterations: number): KrylovResult {
   const { x, r, p, v, t, y } = w, N = x.length;
   x.fill(0);
@@ -32,7 +49,7 @@ export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tol
   for (let i = 0; i < N; i++) if (r[i] !== 0) m++;
   const hatIdx = new Int32Array(m), hatVal = new Float64Array(m);
   for (let i = 0, q = 0; i < N; i++) if (r[i] !== 0) { hatIdx[q] = i; hatVal[q++] = r[i]; }
-  const bnorm = Math.sqrt(dot(r, r));
+  const bnorm = scaledNorm(op, r);
   if (bnorm === 0) return { iterations: 0, residual: 0, converged: true };
   p.set(r);
   let rho = sparseDot(hatIdx, hatVal, r), res = 1;
@@ -40,15 +57,14 @@ export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tol
     mg.apply(p, y);                       // p̂ = M p
     applyA(op, y, v);                     // v = A p̂
     const alpha = rho / sparseDot(hatIdx, hatVal, v);
-    let ss = 0;
-    for (let i = 0; i < N; i++) { x[i] += alpha * y[i]; const si = r[i] - alpha * v[i]; r[i] = si; ss += si * si; }
-    if (Math.sqrt(ss) / bnorm <= tolerance) return { iterations: it, residual: Math.sqrt(ss) / bnorm, converged: true };
+    for (let i = 0; i < N; i++) { x[i] += alpha * y[i]; r[i] -= alpha * v[i]; }
+    const sres = scaledNorm(op, r) / bnorm;
+    if (sres <= tolerance) return { iterations: it, residual: sres, converged: true };
     mg.apply(r, y);                       // ŝ = M s
     applyA(op, y, t);                     // t = A ŝ
     const omega = dot(t, r) / dot(t, t);
-    let rr = 0;
-    for (let i = 0; i < N; i++) { x[i] += omega * y[i]; const ri = r[i] - omega * t[i]; r[i] = ri; rr += ri * ri; }
-    res = Math.sqrt(rr) / bnorm;
+    for (let i = 0; i < N; i++) { x[i] += omega * y[i]; r[i] -= omega * t[i]; }
+    res = scaledNorm(op, r) / bnorm;
     if (res <= tolerance) return { iterations: it, residual: res, converged: true };
     const rhoNew = sparseDot(hatIdx, hatVal, r), beta = (rhoNew / rho) * (alpha / omega);
     rho = rhoNew;

@@ -14,7 +14,7 @@ import type { Multigrid } from './multigrid.js';
 export interface SolveOptions {
   /** Computing threads (default: one per electrode, at most the machine's cores). */
   workers?: number;
-  /** Relative residual ‖b − A x‖₂ / ‖b‖₂ to reach (default 1e-10). */
+  /** Relative residual ‖D⁻¹(b − A x)‖₂ / ‖D⁻¹b‖₂ to reach, D the diagonal (default 1e-10). */
   tolerance?: number;
   maxIterations?: number;
 }
