@@ -6,3 +6,4 @@ export * from './problem.js';
 export { solveField, type SolveOptions } from './solve.js';
 export { fitMultipoles, type MultipoleTerm } from './multipoles.js';
 export { axisLegendre, type AxisTerm } from './axis-series.js';
+export { checkProblem, estimateMemory } from './check.js';
