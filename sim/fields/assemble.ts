@@ -10,7 +10,8 @@
 // weighted form of grid.ts each edge term w(φ_nb − φ)/θ is multiplied by c_a = 2/(θ⁻ + θ⁺); on a
 // mirror plane or the axis (no node below) the image gives θ⁻ = θ⁺. The rows with a cut are no
 // longer symmetric (BiCGSTAB, bicgstab.ts); they are stored sparsely (their node's diagonal holds
-// −(row + 1)) and every other row is the regular stencil. θ is clamped at THETA_MIN (a node that
+// −(row + 1)) and every other row is the regular stencil (so are mirror-plane rows of Cartesian
+// grids, whose half-cell weights would otherwise keep the constant-weight kernels from them). θ is clamped at THETA_MIN (a node that
 // close to the surface takes its value; the floor is ours). Grounded box faces are cut the same way,
 // at θ = 1 on the finest level and at the true face position on the coarse ones (an odd node count
 // puts a coarse node beyond the face). Coarse levels are rediscretised from the geometry at their
@@ -95,6 +96,12 @@ export function assembleLevel(lv: Level, axes: Axis[], els: ElectrodeSet[], labe
     for (let j = 0; j < n[1]; j++) {
       for (let i = 0; i < n[0]; i++, node++) {
         if (labels[node] !== FREE) continue;
+        // Fast path: a Cartesian node off the low faces with every neighbour free is the plain stencil.
+        if (lv.uniform && i > 0 && j > 0 && (d < 3 || k > 0) && labels[node - 1] === FREE && labels[node + 1] === FREE
+          && labels[node - sy] === FREE && labels[node + sy] === FREE && (d < 3 || (labels[node - sz] === FREE && labels[node + sz] === FREE))) {
+          diag[guard + node] = 2 * d;
+          continue;
+        }
         idx[0] = i; idx[1] = j; idx[2] = k;
         for (let a = 0; a < 3; a++) pos[a] = a < d ? axes[a].lo + idx[a] * H : 0;
         let cut = false, sum = 0;
@@ -148,7 +155,8 @@ export function assembleLevel(lv: Level, axes: Axis[], els: ElectrodeSet[], labe
             if (terms !== undefined && elec[slot] >= 0) { terms.node.push(node); terms.coef.push(coef); terms.electrode.push(elec[slot]); }
           }
         }
-        if (!cut) { diag[guard + node] = sum; continue; }
+        const onMirror = lv.uniform && ((axes[0].openLow && i === 0) || (axes[1].openLow && j === 0) || (d === 3 && axes[2].openLow && k === 0));
+        if (!cut && !onMirror) { diag[guard + node] = sum; continue; }
         diag[guard + node] = -(rNode.length + 1);
         rNode.push(guard + node); rDiag.push(dsw); rOff.push(...offs); rColour.push((i + j + k) & 1);
       }

@@ -24,14 +24,17 @@ function dot(a: Float64Array, b: Float64Array): number {
  * of every other row.
  */
 function scaledNorm(op: LevelOperator, r: Float64Array): number {
-  const d = op.diag, rd = op.rows.diag;
+  const d = op.diag, rows = op.rows;
   let s = 0;
-  for (let i = 0; i < r.length; i++) {
-    const di = d[i];
-    if (di === 0) continue;
-    const v = r[i] / (di > 0 ? di : rd[-di - 1]);
-    s += v * v;
+  if (op.level.uniform) {
+    // Every regular row has the diagonal 2d; the others are the stored rows.
+    let reg = 0;
+    for (let i = 0; i < r.length; i++) if (d[i] > 0) reg += r[i] * r[i];
+    s = reg / (2 * op.level.dims) ** 2;
+  } else {
+    for (let i = 0; i < r.length; i++) { const di = d[i]; if (di > 0) { const v = r[i] / di; s += v * v; } }
   }
+  for (let q = 0; q < rows.node.length; q++) { const v = r[rows.node[q]] / rows.diag[q]; s += v * v; }
   return Math.sqrt(s);
 }
 

@@ -28,6 +28,12 @@ export interface Level {
   sz: number;
   guard: number;
   nodes: number;
+  /**
+   * Cartesian (no radial axis): every regular row is the plain stencil with unit weights and
+   * diagonal 2d, so stencil.ts runs constant-weight kernels; mirror-plane rows are stored as rows.
+   */
+  uniform: boolean;
+  dims: number;
   /** Per axis: cell measure m, weight of the edge to the node below (em) and above (ep). */
   m: Float64Array[];
   em: Float64Array[];
@@ -66,6 +72,7 @@ export function makeLevel(axes: Axis[], n: [number, number, number], spacing: nu
   const sy = n[0], sz = axes.length === 3 ? n[0] * n[1] : 0;
   return {
     n, spacing, sy, sz, guard: axes.length === 3 ? sz : sy, nodes: n[0] * n[1] * n[2],
+    uniform: !axes.some((ax) => ax.radial), dims: axes.length,
     m: w.map((x) => x.m), em: w.map((x) => x.em), ep: w.map((x) => x.ep),
   };
 }

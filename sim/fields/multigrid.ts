@@ -75,7 +75,7 @@ export class Multigrid {
   private readonly b: Float64Array[] = [];
   private readonly x: Float64Array[] = [];
   private readonly direct: BandedLU;
-  private readonly scratch = new RowScratch();
+  private readonly scratch: RowScratch;
 
   /** `scale` = 2^(d−2): 1 for planar, 2 for axial (r-weighted) and 3D grids. */
   constructor(readonly ops: LevelOperator[], private readonly scale: number) {
@@ -83,6 +83,7 @@ export class Multigrid {
       const len = ops[l].diag.length;
       this.b.push(new Float64Array(len)); this.x.push(new Float64Array(len));
     }
+    this.scratch = new RowScratch(ops[0].level.n[0]);
     const last = ops[ops.length - 1];
     this.direct = new BandedLU(last);
   }
