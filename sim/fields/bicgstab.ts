@@ -23,14 +23,16 @@ function dot(a: Float64Array, b: Float64Array): number {
  * very close to a surface (coefficients up to 1/THETA_MIN) do not inflate ‖b‖ and hide the error
  * of every other row.
  */
-function scaledNorm(op: LevelOperator, r: Float64Array): number {
+function scaledNorm(op: LevelOperator, r: Float64Array, sumSquares = -1): number {
   const d = op.diag, rows = op.rows;
   let s = 0;
   if (op.level.uniform) {
-    // Every regular row has the diagonal 2d; the others are the stored rows.
-    let reg = 0;
-    for (let i = 0; i < r.length; i++) if (d[i] > 0) reg += r[i] * r[i];
-    s = reg / (2 * op.level.dims) ** 2;
+    // Every regular row has the diagonal 2d, fixed nodes have r = 0, the others are the stored
+    // rows: Σ r² over all nodes (often already summed by the caller) corrected on the stored rows.
+    let all = sumSquares;
+    if (all < 0) { all = 0; for (let i = 0; i < r.length; i++) all += r[i] * r[i]; }
+    for (let q = 0; q < rows.node.length; q++) { const v = r[rows.node[q]]; all -= v * v; }
+    s = Math.max(0, all) / (2 * op.level.dims) ** 2;
   } else {
     for (let i = 0; i < r.length; i++) { const di = d[i]; if (di > 0) { const v = r[i] / di; s += v * v; } }
   }
@@ -60,14 +62,16 @@ export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tol
     mg.apply(p, y);                       // p̂ = M p
     applyA(op, y, v);                     // v = A p̂
     const alpha = rho / sparseDot(hatIdx, hatVal, v);
-    for (let i = 0; i < N; i++) { x[i] += alpha * y[i]; r[i] -= alpha * v[i]; }
-    const sres = scaledNorm(op, r) / bnorm;
+    let ss = 0;
+    for (let i = 0; i < N; i++) { x[i] += alpha * y[i]; const si = r[i] - alpha * v[i]; r[i] = si; ss += si * si; }
+    const sres = scaledNorm(op, r, ss) / bnorm;
     if (sres <= tolerance) return { iterations: it, residual: sres, converged: true };
     mg.apply(r, y);                       // ŝ = M s
     applyA(op, y, t);                     // t = A ŝ
     const omega = dot(t, r) / dot(t, t);
-    for (let i = 0; i < N; i++) { x[i] += omega * y[i]; r[i] -= omega * t[i]; }
-    res = scaledNorm(op, r) / bnorm;
+    let rr = 0;
+    for (let i = 0; i < N; i++) { x[i] += omega * y[i]; const ri = r[i] - omega * t[i]; r[i] = ri; rr += ri * ri; }
+    res = scaledNorm(op, r, rr) / bnorm;
     if (res <= tolerance) return { iterations: it, residual: res, converged: true };
     const rhoNew = sparseDot(hatIdx, hatVal, r), beta = (rhoNew / rho) * (alpha / omega);
     rho = rhoNew;

@@ -13,6 +13,8 @@ export interface FieldOperator {
   labels: Int16Array;
   terms: BoundaryTerms;
   electrodes: number;
+  /** Identifies this operator to the worker threads that cache its multigrid hierarchy. */
+  serial: number;
   /** Coarse-grid scale 2^(d−2) (stencil.ts restrictResidual). */
   scale: number;
 }
@@ -32,7 +34,7 @@ export function buildOperator(problem: FieldProblem): FieldOperator {
     ops.push(assembleLevel(lv, axes, els, lab, t));
     if (t !== undefined) { labels = lab; terms = packTerms(t); }
   });
-  return { ops, labels, terms: terms!, electrodes: problem.electrodes.length, scale: problem.grid.symmetry === 'planar' ? 1 : 2 };
+  return { ops, labels, terms: terms!, electrodes: problem.electrodes.length, serial: 0, scale: problem.grid.symmetry === 'planar' ? 1 : 2 };
 }
 
 /** Bytes the shared part holds. */

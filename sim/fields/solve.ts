@@ -22,29 +22,35 @@ export interface SolveOptions {
 export const DEFAULT_TOLERANCE = 1e-10;
 export const DEFAULT_MAX_ITERATIONS = 200;
 
+let serials = 0;
+
 export async function solveField(problem: FieldProblem, opts: SolveOptions = {}): Promise<FieldSolution> {
   const t0 = performance.now();
-  const op = buildOperator(problem);
   const E = problem.electrodes.length;
   const threads = Math.max(1, Math.min(opts.workers ?? availableParallelism(), E));
   const nw = threads - 1;
+  // The workers start (and compile their kernels, unit.ts warmUp) while this thread builds the operator.
   const tolerance = opts.tolerance ?? DEFAULT_TOLERANCE, maxIterations = opts.maxIterations ?? DEFAULT_MAX_ITERATIONS;
   const results: UnitResult[] = [];
   let mg: Multigrid | undefined;
-  const exec = new Executor<UnitTask, UnitResult>({
+  const exec = new Executor<UnitTask & { op: FieldOperator }, UnitResult>({
     workers: nw, script: nw > 0 ? workerScript(new URL('./worker.js', import.meta.url)) : undefined,
-    workerData: () => op,
+    workerData: () => ({ symmetry: problem.grid.symmetry }),
   });
+  let op: FieldOperator;
   try {
+    op = buildOperator(problem);
+    op.serial = ++serials;
     await exec.runOrdered({
       count: E,
-      task: (e) => ({ electrode: e, tolerance, maxIterations }),
+      task: (e) => ({ electrode: e, tolerance, maxIterations, op }),
       here: (t) => solveUnit(op, mg ??= multigridOf(op), t),
       onResult: (r) => { results.push(r); },
     });
   } finally {
     await exec.close();
   }
+  op = op!;
   for (const r of results) {
     if (!r.converged) {
       throw new FieldInputError('grid', `electrode field solve (electrode '${problem.electrodes[r.electrode].name}') did not converge: relative residual ${r.residual.toExponential(2)} after ${r.iterations} iterations`);

@@ -1,6 +1,7 @@
 // One unit solution: electrode e at 1 V, every other electrode and the grounded box at 0 V.
 
-import type { FieldOperator } from './operator.js';
+import { buildOperator, type FieldOperator } from './operator.js';
+import type { FieldProblem, Shape } from './problem.js';
 import { Multigrid } from './multigrid.js';
 import { bicgstab } from './bicgstab.js';
 
@@ -36,4 +37,19 @@ export function solveUnit(op: FieldOperator, mg: Multigrid, t: UnitTask): UnitRe
     electrode: t.electrode, x, iterations: res.iterations, residual: res.residual, converged: res.converged,
     seconds: (performance.now() - t0) / 1e3, bytes: 6 * len * 8 + mg.workBytes,
   };
+}
+
+/**
+ * Runs the kernels of a grid kind once on a small box (a plate at 1 V on one face), so that a fresh
+ * worker thread compiles them while the main thread is still building the operator, instead of
+ * interpreting the first cycles of a large grid.
+ */
+export function warmUp(symmetry: FieldProblem['grid']['symmetry']): void {
+  const plate: Shape = symmetry === 'none' ? { kind: 'box', min: [-1, -1, 0.9], max: [1, 1, 1] } : { kind: 'rectangle', min: [-1, 0.9], max: [1, 1] };
+  const problem: FieldProblem = {
+    grid: { symmetry, spacing: symmetry === 'none' ? 1 / 8 : 1 / 32, halfWidth: 1, radius: 1, length: 1, mirror: [] },
+    electrodes: [{ name: 'plate', potential: { dc: 1, rf: 0, aux: 0 }, shapes: [symmetry === 'axial' ? { kind: 'tube', innerRadius: 0, outerRadius: 1, from: 0.9, to: 1 } : plate], holes: [] }],
+  };
+  const op = buildOperator(problem);
+  for (let r = 0; r < 3; r++) solveUnit(op, multigridOf(op), { electrode: 0, tolerance: 1e-10, maxIterations: 50 });
 }
