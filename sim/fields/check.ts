@@ -18,7 +18,7 @@ function bytesText(b: number): string {
 
 /**
  * Bytes the solve will hold at its peak: per level the diagonal (and the fine labels), per
- * concurrent unit solve six Krylov vectors and two work vectors per coarse level, and the unit
+ * concurrent unit solve five Krylov vectors and two work vectors per coarse level, and the unit
  * solutions returned (one grid of doubles per electrode).
  */
 export function estimateMemory(problem: FieldProblem): number {
@@ -27,7 +27,7 @@ export function estimateMemory(problem: FieldProblem): number {
   const fine = padded[0], coarse = padded.slice(1).reduce((s, n) => s + n, 0);
   const E = problem.electrodes.length, concurrent = Math.max(1, Math.min(availableParallelism(), E));
   return 8 * (fine + coarse) + 2 * fine + 2 * (coarse > 0 ? padded[1] : 0)
-    + concurrent * 8 * (6 * fine + 2 * coarse) + E * 8 * fine + 2 * levels[0].nodes;
+    + concurrent * 8 * (5 * fine + 2 * coarse) + E * 8 * fine + 2 * levels[0].nodes;
 }
 
 function sameVolts(a: Electrode, b: Electrode): boolean {

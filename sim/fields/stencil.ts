@@ -214,3 +214,30 @@ export function prolongAdd(op: LevelOperator, x: Float64Array, cop: LevelOperato
     }
   }
 }
+
+/** (A y) at each stored row, into out[q]. */
+export function rowsApply(op: LevelOperator, y: Float64Array, out: Float64Array): void {
+  const r = op.rows, [o0, o1, o2, o3, o4, o5] = offsets(op.level);
+  for (let q = 0; q < r.node.length; q++) { const n = r.node[q]; out[q] = r.diag[q] * y[n] - cutSum(r, q, y, o0, o1, o2, o3, o4, o5); }
+}
+
+/** (A y) along fine row (j, k) into out[i]; stored rows from `rowValues` (rowsApply), 0 at fixed nodes. */
+export function lineApply(op: LevelOperator, y: Float64Array, j: number, k: number, rowValues: Float64Array, out: Float64Array): void {
+  const f = op.level, d = op.diag, nx = f.n[0], { sy, sz, guard } = f, row = guard + (k * f.n[1] + j) * nx;
+  if (f.uniform) {
+    const dd = 2 * f.dims;
+    if (f.dims === 2) {
+      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy]) : dn < 0 ? rowValues[-dn - 1] : 0; }
+    } else {
+      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy] + y[n - sz] + y[n + sz]) : dn < 0 ? rowValues[-dn - 1] : 0; }
+    }
+    return;
+  }
+  const m0 = f.m[0], em0 = f.em[0], ep0 = f.ep[0];
+  const cx = f.m[1][j] * f.m[2][k], cym = f.em[1][j] * f.m[2][k], cyp = f.ep[1][j] * f.m[2][k], czm = f.m[1][j] * f.em[2][k], czp = f.m[1][j] * f.ep[2][k];
+  for (let i = 0, n = row; i < nx; i++, n++) {
+    const dn = d[n];
+    out[i] = dn > 0 ? dn * y[n] - cx * (em0[i] * y[n - 1] + ep0[i] * y[n + 1]) - m0[i] * (cym * y[n - sy] + cyp * y[n + sy] + czm * y[n - sz] + czp * y[n + sz])
+      : dn < 0 ? rowValues[-dn - 1] : 0;
+  }
+}

@@ -30,6 +30,16 @@ async function maxError(cells: number): Promise<number> {
 }
 
 describe('coaxial cylinders: φ = V ln(b/r)/ln(b/a)', () => {
+  // Superposition and uniqueness: the two conductors enclose the field, so the sum of their unit
+  // solutions solves the problem with every boundary at 1 V, whose solution is 1 everywhere. Bound:
+  // the solver tolerance (1e-10 relative) times the condition number (≈ 1e4 at b/32): 1e-6.
+  it('the unit solutions add up to 1', async () => {
+    const s = await solveField(coax(b / 32), { workers: 1 });
+    let worst = 0;
+    for (let n = 0; n < s.inside.length; n++) worst = Math.max(worst, Math.abs(s.units[0][n] + s.units[1][n] - 1));
+    expect(worst).toBeLessThanOrEqual(1e-6);
+  });
+
   it('second order over b/16, b/32, b/64 and ≤ 2e-4 per volt at b/32', async () => {
     const [e16, e32, e64] = [await maxError(16), await maxError(32), await maxError(64)];
     const p1 = Math.log2(e16 / e32), p2 = Math.log2(e32 / e64);
