@@ -19,22 +19,16 @@ function cutSum(rows: CutRows, q: number, x: Float64Array, o0: number, o1: numbe
   return off[b] * x[n + o0] + off[b + 1] * x[n + o1] + off[b + 2] * x[n + o2] + off[b + 3] * x[n + o3] + off[b + 4] * x[n + o4] + off[b + 5] * x[n + o5];
 }
 
-/** out = A x. */
+/** Stored-row values of A x per operator (this thread's scratch for applyWeighted). */
+const rowScratch = new WeakMap<LevelOperator, Float64Array>();
+
+/** out = A x on a weighted (axial) level, line by line. */
 function applyWeighted(op: LevelOperator, x: Float64Array, out: Float64Array): void {
-  const lv = op.level, d = op.diag, [nx, ny, nz] = lv.n, { sy, sz, guard } = lv;
-  const m0 = lv.m[0], em0 = lv.em[0], ep0 = lv.ep[0], m1 = lv.m[1], em1 = lv.em[1], ep1 = lv.ep[1], m2 = lv.m[2], em2 = lv.em[2], ep2 = lv.ep[2];
-  for (let k = 0; k < nz; k++) {
-    for (let j = 0; j < ny; j++) {
-      const cx = m1[j] * m2[k], cym = em1[j] * m2[k], cyp = ep1[j] * m2[k], czm = m1[j] * em2[k], czp = m1[j] * ep2[k];
-      const row = guard + (k * ny + j) * nx;
-      for (let i = 0; i < nx; i++) {
-        const n = row + i, dn = d[n];
-        if (dn <= 0) { out[n] = 0; continue; }
-        out[n] = dn * x[n] - cx * (em0[i] * x[n - 1] + ep0[i] * x[n + 1])
-          - m0[i] * (cym * x[n - sy] + cyp * x[n + sy] + czm * x[n - sz] + czp * x[n + sz]);
-      }
-    }
-  }
+  const lv = op.level, [nx, ny, nz] = lv.n;
+  let rows = rowScratch.get(op);
+  if (rows === undefined) { rows = new Float64Array(op.rows.node.length); rowScratch.set(op, rows); }
+  rowsApply(op, x, rows);
+  for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) lineApply(op, x, j, k, rows, out, lv.guard + (k * ny + j) * nx);
 }
 
 /** out = A x on a Cartesian level: unit weights, diagonal 2d on every regular row. */
@@ -221,15 +215,15 @@ export function rowsApply(op: LevelOperator, y: Float64Array, out: Float64Array)
   for (let q = 0; q < r.node.length; q++) { const n = r.node[q]; out[q] = r.diag[q] * y[n] - cutSum(r, q, y, o0, o1, o2, o3, o4, o5); }
 }
 
-/** (A y) along fine row (j, k) into out[i]; stored rows from `rowValues` (rowsApply), 0 at fixed nodes. */
-export function lineApply(op: LevelOperator, y: Float64Array, j: number, k: number, rowValues: Float64Array, out: Float64Array): void {
+/** (A y) along fine row (j, k) into out[at + i]; stored rows from `rowValues` (rowsApply), 0 at fixed nodes. */
+export function lineApply(op: LevelOperator, y: Float64Array, j: number, k: number, rowValues: Float64Array, out: Float64Array, at = 0): void {
   const f = op.level, d = op.diag, nx = f.n[0], { sy, sz, guard } = f, row = guard + (k * f.n[1] + j) * nx;
   if (f.uniform) {
     const dd = 2 * f.dims;
     if (f.dims === 2) {
-      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy]) : dn < 0 ? rowValues[-dn - 1] : 0; }
+      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[at + i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy]) : dn < 0 ? rowValues[-dn - 1] : 0; }
     } else {
-      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy] + y[n - sz] + y[n + sz]) : dn < 0 ? rowValues[-dn - 1] : 0; }
+      for (let i = 0, n = row; i < nx; i++, n++) { const dn = d[n]; out[at + i] = dn > 0 ? dd * y[n] - (y[n - 1] + y[n + 1] + y[n - sy] + y[n + sy] + y[n - sz] + y[n + sz]) : dn < 0 ? rowValues[-dn - 1] : 0; }
     }
     return;
   }
@@ -237,7 +231,7 @@ export function lineApply(op: LevelOperator, y: Float64Array, j: number, k: numb
   const cx = f.m[1][j] * f.m[2][k], cym = f.em[1][j] * f.m[2][k], cyp = f.ep[1][j] * f.m[2][k], czm = f.m[1][j] * f.em[2][k], czp = f.m[1][j] * f.ep[2][k];
   for (let i = 0, n = row; i < nx; i++, n++) {
     const dn = d[n];
-    out[i] = dn > 0 ? dn * y[n] - cx * (em0[i] * y[n - 1] + ep0[i] * y[n + 1]) - m0[i] * (cym * y[n - sy] + cyp * y[n + sy] + czm * y[n - sz] + czp * y[n + sz])
+    out[at + i] = dn > 0 ? dn * y[n] - cx * (em0[i] * y[n - 1] + ep0[i] * y[n + 1]) - m0[i] * (cym * y[n - sy] + cyp * y[n + sy] + czm * y[n - sz] + czp * y[n + sz])
       : dn < 0 ? rowValues[-dn - 1] : 0;
   }
 }
