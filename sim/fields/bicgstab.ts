@@ -1,9 +1,10 @@
 // BiCGSTAB with right preconditioning (van der Vorst, SIAM J. Sci. Stat. Comput. 13 (1992) 631;
 // Saad, Iterative Methods for Sparse Linear Systems, 2nd ed., SIAM 2003, algorithm 7.7 with the
 // preconditioned variant of §9.3.4). The shadow residual is r̂ = r₀ = b, which is nonzero only next
-// to the electrode, so it is kept as a sparse list; t = A ŝ is never stored whole but computed along
-// each grid line twice (once for ω, once for the update); with x₀ = 0 the vectors are x, r (s
-// overwrites it), p, v and y (holding p̂ = M p, then ŝ = M s): five of the grid's size.
+// to the electrode, so it is kept as a sparse list. With x₀ = 0 the vectors are x, r (s overwrites
+// it), p, v, y (holding p̂ = M p, then ŝ = M s) and t = A ŝ; on large grids (no t given) t is not
+// stored but computed along each grid line twice (once for ω, once for the update), which saves a
+// sixth of the memory for two more operator applications per iteration.
 
 import type { LevelOperator } from './assemble.js';
 import { applyA, lineApply, rowsApply } from './stencil.js';
@@ -11,7 +12,7 @@ import type { Multigrid } from './multigrid.js';
 
 export interface KrylovResult { iterations: number; residual: number; converged: boolean }
 
-export interface KrylovVectors { x: Float64Array; r: Float64Array; p: Float64Array; v: Float64Array; y: Float64Array }
+export interface KrylovVectors { x: Float64Array; r: Float64Array; p: Float64Array; v: Float64Array; y: Float64Array; t?: Float64Array }
 
 /**
  * ‖D⁻¹ r‖₂ with D the diagonal: the residual of the row-scaled system, so that the rows of nodes
@@ -43,7 +44,7 @@ function sparseDot(idx: Int32Array, val: Float64Array, a: Float64Array): number 
 
 /** Solves A x = b with r holding b on entry; x starts at 0. Relative residual ‖D⁻¹r‖₂/‖D⁻¹b‖₂. */
 export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tolerance: number, maxIterations: number): KrylovResult {
-  const { x, r, p, v, y } = w, N = x.length;
+  const { x, r, p, v, y, t } = w, N = x.length;
   const lv = op.level, [, ny, nz] = lv.n, nx = lv.n[0];
   const tRows = new Float64Array(op.rows.node.length), line = new Float64Array(nx);
   x.fill(0);
@@ -64,19 +65,27 @@ export function bicgstab(op: LevelOperator, mg: Multigrid, w: KrylovVectors, tol
     const sres = scaledNorm(op, r, ss) / bnorm;
     if (sres <= tolerance) return { iterations: it, residual: sres, converged: true };
     mg.apply(r, y);                       // ŝ = M s
-    rowsApply(op, y, tRows);              // t = A ŝ, line by line below
-    let ts = 0, tt = 0;
-    for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) {
-      lineApply(op, y, j, k, tRows, line);
-      const row = lv.guard + (k * ny + j) * nx;
-      for (let i = 0; i < nx; i++) { const ti = line[i]; ts += ti * r[row + i]; tt += ti * ti; }
-    }
-    const omega = ts / tt;
-    let rr = 0;
-    for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) {
-      lineApply(op, y, j, k, tRows, line);
-      const row = lv.guard + (k * ny + j) * nx;
-      for (let i = 0; i < nx; i++) { const n = row + i; x[n] += omega * y[n]; const ri = r[n] - omega * line[i]; r[n] = ri; rr += ri * ri; }
+    let omega: number, rr = 0;
+    if (t !== undefined) {
+      applyA(op, y, t);
+      let ts = 0, tt = 0;
+      for (let i = 0; i < N; i++) { ts += t[i] * r[i]; tt += t[i] * t[i]; }
+      omega = ts / tt;
+      for (let i = 0; i < N; i++) { x[i] += omega * y[i]; const ri = r[i] - omega * t[i]; r[i] = ri; rr += ri * ri; }
+    } else {
+      rowsApply(op, y, tRows);              // t = A ŝ, line by line
+      let ts = 0, tt = 0;
+      for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) {
+        lineApply(op, y, j, k, tRows, line);
+        const row = lv.guard + (k * ny + j) * nx;
+        for (let i = 0; i < nx; i++) { const ti = line[i]; ts += ti * r[row + i]; tt += ti * ti; }
+      }
+      omega = ts / tt;
+      for (let k = 0; k < nz; k++) for (let j = 0; j < ny; j++) {
+        lineApply(op, y, j, k, tRows, line);
+        const row = lv.guard + (k * ny + j) * nx;
+        for (let i = 0; i < nx; i++) { const n = row + i; x[n] += omega * y[n]; const ri = r[n] - omega * line[i]; r[n] = ri; rr += ri * ri; }
+      }
     }
     res = scaledNorm(op, r, rr) / bnorm;
     if (res <= tolerance) return { iterations: it, residual: res, converged: true };

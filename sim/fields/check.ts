@@ -7,6 +7,7 @@ import { FieldInputError, type Electrode, type FieldProblem } from './problem.js
 import { axesOf, levelsOf, nodesAlong } from './grid.js';
 import { electrodeSets } from './operator.js';
 import { solidOf } from './solids.js';
+import { STORE_T_MAX } from './unit.js';
 
 function mm(v: number): string {
   return `${Number((v * 1e3).toPrecision(3))} mm`;
@@ -18,7 +19,7 @@ function bytesText(b: number): string {
 
 /**
  * Bytes the solve will hold at its peak: per level the diagonal (and the fine labels), per
- * concurrent unit solve five Krylov vectors and two work vectors per coarse level, and the unit
+ * concurrent unit solve five or six Krylov vectors (unit.ts) and two work vectors per coarse level, and the unit
  * solutions returned (one grid of doubles per electrode).
  */
 export function estimateMemory(problem: FieldProblem): number {
@@ -27,7 +28,7 @@ export function estimateMemory(problem: FieldProblem): number {
   const fine = padded[0], coarse = padded.slice(1).reduce((s, n) => s + n, 0);
   const E = problem.electrodes.length, concurrent = Math.max(1, Math.min(availableParallelism(), E));
   return 8 * (fine + coarse) + 2 * fine + 2 * (coarse > 0 ? padded[1] : 0)
-    + concurrent * 8 * (5 * fine + 2 * coarse) + E * 8 * fine + 2 * levels[0].nodes;
+    + concurrent * 8 * ((fine <= STORE_T_MAX ? 6 : 5) * fine + 2 * coarse) + E * 8 * fine + 2 * levels[0].nodes;
 }
 
 function sameVolts(a: Electrode, b: Electrode): boolean {

@@ -15,9 +15,12 @@ export interface UnitResult {
   residual: number;
   converged: boolean;
   seconds: number;
-  /** Bytes this solve held (its five vectors and the coarse-level work arrays). */
+  /** Bytes this solve held (its five or six vectors and the coarse-level work arrays). */
   bytes: number;
 }
+
+/** Grids up to this many nodes keep t = A ŝ as a vector (bicgstab.ts); larger ones recompute it. */
+export const STORE_T_MAX = 5_000_000;
 
 export function multigridOf(op: FieldOperator): Multigrid {
   return new Multigrid(op.ops, op.scale);
@@ -27,7 +30,8 @@ export function solveUnit(op: FieldOperator, mg: Multigrid, t: UnitTask): UnitRe
   const t0 = performance.now();
   const lv = op.ops[0].level, len = op.ops[0].diag.length, g = lv.guard;
   const vec = () => new Float64Array(len);
-  const w = { x: vec(), r: vec(), p: vec(), v: vec(), y: vec() }, { x, r } = w;
+  const store = len <= STORE_T_MAX;
+  const w = { x: vec(), r: vec(), p: vec(), v: vec(), y: vec(), t: store ? vec() : undefined }, { x, r } = w;
   const { node, coef, electrode } = op.terms;
   for (let q = 0; q < node.length; q++) if (electrode[q] === t.electrode) r[g + node[q]] += coef[q];
   const res = bicgstab(mg.ops[0], mg, w, t.tolerance, t.maxIterations);
@@ -35,7 +39,7 @@ export function solveUnit(op: FieldOperator, mg: Multigrid, t: UnitTask): UnitRe
   for (let n = 0; n < lv.nodes; n++) if (lab[n] === t.electrode) x[g + n] = 1;
   return {
     electrode: t.electrode, x, iterations: res.iterations, residual: res.residual, converged: res.converged,
-    seconds: (performance.now() - t0) / 1e3, bytes: 5 * len * 8 + mg.workBytes,
+    seconds: (performance.now() - t0) / 1e3, bytes: (store ? 6 : 5) * len * 8 + mg.workBytes,
   };
 }
 

@@ -67,7 +67,8 @@ export async function bench(): Promise<void> {
   // C and JS alternate (C, JS, C, JS…) and each keeps its best, so that both see the same load.
   const op = buildOperator(square(n)), mg = multigridOf(op);
   let best = Infinity, it = 0, res = 0, centre = 0, cSec = Infinity, cIt = 0, cRes = 0, cCentre = 0;
-  for (let rep = 0; rep < 4; rep++) {
+  for (let w = 0; w < 2; w++) solveUnit(op, mg, { electrode: 0, tolerance: 1e-10, maxIterations: 200 }); // JIT warm-up
+  for (let rep = 0; rep < 5; rep++) {
     const [cs, ci, cr, cc] = runC(exe, [String(n), '1']).split(/\s+/).map(Number);
     if (cs < cSec) { cSec = cs; cIt = ci; cRes = cr; cCentre = cc; }
     const r = solveUnit(op, mg, { electrode: 0, tolerance: 1e-10, maxIterations: 200 });
