@@ -51,7 +51,9 @@ export type AxialShape =
    * (vertex = r0). `cap`: 2(z − center)² − r² ≥ 2·vertex² on the side sign(z − center) = side,
    * r ≤ truncate, with a hole of radius `hole` about the axis (vertex = z0).
    */
-  | { kind: 'hyperboloid'; sheet: 'ring' | 'cap'; vertex: number; center: number; truncate: number; side: 1 | -1; hole: number };
+  | { kind: 'hyperboloid'; sheet: 'ring' | 'cap'; vertex: number; center: number; truncate: number; side: 1 | -1; hole: number }
+  /** A solid sphere centred on the axis at z = center (the axial twin of the 3D `sphere`). */
+  | { kind: 'ball'; center: number; radius: number };
 
 /** Shapes of a full 3D grid: points are (x, y, z). */
 export type SolidShape =
@@ -86,7 +88,12 @@ export interface FieldProblem {
   electrodes: readonly Electrode[];
 }
 
-/** The grid as solved: node (i, j, k) sits at origin + spacing·(i, j, k), stage-local SI. */
+/**
+ * The grid as solved: node (i, j, k) sits at origin + spacing·(i, j, k), stage-local SI. A mirrored
+ * grid holds the half on the positive side of each mirror plane (x ≥ 0, y ≥ 0, z ≥ length / 2; node
+ * index 0 lies on the plane); the other half is its mirror image. When an extent is not a whole number
+ * of spacings the last node lies just beyond the box face (and holds the face's value).
+ */
 export interface SolvedGrid {
   symmetry: GridSymmetry;
   /** Coordinates of node (0, 0, 0): planar (x, y, 0), axial (r = 0, z, 0), none (x, y, z), m. */
@@ -109,7 +116,10 @@ export interface SolveStats {
 
 export interface FieldSolution {
   grid: SolvedGrid;
-  /** One unit solution per electrode, in problem order: that electrode at 1 V, all else at 0 V. */
+  /**
+   * One unit solution per electrode, in problem order: that electrode at 1 V, all else at 0 V.
+   * Each may be a view into a larger buffer (mind byteOffset when writing its bytes).
+   */
   units: Float64Array[];
   /** Per node, index i + nx·(j + ny·k): the electrode the node lies inside, or -1 where free. */
   inside: Int16Array;
