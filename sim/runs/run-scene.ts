@@ -16,7 +16,7 @@ import { EnsembleHistory } from '../engine/history.js';
 import type { BatchResult } from '../engine/track.js';
 import { isElectrostatic } from '../engine/potential.js';
 import { ArrivalTally, figureBlocks, needsArrivals, SpeciesTally, StepTally, type BatchReducer } from './reducers.js';
-import { checkCoupledScene, runCoupled } from '../engine/run-coupled.js';
+import { prepareCoupled, runCoupled } from '../engine/run-coupled.js';
 import { detectorOf } from '../scene/detector.js';
 import { checkIntegrator, checkStartsInside, sceneWarnings } from '../engine/checks.js';
 import { checkOutputLimit, estimateRun, type RunEstimate } from './estimate.js';
@@ -43,13 +43,14 @@ export interface RunOptions {
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
   checkStartsInside(scene);
   checkIntegrator(scene);
-  if (scene.spaceCharge) checkCoupledScene(scene);
+  // A coupled run draws its ions and chooses its step first: its checks need the cloud.
+  const coupled = scene.spaceCharge ? prepareCoupled(scene) : null;
   const started = new Date();
   const t0 = performance.now();
   const plan = planBatches(scene);
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
-  const estimate = estimateRun(scene, { csv: opts.csv });
+  const estimate = estimateRun(scene, { csv: opts.csv, coupledSteps: coupled?.step.steps });
   checkOutputLimit(estimate, opts.maxOutput);
   const writer = await RunFolderWriter.create(opts.out, { force: opts.force, csv: opts.csv });
   opts.onEstimate?.(estimate, workers);
@@ -64,6 +65,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   let stoppedBy = 'a stop request';
   const offSignals = opts.handleSigint ? onStopSignal((sig) => { stop = true; stoppedBy = sig; }) : null;
   let spaceCharge: Record<string, unknown> | undefined;
+  let stoppedAt: number | undefined;
   const onResult = (r: BatchResult) => {
         writer.appendIons(r);
         if (r.trajectory && r.trajectory.length > 0) writer.appendTrajectory(splitPoints(r.trajectory));
@@ -73,9 +75,11 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
         opts.progress?.(done, plan.total);
   };
   try {
-    if (scene.spaceCharge) {
-      const c = await runCoupled(scene, workers);
+    if (coupled) {
+      const c = await runCoupled(scene, coupled, { workers, stopped: () => stop, progress: opts.progress });
       spaceCharge = c.figures;
+      stoppedAt = c.stoppedAt;
+      warnings.push(...c.warnings);
       onResult(c.result);
     } else {
       await runBatches(scene, plan, { workers, stopped: () => stop, onResult });
@@ -85,18 +89,18 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
     await writer.abort();
     throw e;
   }
-  const complete = done === plan.total;
-  if (!complete) warnings.push(`interrupted (${stoppedBy}): ${done} of ${plan.total} ions finished; the tables hold those only`);
+  const complete = done === plan.total && stoppedAt === undefined;
+  if (stoppedAt !== undefined) {
+    warnings.push(`interrupted (${stoppedBy}): the coupled run stopped at t = ${Number((stoppedAt * 1e6).toPrecision(4))} µs of max_time ${Number((scene.run.maxTime * 1e6).toPrecision(4))} µs; ions still in flight are kept as alive at that time`);
+  } else if (!complete) warnings.push(`interrupted (${stoppedBy}): ${done} of ${plan.total} ions finished; the tables hold those only`);
   const { steps, energyError } = stepTally;
   if (isElectrostatic(scene) && energyError > 1e-6) {
     warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
   }
   const histCols = hist.table();
   const speciesCols = hist.speciesTable();
-  if (!scene.spaceCharge) {
-    writer.writeHistory(histCols);
-    if (speciesCols) writer.writeSpeciesHistory(speciesCols);
-  }
+  writer.writeHistory(histCols);
+  if (speciesCols) writer.writeSpeciesHistory(speciesCols);
   const species: SpeciesSummary[] = tally.species();
   const totals = species.reduce((a, s) => ({
     total: a.total + s.total, detected: a.detected + s.detected, hit: a.hit + s.hit,
@@ -118,7 +122,9 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       seed: scene.seed,
       command_line: opts.commandLine ?? '',
       // Only the settings that apply: a tolerance exists for the adaptive method alone.
-      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, ...(scene.run.integrator === 'dopri5' && !scene.spaceCharge ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
+      integrator: coupled
+        ? { method: 'verlet (coupled ensemble)', step_s: coupled.step.h, steps: coupled.step.steps, step_chosen_from: coupled.step.from, steps_per_cycle: scene.run.stepsPerCycle, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery }
+        : { method: scene.run.integrator, ...(scene.run.integrator === 'dopri5' ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
       workers,
       started_at: started.toISOString(),
       batch_size: plan.size,
