@@ -25,7 +25,6 @@ export function sceneWarnings(scene: Scene): string[] {
   w.push(...plausibilityWarnings(scene));
   const alias = historyAliasWarning(scene);
   if (alias) w.push(alias);
-  if (scene.spaceCharge && scene.run.recordEvery > 0) w.push('space_charge: trajectories are not recorded in coupled runs; summary.json carries the cloud figures');
   return w;
 }
 

@@ -9,7 +9,8 @@ import { TrajectoryRecorder } from './recorder.js';
 import { EnsembleHistory } from './history.js';
 import { populationOffsets, startIon } from './start.js';
 import { kindOf, rfOf } from '../stages/registry.js';
-import { detectorOf, missesDetector } from '../scene/detector.js';
+import { detectorOf } from '../scene/detector.js';
+import { afterLeaving, fateOf } from './exits.js';
 import { dcPotential, isElectrostatic, stageBasePotentials, stageFields } from './potential.js';
 import { ELECTRONVOLT } from '../units/constants.js';
 
@@ -47,7 +48,6 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
   // Each stage's kind, looked up once: the loop below asks it when an ion enters the stage.
   const kinds = scene.stages.map(kindOf);
   const drives = scene.stages.map(rfOf);
-  const last = scene.stages.length - 1;
   const detectorRadius = detectorOf(scene).radius;
   const fields = stageFields(scene);
   const electrostatic = isElectrostatic(scene, fields);
@@ -91,18 +91,9 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       const code = kind.track(st, c, ctx, run);
       if (code === Exit.hit) { fate = Fate.hit; break; }
       if (code === Exit.time) { fate = Fate.alive; break; }
-      const forward = code === Exit.forward;
-      const own = kind.exitFate(st, forward);
-      if (own !== undefined) { fate = own; break; }
-      if (forward) {
-        // The detector plane is the exit plane of the last stage (sim/scene/detector.ts).
-        if (s === last) { fate = missesDetector(c.x, c.y, detectorRadius) ? Fate.missed : Fate.detected; break; }
-        s++;
-      } else {
-        // Back out through the entrance of the first stage, towards the source.
-        if (s === 0) { fate = Fate.returned; break; }
-        s--;
-      }
+      const next = afterLeaving(scene.stages, kinds, s, code === Exit.forward, c.x, c.y, detectorRadius);
+      if (next < 0) { fate = fateOf(next); break; }
+      s = next;
       if (rec !== null) rec.push(ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);
     }
     if (rec !== null) rec.push(ion, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz);

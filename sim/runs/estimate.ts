@@ -56,13 +56,14 @@ function stepped(scene: Scene): boolean {
   return scene.stages.some((st) => !kindOf(st).uniformField || st.gas !== undefined || scene.gas !== undefined);
 }
 
-export function estimateRun(scene: Scene, opts: { csv?: boolean } = {}): RunEstimate {
+/** `coupledSteps`: the steps of a space-charge run (sim/engine/coupled-step.ts), which moves every ion on each. */
+export function estimateRun(scene: Scene, opts: { csv?: boolean; coupledSteps?: number } = {}): RunEstimate {
   const ions = scene.ions.reduce((a, p) => a + p.count, 0);
   const rf = firstRf(scene.stages);
   const h = rf ? 1 / rf.rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
-  const stepsPerIon = stepped(scene) ? scene.run.maxTime / h : 0;
+  const stepsPerIon = opts.coupledSteps ?? (stepped(scene) ? scene.run.maxTime / h : 0);
   // Points at the start, at every stage boundary and every record_every steps (batches.ts).
-  const record = scene.run.recordEvery > 0 && !scene.spaceCharge;
+  const record = scene.run.recordEvery > 0;
   const pointsPerIon = record ? Math.ceil(stepsPerIon / scene.run.recordEvery) + 2 * scene.stages.length + 2 : 0;
   const pointBytes = TRAJECTORY_POINT_BYTES + (opts.csv ? TRAJECTORY_CSV_POINT_BYTES : 0);
   const rowBytes = ION_ROW_BYTES + (opts.csv ? ION_CSV_ROW_BYTES : 0);

@@ -13,7 +13,7 @@ import { TOOL_VERSION } from '../version.js';
 import { planBatches } from '../engine/batches.js';
 import { runBatches } from '../engine/pool.js';
 import type { BatchResult } from '../engine/track.js';
-import { checkCoupledScene, runCoupled } from '../engine/run-coupled.js';
+import { prepareCoupled, runCoupled } from '../engine/run-coupled.js';
 import { checkIntegrator, checkStartsInside, sceneWarnings } from '../engine/checks.js';
 import { checkOutputLimit, estimateRun, type RunEstimate } from './estimate.js';
 import { onStopSignal } from './stop-signals.js';
@@ -46,7 +46,8 @@ export const HISTORY_BATCH_COLUMNS: readonly ColumnSpec[] = [{ name: 'batch', ki
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
   checkStartsInside(scene);
   checkIntegrator(scene);
-  if (scene.spaceCharge) checkCoupledScene(scene);
+  // A coupled run draws its ions and chooses its step first: its checks need the cloud.
+  const coupled = scene.spaceCharge ? prepareCoupled(scene) : null;
   const started = new Date();
   const t0 = performance.now();
   const plan = planBatches(scene);
@@ -59,7 +60,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   const total = ions[1] - ions[0];
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const warnings = sceneWarnings(scene);
-  const estimate = estimateRun(scene, { csv: opts.csv });
+  const estimate = estimateRun(scene, { csv: opts.csv, coupledSteps: coupled?.step.steps });
   // The summaries, as reducers fed every batch result in batch order (reducers.ts).
   const t = runTallies(scene);
   // A part writes its slice only, and each of its batches' history sums (history_batches.arrow).
@@ -74,6 +75,7 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   let stoppedBy = 'a stop request';
   const offSignals = opts.handleSigint ? onStopSignal((sig) => { stop = true; stoppedBy = sig; }) : null;
   let spaceCharge: Record<string, unknown> | undefined;
+  let stoppedAt: number | undefined;
   const onResult = (r: BatchResult) => {
         writer.appendIons(r);
         if (r.trajectory && r.trajectory.length > 0) writer.appendTrajectory(splitPoints(r.trajectory));
@@ -84,9 +86,11 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
         opts.progress?.(done, total);
   };
   try {
-    if (scene.spaceCharge) {
-      const c = await runCoupled(scene, workers);
+    if (coupled) {
+      const c = await runCoupled(scene, coupled, { workers, stopped: () => stop, progress: opts.progress });
       spaceCharge = c.figures;
+      stoppedAt = c.stoppedAt;
+      warnings.push(...c.warnings);
       onResult(c.result);
     } else {
       await runBatches(scene, plan, { workers, stopped: () => stop, onResult, first: batches[0], end: batches[1] });
@@ -98,12 +102,10 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
   }
   const { summary, histCols, speciesCols } = runSummary(scene, t, {
     done, total, stoppedBy, warnings, workers, started, wallS: (performance.now() - t0) / 1000, estimate,
-    batchSize: plan.size, sceneFile: opts.sceneFile ?? null, commandLine: opts.commandLine ?? '', spaceCharge,
+    batchSize: plan.size, sceneFile: opts.sceneFile ?? null, commandLine: opts.commandLine ?? '', spaceCharge, stoppedAt, coupledStep: coupled?.step,
   });
-  if (!scene.spaceCharge) {
-    writer.writeHistory(histCols);
-    if (speciesCols) writer.writeSpeciesHistory(speciesCols);
-  }
+  writer.writeHistory(histCols);
+  if (speciesCols) writer.writeSpeciesHistory(speciesCols);
   if (opts.shard) {
     const shard = { index: opts.shard.spec.index, count: opts.shard.spec.count, batches, ions };
     summary.provenance.shard = shard;

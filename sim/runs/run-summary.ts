@@ -44,13 +44,19 @@ export interface SummaryContext {
   sceneFile: string | null;
   commandLine: string;
   spaceCharge?: Record<string, unknown>;
+  /** A coupled run stopped early: the run time it reached, s. */
+  stoppedAt?: number;
+  /** A coupled run's step, its count and what it was chosen from. */
+  coupledStep?: { h: number; steps: number; from: string };
 }
 
-/** The summary and the history tables (written by the caller: a coupled run has none). */
+/** The summary and the history tables (written by the caller). */
 export function runSummary(scene: Scene, t: RunTallies, c: SummaryContext) {
   const warnings = c.warnings;
-  const complete = c.done === c.total;
-  if (!complete) warnings.push(`interrupted (${c.stoppedBy}): ${c.done} of ${c.total} ions finished; the tables hold those only`);
+  const complete = c.done === c.total && c.stoppedAt === undefined;
+  if (c.stoppedAt !== undefined) {
+    warnings.push(`interrupted (${c.stoppedBy}): the coupled run stopped at t = ${Number((c.stoppedAt * 1e6).toPrecision(4))} µs of max_time ${Number((scene.run.maxTime * 1e6).toPrecision(4))} µs; ions still in flight are kept as alive at that time`);
+  } else if (!complete) warnings.push(`interrupted (${c.stoppedBy}): ${c.done} of ${c.total} ions finished; the tables hold those only`);
   const { steps, energyError } = t.stepTally;
   if (isElectrostatic(scene) && energyError > 1e-6) {
     warnings.push(`energy drift ${energyError.toExponential(2)} (relative) in an electrostatic-only scene exceeds 1e-6`);
@@ -78,7 +84,9 @@ export function runSummary(scene: Scene, t: RunTallies, c: SummaryContext) {
       seed: scene.seed,
       command_line: c.commandLine,
       // Only the settings that apply: a tolerance exists for the adaptive method alone.
-      integrator: { method: scene.spaceCharge ? 'verlet (coupled ensemble)' : scene.run.integrator, ...(scene.run.integrator === 'dopri5' && !scene.spaceCharge ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
+      integrator: c.coupledStep
+        ? { method: 'verlet (coupled ensemble)', step_s: c.coupledStep.h, steps: c.coupledStep.steps, step_chosen_from: c.coupledStep.from, steps_per_cycle: scene.run.stepsPerCycle, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery }
+        : { method: scene.run.integrator, ...(scene.run.integrator === 'dopri5' ? { tolerance: scene.run.tolerance } : {}), steps_per_cycle: scene.run.stepsPerCycle, step_without_rf_s: scene.run.stepNoRf, max_time_s: scene.run.maxTime, record_every: scene.run.recordEvery },
       workers: c.workers,
       started_at: c.started.toISOString(),
       batch_size: c.batchSize,

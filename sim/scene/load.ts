@@ -72,7 +72,7 @@ export const SCENE_SCHEMA: Field = {
       kind: 'object',
       fields: {
         method: { kind: 'enum', values: ['direct', 'tree'] },
-        weight: { kind: 'number', positive: true },
+        weight: { kind: 'number', min: 1 },
         softening: { kind: 'quantity', dim: 'length', positive: true },
         theta: { kind: 'number', positive: true, max: 1.5 },
       },
@@ -190,6 +190,8 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
     historyEvery: r.history_every ?? defaultHistoryEvery(maxTime, stages, ions),
     stepNoRf: r.step_without_rf ?? rfStep ?? maxTime / 10000,
   };
+  // A coupled run without RF chooses its own step unless the scene sets one (sim/engine/coupled-step.ts).
+  if (r.step_without_rf !== undefined) runSettings.stepNoRfSet = true;
 
   const scene: Scene = {
     name: raw.name ?? origin.file.replace(/^.*\//, '').replace(/\.ya?ml$/, ''),

@@ -33,6 +33,8 @@ export interface RunSettings {
   historyEvery: number;
   /** Step for stages without RF when they must be stepped (gas), s. */
   stepNoRf: number;
+  /** run.step_without_rf was given in the scene (not the default). */
+  stepNoRfSet?: true;
   /**
    * Trajectory points inside closed-form stages (drift, acceleration, reflectron) at this time
    * spacing, s, from the exact motion, besides the stage crossings; unset: crossings only. No scene

@@ -245,6 +245,13 @@ export function runEnsemble(e: Ensemble, o: RunOptions): EnsembleHistory {
 }
 
 function record(e: Ensemble, hs: EnsembleHistory, r: number, t: number): void {
+  const m = cloudMoments(e);
+  hs.t[r] = t; hs.cx[r] = m.cx; hs.cy[r] = m.cy; hs.cz[r] = m.cz;
+  hs.sx[r] = m.sx; hs.sy[r] = m.sy; hs.sz[r] = m.sz; hs.sr[r] = m.sr; hs.alive[r] = m.n;
+}
+
+/** Centroid, RMS sizes about it (per axis and 3D, m) and number of the ions in the cloud. */
+export function cloudMoments(e: Ensemble) {
   let n = 0, cx = 0, cy = 0, cz = 0;
   for (let i = 0; i < e.n; i++) if (e.alive[i]) { n++; cx += e.x[i]; cy += e.y[i]; cz += e.z[i]; }
   if (n > 0) { cx /= n; cy /= n; cz /= n; }
@@ -254,9 +261,7 @@ function record(e: Ensemble, hs: EnsembleHistory, r: number, t: number): void {
     sx += dx * dx; sy += dy * dy; sz += dz * dz;
   }
   const d = Math.max(n, 1);
-  hs.t[r] = t; hs.cx[r] = cx; hs.cy[r] = cy; hs.cz[r] = cz;
-  hs.sx[r] = Math.sqrt(sx / d); hs.sy[r] = Math.sqrt(sy / d); hs.sz[r] = Math.sqrt(sz / d);
-  hs.sr[r] = Math.sqrt((sx + sy + sz) / d); hs.alive[r] = n;
+  return { n, cx, cy, cz, sx: Math.sqrt(sx / d), sy: Math.sqrt(sy / d), sz: Math.sqrt(sz / d), sr: Math.sqrt((sx + sy + sz) / d) };
 }
 
 /** Kinetic energy of the ions in the cloud, J, counting each macro-ion as `weight` real ions. */

@@ -1,8 +1,9 @@
 // Space-charge figures of an ion cloud held in the ideal 3D RF trap: the single-ion secular
 // frequencies (axial z and radial x, about the centroid), the time-averaged RMS sizes and the ions
-// lost — the quantities of a capacity curve (shift and loss vs stored charge). One coupled run.
+// lost — the quantities of a capacity curve (shift and loss vs stored charge). The observer below
+// samples a coupled run step by step (the engine's coupled flight, or runEnsemble here).
 
-import { runEnsemble, type Ensemble, type EnsembleHistory, type SpaceChargeSettings } from './ensemble-step.js';
+import { cloudMoments, runEnsemble, type Ensemble, type EnsembleHistory, type SpaceChargeSettings } from './ensemble-step.js';
 import { SecularSpectrum } from './spectrum.js';
 import type { FieldModel } from '../core/field-model.js';
 
@@ -23,31 +24,60 @@ export interface TrapCloudFigures {
   /** RMS sizes, m, averaged over the second half of the run (transients of the start excluded). */
   rmsZ: number; rmsR: number;
   lost: number; softening: number;
-  history: EnsembleHistory;
+  history?: EnsembleHistory;
+}
+
+/**
+ * Samples a cloud centred on z = 0 after every step of a coupled run: the secular spectra every
+ * samplePeriods RF periods, the RMS sizes once per RF period (and at the start and the end).
+ */
+export class TrapCloudObserver {
+  private readonly specZ: SecularSpectrum; private readonly specR: SecularSpectrum;
+  private readonly every: number;
+  private step = 0;
+  private readonly sz: number[] = []; private readonly sr: number[] = [];
+  private readonly n0: number;
+
+  constructor(e: Ensemble, private readonly o: Omit<TrapCloudOptions, 'field' | 'spaceCharge'> & { steps: number }) {
+    if (!(o.stepsPerCycle >= 20)) throw new RangeError(`steps per RF period must be ≥ 20, got ${o.stepsPerCycle}`);
+    const nf = o.spectrumPoints ?? 161;
+    this.specZ = new SecularSpectrum(e.n, o.bandZ[0], o.bandZ[1], nf, 0, o.duration, 'z');
+    this.specR = new SecularSpectrum(e.n, o.bandR[0], o.bandR[1], nf, 0, o.duration, 'x');
+    this.every = Math.max(1, Math.round((o.samplePeriods ?? 0.25) * o.stepsPerCycle));
+    this.n0 = countAlive(e);
+    this.sample(e);
+  }
+
+  onStep(t: number, e: Ensemble): void {
+    if (this.step++ % this.every === 0) { this.specZ.add(t, e); this.specR.add(t, e); }
+    if (this.step % this.o.stepsPerCycle === 0 || this.step === this.o.steps) this.sample(e);
+  }
+
+  private sample(e: Ensemble): void {
+    const m = cloudMoments(e);
+    this.sz.push(m.sz); this.sr.push(Math.hypot(m.sx, m.sy));
+  }
+
+  figures(e: Ensemble, softening: number): TrapCloudFigures {
+    let sz = 0, sr = 0, k = 0;
+    for (let r = Math.floor(this.sz.length / 2); r < this.sz.length; r++) { sz += this.sz[r]; sr += this.sr[r]; k++; }
+    return {
+      secularZHz: this.specZ.peak(), secularRHz: this.specR.peak(), rmsZ: sz / k, rmsR: sr / k,
+      lost: this.n0 - countAlive(e), softening,
+    };
+  }
 }
 
 export function trapCloudFigures(e: Ensemble, o: TrapCloudOptions): TrapCloudFigures {
-  if (!(o.stepsPerCycle >= 20)) throw new RangeError(`steps per RF period must be ≥ 20, got ${o.stepsPerCycle}`);
-  const nf = o.spectrumPoints ?? 161;
-  const specZ = new SecularSpectrum(e.n, o.bandZ[0], o.bandZ[1], nf, 0, o.duration, 'z');
-  const specR = new SecularSpectrum(e.n, o.bandR[0], o.bandR[1], nf, 0, o.duration, 'x');
-  const every = Math.max(1, Math.round((o.samplePeriods ?? 0.25) * o.stepsPerCycle));
-  const n0 = countAlive(e);
-  let step = 0;
+  const h = 1 / (o.stepsPerCycle * o.rfHz);
+  const steps = Math.ceil(o.duration / h - 1e-9);
+  const obs = new TrapCloudObserver(e, { ...o, steps });
   const history = runEnsemble(e, {
-    tEnd: o.duration, h: 1 / (o.stepsPerCycle * o.rfHz), spaceCharge: o.spaceCharge,
-    recordEvery: o.stepsPerCycle,
+    tEnd: o.duration, h, spaceCharge: o.spaceCharge, recordEvery: o.stepsPerCycle,
     external: { kind: 'field', model: o.field },
-    onStep: (t, en) => { if (step++ % every === 0) { specZ.add(t, en); specR.add(t, en); } },
+    onStep: (t, en) => obs.onStep(t, en),
   });
-  let sz = 0, sr = 0, k = 0;
-  for (let r = Math.floor(history.t.length / 2); r < history.t.length; r++) {
-    sz += history.sz[r]; sr += Math.hypot(history.sx[r], history.sy[r]); k++;
-  }
-  return {
-    secularZHz: specZ.peak(), secularRHz: specR.peak(), rmsZ: sz / k, rmsR: sr / k,
-    lost: n0 - countAlive(e), softening: history.softening, history,
-  };
+  return { ...obs.figures(e, history.softening), history };
 }
 
 function countAlive(e: Ensemble): number {

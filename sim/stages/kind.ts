@@ -4,6 +4,7 @@
 
 import type { Field } from '../scene/schema.js';
 import type { FieldModel } from '../core/field-model.js';
+import type { StageCoupling } from '../core/coupling.js';
 import type { ExitCode, IonCursor, StepContext } from '../core/cursor.js';
 import type { FateCode } from '../core/batch.js';
 import type { GasSettings } from '../gas/settings.js';
@@ -54,6 +55,12 @@ export interface StageKind<S extends Stage = Stage> {
   /** The RF drive of the stage, or undefined when it has none. */
   rf(st: S): RfDrive | undefined;
   field(st: S): FieldModel;
+  /**
+   * The stage in a coupled space-charge run (sim/core/coupling.ts: the field of its kicks or of
+   * its closed-form flight, the electrode test, the plates of its end planes). A kind without it
+   * cannot take part in a space-charge run yet, and such a scene is refused with one line.
+   */
+  coupling?(st: S): StageCoupling;
   /** Move the ion from its entry to its exit (or loss, or max_time) through the stage. */
   track(st: S, c: IonCursor, ctx: StepContext, run: KernelSettings): ExitCode;
   /**

@@ -49,9 +49,9 @@ describe('space charge in the run engine', () => {
     expect(heavy.space_charge.real_charges).toBe(6000);
     expect(readFileSync(join(d, 'w60-1', 'ions.arrow')).equals(readFileSync(join(d, 'w60-2', 'ions.arrow')))).toBe(true);
     expect(heavy2.space_charge).toEqual(heavy.space_charge);
-  });
+  }, 120_000);
 
-  it('an ion the cloud pushes onto the electrodes ends at the step it left, the others at max_time', () => {
+  it('an ion the cloud pushes onto the electrodes ends at the step it left, the others at max_time', { timeout: 120_000 }, () => {
     // 6e6 charges in a cloud of 0.3 mm: far past capacity, so the Coulomb push empties much of the
     // trap (common practice, no source). The run folder must say when each ion left.
     const d = tempDir();
@@ -71,19 +71,21 @@ describe('space charge in the run engine', () => {
         expect(t).toBeGreaterThan(0);
         expect(t).toBeLessThan(maxTime);
         expect(Math.abs(t / h - Math.round(t / h))).toBeLessThan(1e-6); // at a step time
-      } else expect(Math.abs(t - maxTime)).toBeLessThan(1e-12);
+      } else if (v[iFate] === 'alive') expect(Math.abs(t - maxTime)).toBeLessThan(1e-12);
+      // Pushed out through an end-cap hole (issue 14): detected or missed behind the cap, before max_time.
+      else expect(t).toBeLessThan(maxTime);
     }
     expect(lost).toBeGreaterThan(10);
     expect(lost).toBe(JSON.parse(r.stdout).space_charge.lost);
   });
 
-  it('refuses space charge outside a single trap stage with a one-line error', () => {
+  it('refuses the adaptive integrator with space charge in one line', () => {
     const d = tempDir();
     const f = join(d, 's.yaml');
-    writeFileSync(f, scene(1).replace('stages:', 'stages:\n  - { type: drift, length: 10 mm }'));
+    writeFileSync(f, scene(1).replace('run: { steps_per_cycle: 40,', 'run: { integrator: dopri5, steps_per_cycle: 40,'));
     const r = iontrail(['run', f, '-o', join(d, 'o')]);
     expect(r.code).toBe(2);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
-    expect(r.stderr).toMatch(/space_charge: supported for a scene of a single trap stage/);
+    expect(r.stderr).toMatch(/run\.integrator: a space-charge run steps all ions together/);
   });
 });

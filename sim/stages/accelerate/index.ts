@@ -7,6 +7,7 @@ import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, VOLTAGE_FIELD } from '../../sc
 import type { StageKind } from '../kind.js';
 import { lengthMm, num, voltLabel, volts } from '../shared/describe.js';
 import { uniformField } from '../shared/uniform-field.js';
+import { uniformCoupling } from '../shared/uniform-coupling.js';
 import { trackUniform } from '../shared/uniform-kernel.js';
 import type { AccelerateStage } from './stage.js';
 
@@ -49,6 +50,7 @@ export const accelerateKind: StageKind<AccelerateStage> = {
   hasRf: false,
   rf: () => undefined,
   field: (st) => uniformField(st.zStart, st.length, st.voltage, st.aperture),
+  coupling: (st) => uniformCoupling(st.length, st.voltage, st.aperture),
   track: (st, c, ctx, run) => trackUniform(st, c, ctx, run.stepNoRf),
   // A reflectron's closed back plate: an ion that reaches it is lost.
   exitFate: (st, forward) => (forward && st.closed ? Fate.hit : undefined),

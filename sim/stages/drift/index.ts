@@ -6,6 +6,7 @@ import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
 import { lengthMm } from '../shared/describe.js';
 import { uniformField } from '../shared/uniform-field.js';
+import { uniformCoupling } from '../shared/uniform-coupling.js';
 import { trackUniform } from '../shared/uniform-kernel.js';
 import type { DriftStage } from './stage.js';
 
@@ -29,6 +30,7 @@ export const driftKind: StageKind<DriftStage> = {
   hasRf: false,
   rf: () => undefined,
   field: (st) => uniformField(st.zStart, st.length, 0, st.aperture),
+  coupling: (st) => uniformCoupling(st.length, 0, st.aperture),
   track: (st, c, ctx, run) => trackUniform(st, c, ctx, run.stepNoRf),
   // A reflectron's detector sits at the entrance of the drift the ions come back through.
   exitFate: (st, forward) => (!forward && st.detectReturning ? Fate.detected : undefined),

@@ -3,6 +3,7 @@
 import { Exit } from '../../core/cursor.js';
 import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
+import { quadrupoleCoupling } from './coupling.js';
 import { trackAdaptive } from '../shared/adaptive.js';
 import { adaptiveQuadrupole } from './adaptive.js';
 import { quadrupoleField } from './field.js';
@@ -35,6 +36,7 @@ export const quadrupoleKind: StageKind<QuadrupoleStage> = {
   analyzer: 'quadrupole',
   rf: (st) => st.rf,
   field: quadrupoleField,
+  coupling: quadrupoleCoupling,
   track(st, c, ctx, run) {
     // The entrance and exit plates (apertures.ts), then the rods.
     if (blockedOnEntry(st, c)) return Exit.hit;

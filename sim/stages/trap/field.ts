@@ -40,13 +40,18 @@ export function trapField(st: TrapStage): FieldModel {
       if (aux) p -= (aux.amplitude * Math.cos(2 * Math.PI * aux.frequency * t + aux.phase) * z) / (2 * st.z0);
       return p;
     },
-    // The coupled stepper's form (sim/spacecharge): constant amplitude, no supplementary AC there.
+    // The coupled stepper's form (sim/engine/coupled-flight.ts), with the ramp and the
+    // supplementary AC; every ion of a coupled run shares the run clock (no start offset τ).
     addAcceleration(t, n, x, y, z, qm, ax, ay, az) {
-      // E = −∇Φ = −(U + V cos(Ωt+φ))/(r0² + 2z0²) · (2x, 2y, −4z)
-      const g = -(U + V0 * Math.cos(omega * t + ph)) / d2;
+      // E = −∇Φ = −(U + V(t) cos(Ωt+φ))/(r0² + 2z0²) · (2x, 2y, −4z)
+      const g = -(U + (ramp ? vAt(t) : V0) * Math.cos(omega * t + ph)) / d2;
       for (let i = 0; i < n; i++) {
         const k = qm[i] * g;
         ax[i] += 2 * k * x[i]; ay[i] += 2 * k * y[i]; az[i] -= 4 * k * z[i];
+      }
+      if (aux && aux.amplitude !== 0) {
+        const ez = (aux.amplitude * Math.cos(2 * Math.PI * aux.frequency * t + aux.phase)) / (2 * st.z0);
+        for (let i = 0; i < n; i++) az[i] += qm[i] * ez;
       }
     },
     outside(x, y, z) {

@@ -3,6 +3,7 @@
 
 import { APERTURE_FIELD, GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
+import { trapCoupling } from './coupling.js';
 import { trackAdaptive } from '../shared/adaptive.js';
 import { dcPlusRf, mm2, num, rfAmplitude, voltLabel } from '../shared/describe.js';
 import { r0Plausibility } from '../shared/plausible.js';
@@ -39,6 +40,7 @@ export const trapKind: StageKind<TrapStage> = {
   analyzer: 'trap',
   rf: (st) => st.rf,
   field: trapField,
+  coupling: trapCoupling,
   track: (st, c, ctx, run) => (run.integrator === 'dopri5'
     ? trackAdaptive(adaptiveTrap(st, c, ctx), c, ctx, run.tolerance)
     : trackTrap(st, c, ctx, run.stepsPerCycle)),
