@@ -3,6 +3,7 @@
 import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
+import { refuseUnflyable } from '../flight.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { progressBar } from '../progress.js';
 import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
@@ -58,6 +59,7 @@ export async function run(argv: string[]): Promise<number> {
   const workers = parseCount(flag(a, 'workers'), '--workers', 1);
   const limit = maxOutput(a);
   const { scene } = loadSceneFile(file, { set: a.values.get('set') ?? [], seed });
+  refuseUnflyable(file, scene.stages);
   const bar = progressBar('run');
   const summary = await runScene(scene, {
     out, force: a.switches.has('force'), csv: a.switches.has('csv'), workers, sceneFile: file,
