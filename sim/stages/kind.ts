@@ -11,6 +11,7 @@ import type { Analyzer, OperatingPoint } from '../mathieu/parameters.js';
 import type { RfDrive } from './base.js';
 import type { Stage } from './types.js';
 import type { ElectrodeLabel, OutlinePart } from './outline.js';
+import type { FieldProblem } from '../fields/problem.js';
 
 /** What an entry's resolution gets besides its validated keys. */
 export interface ResolveContext {
@@ -96,6 +97,8 @@ export interface StageKind<S extends Stage = Stage> {
    * a scene with one, in one line), or undefined when they can.
    */
   readonly flightUnavailable?: string;
+  /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
+  fieldProblem?(st: S): FieldProblem;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */
   readonly assumptions: readonly string[];
   /**

@@ -67,3 +67,8 @@ export function flightRefusal(stages: readonly Stage[]): string | undefined {
   }
   return undefined;
 }
+
+/** The electrode field problem of a stage, when its kind solves one (sim/fields). */
+export function fieldProblemOf(st: Stage): import('../fields/problem.js').FieldProblem | undefined {
+  return kindOf(st).fieldProblem?.(st);
+}

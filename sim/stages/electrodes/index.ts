@@ -44,6 +44,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   field: (): FieldModel => notYet(),
   track: () => notYet(),
   flightUnavailable: NOT_YET,
+  fieldProblem: (st) => st.problem,
   exitFate: () => undefined,
   exitAperture: () => undefined,
   uniformField: false,
