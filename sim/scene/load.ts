@@ -150,7 +150,16 @@ function resolve(raw: Record<string, any>, doc: Document, origin: Origin, opts: 
     if (!found) throw new SceneError(`${origin.file}: stages.${i}.type: unknown stage type`);
     const made = found.entry.resolve(s, {
       z, index: i, gas: stageGas,
-      fail: (key, msg) => fail(origin, node, ['stages', i, key], msg),
+      fail: (key, msg) => {
+        const sub = typeof key === 'string' ? key.split('.').map((p) => (/^\d+$/.test(p) ? Number(p) : p)) : [...key];
+        // The line of the deepest node the path reaches (the entry's own line when none).
+        let at: Node = node;
+        for (let d = sub.length; d > 0; d--) {
+          const n = doc.getIn(['stages', i, ...sub.slice(0, d)], true) as Node | undefined;
+          if (n && typeof n === 'object') { at = n; break; }
+        }
+        return fail(origin, at, ['stages', i, ...sub], msg);
+      },
     });
     for (const st of made) {
       if (stageGas) st.gas = stageGas;

@@ -17,7 +17,9 @@ export type Field =
   | { kind: 'enumOrQuantity'; values: readonly string[]; dim: Dimension }
   | { kind: 'object'; fields: Record<string, Field>; required?: readonly string[] }
   | { kind: 'list'; item: Field; minItems?: number }
-  | { kind: 'tagged'; tag: string; variants: Record<string, { fields: Record<string, Field>; required?: readonly string[] }> };
+  | { kind: 'tagged'; tag: string; variants: Record<string, { fields: Record<string, Field>; required?: readonly string[] }> }
+  /** A mapping with exactly one key naming the variant, e.g. `circle: { radius: 2 mm }`; returns { kind, ...value }. */
+  | { kind: 'choice'; variants: Record<string, { fields: Record<string, Field>; required?: readonly string[] }> };
 
 /** Where a value came from, for messages: a file position or a --set override. */
 export interface Origin {
@@ -56,6 +58,7 @@ function expectText(f: Field): string {
     case 'enum': return `one of ${f.values.join(', ')}`;
     case 'enumOrQuantity': return `${f.values.join(' or ')}, or ${/^[aeiou]/.test(f.dim) ? 'an' : 'a'} ${f.dim} such as ${DIMENSION_INFO[f.dim].example}`;
     case 'object': case 'tagged': return 'a mapping of keys';
+    case 'choice': return `one of ${Object.keys(f.variants).join(', ')}`;
     case 'list': return 'a list';
   }
 }
@@ -136,6 +139,19 @@ export function validate(node: Node | null | undefined, f: Field, path: Path, or
       }
       const out = validateObject(node, { [f.tag]: { kind: 'string' }, ...variant.fields }, variant.required ?? [], path, origin);
       return out;
+    }
+    case 'choice': {
+      const names = Object.keys(f.variants);
+      if (!isMap(node) || node.items.length !== 1) fail(origin, node, path, `expects one key: ${expectText(f)}`);
+      const pair = node.items[0];
+      const keyNode = pair.key as Node;
+      const name = isScalar(keyNode) ? String(keyNode.value) : String(keyNode);
+      const variant = f.variants[name];
+      if (!variant) {
+        const hint = closestKey(name, names);
+        fail(origin, keyNode, [...path, name], `expects ${expectText(f)}${hint ? ` (did you mean '${hint}'?)` : ''}`);
+      }
+      return { kind: name, ...validateObject(pair.value as Node, variant.fields, variant.required ?? [], [...path, name], origin) };
     }
   }
 }

@@ -12,6 +12,7 @@ import type { Analyzer, OperatingPoint } from '../mathieu/parameters.js';
 import type { RfDrive } from './base.js';
 import type { Stage } from './types.js';
 import type { ElectrodeLabel, OutlinePart } from './outline.js';
+import type { FieldProblem } from '../fields/problem.js';
 
 /** What an entry's resolution gets besides its validated keys. */
 export interface ResolveContext {
@@ -21,8 +22,11 @@ export interface ResolveContext {
   index: number;
   /** The entry's own gas block, resolved. */
   gas?: GasSettings;
-  /** Throws the loader's one-line error for key `key` of this entry. */
-  fail(key: string, message: string): never;
+  /**
+   * Throws the loader's one-line error for key `key` of this entry: a key of the entry, a dotted
+   * path inside it ("electrodes.1.shapes.0"), or the path as a list.
+   */
+  fail(key: string | readonly (string | number)[], message: string): never;
 }
 
 /** One `type:` value of the scene file: its keys (with units) and how it resolves to SI stages. */
@@ -95,6 +99,13 @@ export interface StageKind<S extends Stage = Stage> {
    * folder's provenance: stage-local SI lengths, volts). Empty for a stage with nothing to label.
    */
   electrodeLabels(st: Readonly<Record<string, unknown>>): ElectrodeLabel[];
+  /**
+   * Why ions cannot be flown through stages of this kind yet (`run`, `sweep` and `report` refuse
+   * a scene with one, in one line), or undefined when they can.
+   */
+  readonly flightUnavailable?: string;
+  /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
+  fieldProblem?(st: S): FieldProblem;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */
   readonly assumptions: readonly string[];
   /**

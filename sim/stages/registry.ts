@@ -9,12 +9,14 @@ import { quadrupoleKind } from './quadrupole/index.js';
 import { trapKind } from './trap/index.js';
 import { accelerateKind } from './accelerate/index.js';
 import { driftKind } from './drift/index.js';
+import { electrodesKind } from './electrodes/index.js';
 
 export const STAGE_KINDS: readonly StageKind[] = [
   quadrupoleKind as unknown as StageKind,
   trapKind as unknown as StageKind,
   accelerateKind as unknown as StageKind,
   driftKind as unknown as StageKind,
+  electrodesKind as unknown as StageKind,
 ];
 
 const byType = new Map<string, StageKind>(STAGE_KINDS.map((k) => [k.type, k]));
@@ -55,4 +57,18 @@ export function firstRf(stages: readonly Stage[]): { index: number; stage: Stage
     if (rf !== undefined) return { index: i, stage: stages[i], rf };
   }
   return undefined;
+}
+
+/** Why ions cannot be flown through the scene's stages yet (the first such stage), or undefined. */
+export function flightRefusal(stages: readonly Stage[]): string | undefined {
+  for (let i = 0; i < stages.length; i++) {
+    const why = kindOf(stages[i]).flightUnavailable;
+    if (why !== undefined) return `stage ${stages[i].sceneIndex ?? i} (${kindOf(stages[i]).describe(stages[i] as unknown as Record<string, unknown>)}): ${why}`;
+  }
+  return undefined;
+}
+
+/** The electrode field problem of a stage, when its kind solves one (sim/fields). */
+export function fieldProblemOf(st: Stage): import('../fields/problem.js').FieldProblem | undefined {
+  return kindOf(st).fieldProblem?.(st);
 }

@@ -4,10 +4,11 @@ import type { QuadrupoleStage } from './quadrupole/stage.js';
 import type { TrapStage } from './trap/stage.js';
 import type { DriftStage } from './drift/stage.js';
 import type { AccelerateStage } from './accelerate/stage.js';
+import type { ElectrodesStage } from './electrodes/stage.js';
 
-export type { QuadrupoleStage, TrapStage, DriftStage, AccelerateStage };
+export type { QuadrupoleStage, TrapStage, DriftStage, AccelerateStage, ElectrodesStage };
 export type { RfDrive, StageBase } from './base.js';
 
-export type Stage = QuadrupoleStage | DriftStage | AccelerateStage | TrapStage;
+export type Stage = QuadrupoleStage | DriftStage | AccelerateStage | TrapStage | ElectrodesStage;
 /** The resolved kinds' names (Stage.type). */
 export type StageType = Stage['type'];

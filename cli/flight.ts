@@ -1,0 +1,11 @@
+// run, sweep and report fly ions: a scene with a stage that cannot be flown yet is refused in one
+// line before anything is written (the stage kind says why, sim/stages/kind.ts flightUnavailable).
+
+import { flightRefusal } from '../sim/stages/registry.js';
+import type { Stage } from '../sim/stages/types.js';
+import { UsageError } from './errors.js';
+
+export function refuseUnflyable(file: string, stages: readonly Stage[]): void {
+  const why = flightRefusal(stages);
+  if (why !== undefined) throw new UsageError(`${file}: ${why}`);
+}

@@ -1,0 +1,208 @@
+// Interpolation of a unit solution between grid nodes, with its analytic gradient: the tensor
+// product of 1D cubic Hermite interpolation (bicubic for planar and axial grids, tricubic in 3D)
+// whose node derivatives come from fourth-order finite differences. Cubic Hermite reproduces
+// cubics when its node derivatives are exact, and the five-point differences are exact up to
+// degree four (Fornberg, Math. Comp. 51 (1988), table 1; the one-sided rows at the ends), so the
+// interpolant is exact for every polynomial of degree ≤ 3 in each coordinate. The node values and
+// derivatives are shared by neighbouring cells, so value and gradient are continuous across cell
+// faces (C¹), as in the tricubic scheme of Lekien & Marsden, Int. J. Numer. Meth. Eng. 63 (2005),
+// whose cross derivatives here are the tensor products of the same differences.
+// Each coordinate's interpolation is a 6-tap filter over the nodes i−2..i+3 of its cell; a call
+// allocates nothing (scratch arrays live on the interpolant), which the ion kernels need.
+
+import type { SolvedGrid } from './problem.js';
+
+/** Five-point derivative stencils ×12h: central, and the one-sided rows for nodes 0 and 1. */
+const CENTRAL = [1, -8, 0, 8, -1];
+const NODE0 = [-25, 48, -36, 16, -3];
+const NODE1 = [-3, -10, 18, -6, 1];
+
+interface Axis {
+  n: number;
+  origin: number;
+  h: number;
+  /** Even symmetry about the low end (a mirror plane there, or the axis r = 0 of an axial grid). */
+  reflectLow: boolean;
+  /** Even symmetry about the high end (a mirror plane at z = length/2 when the lower half is stored). */
+  reflectHigh: boolean;
+}
+
+export class GridInterpolant {
+  readonly grid: SolvedGrid;
+  private readonly f: ArrayLike<number>;
+  private readonly axes: Axis[];
+  private readonly s0: number;
+  private readonly s1: number;
+  private readonly s2: number;
+  /** Scratch: per axis the base node, value weights and derivative weights (per unit length). */
+  private readonly base = new Int32Array(3);
+  private readonly wv = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
+  private readonly wd = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
+  /** Scratch: node derivative stencil weights of the cell's two nodes. */
+  private readonly sa = new Float64Array(6);
+  private readonly sb = new Float64Array(6);
+  private readonly mirrorX: boolean;
+  private readonly mirrorY: boolean;
+  private readonly mirrorZ: boolean;
+  private readonly zPlane: number;
+
+  constructor(grid: SolvedGrid, values: ArrayLike<number>) {
+    this.grid = grid;
+    this.f = values;
+    const [n0, n1, n2] = grid.shape;
+    if (values.length !== n0 * n1 * n2) throw new Error(`the grid has ${n0 * n1 * n2} nodes, the values ${values.length}`);
+    const h = grid.spacing;
+    const m = new Set(grid.mirror);
+    const sym = grid.symmetry;
+    this.mirrorX = sym !== 'axial' && m.has('x');
+    this.mirrorY = sym !== 'axial' && m.has('y');
+    this.mirrorZ = sym !== 'planar' && m.has('z');
+    const zAxis = sym === 'axial' ? 1 : 2;
+    const zn = grid.shape[zAxis];
+    // Mirror at z: the stored half ends at the plane; the lower half starts at z = 0.
+    const lowerHalf = Math.abs(grid.origin[zAxis]) < h / 2;
+    this.zPlane = lowerHalf ? grid.origin[zAxis] + (zn - 1) * h : grid.origin[zAxis];
+    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high });
+    if (sym === 'axial') {
+      this.axes = [axis(0, true, false), axis(1, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf), axis(2, false, false)];
+    } else {
+      this.axes = [axis(0, this.mirrorX, false), axis(1, this.mirrorY, false),
+        axis(2, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf)];
+    }
+    for (let i = 0; i < (sym === 'none' ? 3 : 2); i++) if (this.axes[i].n < 6) throw new Error('interpolation needs at least 6 nodes along each axis');
+    this.s0 = 1;
+    this.s1 = n0;
+    this.s2 = n0 * n1;
+  }
+
+  /** Node derivative stencil (×h) of node `i` into `s` over the window base..base+5. */
+  private stencil(a: Axis, i: number, base: number, s: Float64Array): void {
+    s.fill(0);
+    const n = a.n;
+    if ((i >= 2 || a.reflectLow) && (i <= n - 3 || a.reflectHigh)) {
+      for (let k = 0; k < 5; k++) {
+        let j = i - 2 + k;
+        // Even reflection maps a node beyond a symmetric end back inside.
+        if (j < 0) j = -j;
+        else if (j > n - 1) j = 2 * (n - 1) - j;
+        s[j - base] += CENTRAL[k] / 12;
+      }
+    } else if (i <= 1) {
+      const row = i === 0 ? NODE0 : NODE1;
+      for (let k = 0; k < 5; k++) s[k - base] += row[k] / 12;
+    } else {
+      const row = i === n - 1 ? NODE0 : NODE1;
+      for (let k = 0; k < 5; k++) s[n - 1 - k - base] -= row[k] / 12;
+    }
+  }
+
+  /** Fills the weights of axis `ai` at coordinate c; false when c is outside the axis. */
+  private weights(ai: number, c: number): boolean {
+    const a = this.axes[ai];
+    const u = (c - a.origin) / a.h;
+    if (!(u >= -1e-9 && u <= a.n - 1 + 1e-9)) return false;
+    let i = Math.floor(u);
+    if (i > a.n - 2) i = a.n - 2;
+    if (i < 0) i = 0;
+    const t = u - i;
+    // With a symmetric end the window may reach past it (reflected back inside by stencil()).
+    let base = i - 2;
+    if (base < 0) base = 0;
+    if (base > a.n - 6) base = a.n - 6;
+    this.base[ai] = base;
+    const sa = this.sa, sb = this.sb;
+    this.stencil(a, i, base, sa);
+    this.stencil(a, i + 1, base, sb);
+    // Cubic Hermite basis on [0, 1] and its t-derivatives.
+    const t2 = t * t, t3 = t2 * t;
+    const h00 = 2 * t3 - 3 * t2 + 1, h10 = t3 - 2 * t2 + t, h01 = -2 * t3 + 3 * t2, h11 = t3 - t2;
+    const d00 = 6 * t2 - 6 * t, d10 = 3 * t2 - 4 * t + 1, d01 = -6 * t2 + 6 * t, d11 = 3 * t2 - 2 * t;
+    const wv = this.wv[ai], wd = this.wd[ai];
+    const inv = 1 / a.h;
+    for (let k = 0; k < 6; k++) {
+      wv[k] = h10 * sa[k] + h11 * sb[k];
+      wd[k] = (d10 * sa[k] + d11 * sb[k]) * inv;
+    }
+    wv[i - base] += h00; wv[i + 1 - base] += h01;
+    wd[i - base] += d00 * inv; wd[i + 1 - base] += d01 * inv;
+    return true;
+  }
+
+  /**
+   * φ and ∇φ at a stage-local point (planar: z is ignored; axial: r = hypot(x, y)) into
+   * out[0] = φ, out[1..3] = ∂φ/∂x, ∂φ/∂y, ∂φ/∂z. False (out untouched) outside the grid.
+   */
+  evaluate(x: number, y: number, z: number, out: Float64Array): boolean {
+    const sym = this.grid.symmetry;
+    if (sym === 'axial') return this.evaluateAxial(x, y, z, out);
+    let sx = 1, sy = 1, sz = 1;
+    if (this.mirrorX && x < 0) { x = -x; sx = -1; }
+    if (this.mirrorY && y < 0) { y = -y; sy = -1; }
+    if (sym === 'none' && this.mirrorZ) z = this.foldZ(z, out);
+    if (sym === 'none' && this.mirrorZ) sz = out[3];
+    if (!this.weights(0, x) || !this.weights(1, y)) return false;
+    if (sym === 'planar') {
+      this.sum2(out);
+      out[1] *= sx; out[2] *= sy; out[3] = 0;
+      return true;
+    }
+    if (!this.weights(2, z)) return false;
+    this.sum3(out);
+    out[1] *= sx; out[2] *= sy; out[3] *= sz;
+    return true;
+  }
+
+  /** z folded into the stored half; the sign of ∂/∂z it implies goes to out[3]. */
+  private foldZ(z: number, out: Float64Array): number {
+    const a = this.axes[this.grid.symmetry === 'axial' ? 1 : 2];
+    const storedAbove = a.reflectLow;
+    const p = this.zPlane;
+    if ((storedAbove && z < p) || (!storedAbove && z > p)) { out[3] = -1; return 2 * p - z; }
+    out[3] = 1;
+    return z;
+  }
+
+  private evaluateAxial(x: number, y: number, z: number, out: Float64Array): boolean {
+    const r = Math.sqrt(x * x + y * y);
+    let sz = 1;
+    if (this.mirrorZ) { z = this.foldZ(z, out); sz = out[3]; }
+    if (!this.weights(0, r) || !this.weights(1, z)) return false;
+    this.sum2(out);
+    const dr = out[1];
+    // ∂φ/∂r vanishes on the axis (even in r), so x/r may be taken as 0 there.
+    const c = r > 0 ? dr / r : 0;
+    const dz = out[2];
+    out[1] = c * x; out[2] = c * y; out[3] = dz * sz;
+    return true;
+  }
+
+  private sum2(out: Float64Array): void {
+    const f = this.f, b0 = this.base[0], b1 = this.base[1];
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
+    let p = 0, g0 = 0, g1 = 0;
+    for (let j = 0; j < 6; j++) {
+      const row = (b1 + j) * this.s1 + b0;
+      let rv = 0, rd = 0;
+      for (let i = 0; i < 6; i++) { const fi = f[row + i]; rv += v0[i] * fi; rd += d0[i] * fi; }
+      p += v1[j] * rv; g0 += v1[j] * rd; g1 += d1[j] * rv;
+    }
+    out[0] = p; out[1] = g0; out[2] = g1;
+  }
+
+  private sum3(out: Float64Array): void {
+    const f = this.f, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
+    let p = 0, g0 = 0, g1 = 0, g2 = 0;
+    for (let k = 0; k < 6; k++) {
+      let pv = 0, px = 0, py = 0;
+      for (let j = 0; j < 6; j++) {
+        const row = (b2 + k) * this.s2 + (b1 + j) * this.s1 + b0 * this.s0;
+        let rv = 0, rd = 0;
+        for (let i = 0; i < 6; i++) { const fi = f[row + i]; rv += v0[i] * fi; rd += d0[i] * fi; }
+        pv += v1[j] * rv; px += v1[j] * rd; py += d1[j] * rv;
+      }
+      p += v2[k] * pv; g0 += v2[k] * px; g1 += v2[k] * py; g2 += d2[k] * pv;
+    }
+    out[0] = p; out[1] = g0; out[2] = g1; out[3] = g2;
+  }
+}
