@@ -42,12 +42,27 @@ describe('electrode labels from the stage kinds', () => {
       trap: { type: 'trap', r0: 0.01, z0: 0.007, length: 0.014, rf: { amplitude: 500 }, dc: 0, aperture: 0.001 },
       accelerate: { type: 'accelerate', role: 'gap', length: 0.01, voltage: 2000, aperture: 0.006 },
       drift: { type: 'drift', length: 0.3, aperture: 0.012 },
+      electrodes: {
+        type: 'electrodes', length: 0.02, rf: { amplitude: 500 },
+        problem: { grid: { symmetry: 'axial', spacing: 1e-4 }, electrodes: [{ name: 'tube', potential: { dc: 5, rf: 1, aux: 0 }, shapes: [{ kind: 'tube', innerRadius: 0.005, outerRadius: 0.006, from: 0, to: 0.02 }], holes: [] }] },
+      },
     };
     for (const k of STAGE_KINDS) {
       const got = k.electrodeLabels(stored[k.type]);
       expect(got.length, k.type).toBeGreaterThan(0);
       for (const l of got) expect(l.at.length, l.text).toBeGreaterThan(0);
     }
+  });
+
+  it('electrodes stage: each electrode by its name with dc + rf × the stage RF, anchored on its shape', () => {
+    const st = {
+      type: 'electrodes', length: 0.02, rf: { amplitude: 500 }, zStart: 0, zEnd: 0.02,
+      problem: { grid: { symmetry: 'axial', spacing: 1e-4 }, electrodes: [
+        { name: 'tube', potential: { dc: 5, rf: 1, aux: 0 }, shapes: [{ kind: 'tube', innerRadius: 0.005, outerRadius: 0.006, from: 0, to: 0.02 }], holes: [] },
+        { name: 'plate', potential: { dc: -20, rf: 0, aux: 0 }, shapes: [{ kind: 'disc', at: 0.001, thickness: 0.001, radius: 0.01, hole: 0.002 }], holes: [] },
+      ] },
+    };
+    expect(labels(st)).toEqual(['tube 5 V + 500 V RF', 'plate −20 V']);
   });
 
   it('anchors of a round electrode avoid the wedge cut toward the viewer (±45° about it)', () => {
