@@ -12,6 +12,8 @@ export interface IdealField {
   label: string;
   /** Potential at a stage-local point, V (axial: x is r). */
   potential(x: number, y: number, z: number): number;
+  /** Inside the region the ideal form describes (between the electrodes' vertices). */
+  inRegion(x: number, y: number, z: number): boolean;
 }
 
 /** A rod's cross-section (planar shape, or one extruded along z, or a cylinder parallel to z). */
@@ -47,6 +49,7 @@ function quadrupole(es: readonly Electrode[], dc: (e: Electrode) => number): Ide
   return {
     label: `ideal quadrupole, r0 ${(r0 * 1e3).toFixed(2)} mm`,
     potential: (px, py) => 0.5 * (vp + vm) + 0.5 * (vp - vm) * (px * px - py * py) / (r0 * r0),
+    inRegion: (px, py) => px * px + py * py < r0 * r0,
   };
 }
 
@@ -63,6 +66,7 @@ function trap(es: readonly Electrode[], dc: (e: Electrode) => number): IdealFiel
   return {
     label: `ideal quadrupole trap, r0 ${(r0 * 1e3).toFixed(2)} mm, z0 ${(z0 * 1e3).toFixed(2)} mm`,
     potential: (r, _y, z) => vc + (vr - vc) * (r * r - 2 * (z - zc) ** 2 + 2 * z0 * z0) / d,
+    inRegion: (r, _y, z) => r * r - 2 * (z - zc) ** 2 < r0 * r0 && 2 * (z - zc) ** 2 - r * r < 2 * z0 * z0,
   };
 }
 

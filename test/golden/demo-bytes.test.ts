@@ -11,6 +11,8 @@ import { existsSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'no
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { CLI, ROOT, tempDir } from '../helpers/cli.js';
+import { parseScene } from '../../sim/scene/load.js';
+import { flightRefusal } from '../../sim/stages/registry.js';
 
 const MANIFEST = join(ROOT, 'test/golden/demo-bytes.json');
 const FILES = ['ions.arrow', 'history.arrow', 'trajectories.arrow'];
@@ -18,7 +20,11 @@ const record = process.env.IONTRAIL_GOLDEN_RECORD === '1';
 const cli = process.env.IONTRAIL_GOLDEN_CLI ?? CLI;
 const workers = record ? '2' : '1';
 
-const scenes = readdirSync(join(ROOT, 'scenes')).filter((f) => f.endsWith('.yaml')).sort();
+const all = readdirSync(join(ROOT, 'scenes')).filter((f) => f.endsWith('.yaml')).sort();
+// Scenes with a stage ions cannot be flown through yet (electrode fields, solved by `iontrail
+// field`) have no run bytes: the kind says so, and `run` must refuse them whole.
+const unflyable = all.filter((f) => flightRefusal(parseScene(readFileSync(join(ROOT, 'scenes', f), 'utf8'), f).stages) !== undefined);
+const scenes = all.filter((f) => !unflyable.includes(f));
 const tmp = tempDir('iontrail-golden-');
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
@@ -56,3 +62,17 @@ describe('demo scenes give the recorded bytes', () => {
     });
   }
 });
+
+describe('demo scenes that cannot be flown yet', () => {
+  for (const s of unflyable) {
+    it(`scenes/${s}: run refuses in one line, exit 2, nothing written`, () => {
+      const out = join(tmp, `refused-${s.replace(/\.yaml$/, '')}`);
+      const r = spawnSync(process.execPath, [cli, 'run', join('scenes', s), '-o', out], { cwd: ROOT, encoding: 'utf8' });
+      expect(r.status).toBe(2);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).toMatch(/can be solved and mapped with `iontrail field`; flying ions through it is not available yet/);
+      expect(existsSync(out)).toBe(false);
+    });
+  }
+});
+

@@ -18,7 +18,7 @@ function notYet(): never {
 }
 
 type Raw = Readonly<Record<string, unknown>>;
-const problemOf = (s: Raw) => (s.problem ?? {}) as { grid?: Raw; electrodes?: readonly Raw[] };
+const problemOf = (s: Raw | undefined) => (s?.problem ?? {}) as { grid?: Raw; electrodes?: readonly Raw[] };
 
 export const electrodesKind: StageKind<ElectrodesStage> = {
   type: 'electrodes',
