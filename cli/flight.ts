@@ -1,4 +1,4 @@
-// run, sweep and report fly ions: a scene with a stage that cannot be flown yet is refused in one
+// run, sweep and report track ions: a scene with a stage that cannot be tracked yet is refused in one
 // line before anything is written (the stage kind says why, sim/stages/kind.ts flightUnavailable).
 
 import { flightRefusal } from '../sim/stages/registry.js';

@@ -70,7 +70,7 @@ describe('demo scenes that cannot be flown yet', () => {
       const r = spawnSync(process.execPath, [cli, 'run', join('scenes', s), '-o', out], { cwd: ROOT, encoding: 'utf8' });
       expect(r.status).toBe(2);
       expect(r.stderr.trim().split('\n')).toHaveLength(1);
-      expect(r.stderr).toMatch(/can be solved and mapped with `iontrail field`; flying ions through it is not available yet/);
+      expect(r.stderr).toMatch(/can be solved and mapped with `iontrail field`; tracking ions through it is not available yet/);
       expect(existsSync(out)).toBe(false);
     });
   }

@@ -1,5 +1,5 @@
 // Stage kind `electrodes`: a field that comes from the electrodes a designer can machine, solved
-// on a grid by `iontrail field` (sim/fields). Flying ions through it comes later; until then
+// on a grid by `iontrail field` (sim/fields). Tracking ions through it comes later; until then
 // `run`, `sweep` and `report` refuse such a scene (flightUnavailable) while figures still draw it.
 
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
@@ -11,7 +11,7 @@ import { resolveProblem } from './resolve.js';
 import { labelAnchor } from './labels.js';
 import type { ElectrodesStage } from './stage.js';
 
-const NOT_YET = 'the field of an electrodes stage can be solved and mapped with `iontrail field`; flying ions through it is not available yet';
+const NOT_YET = 'the field of an electrodes stage can be solved and mapped with `iontrail field`; tracking ions through it is not available yet';
 
 function notYet(): never {
   throw new Error(NOT_YET);
