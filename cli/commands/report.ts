@@ -17,7 +17,7 @@ import { onStopSignal } from '../../sim/runs/stop-signals.js';
 import type { RunEstimate } from '../../sim/runs/estimate.js';
 import { parseCount } from './run.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { refuseUnflyable } from '../flight.js';
+import { refuseUntracked } from '../tracking.js';
 import type { Scene } from '../../sim/scene/types.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { mzWindow } from '../../sim/mathieu/operating-point.js';
@@ -251,7 +251,7 @@ export async function run(argv: string[]): Promise<number> {
   checkBundleTarget(out, force);
   const set = a.values.get('set') ?? [];
   const { scene, text } = loadSceneFile(file, { set, seed });
-  refuseUnflyable(file, scene.stages);
+  refuseUntracked(file, scene.stages);
   const r = await writeReportBundle(scene, {
     out, force, workers, sceneFile: file, commandLine: ['iontrail', 'report', ...argv].join(' '),
     progressLabel: 'report', handleSigint: true, sceneText: text, set, seed,

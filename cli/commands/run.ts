@@ -3,7 +3,7 @@
 import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { refuseUnflyable } from '../flight.js';
+import { refuseUntracked } from '../tracking.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { parseShard } from '../../sim/runs/shard.js';
 import { progressBar } from '../progress.js';
@@ -65,7 +65,7 @@ export async function run(argv: string[]): Promise<number> {
   const shardText = flag(a, 'shard');
   const spec = shardText === undefined ? undefined : parseShard(shardText);
   const { scene, text } = loadSceneFile(file, { set, seed });
-  refuseUnflyable(file, scene.stages);
+  refuseUntracked(file, scene.stages);
   const bar = progressBar('run');
   const summary = await runScene(scene, {
     out, force: a.switches.has('force'), csv: a.switches.has('csv'), workers, sceneFile: file,

@@ -6,7 +6,7 @@ import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
 import { parseScene } from '../../sim/scene/load.js';
-import { refuseUnflyable } from '../flight.js';
+import { refuseUntracked } from '../tracking.js';
 import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
 import { onStopSignal } from '../../sim/runs/stop-signals.js';
 import { aboutDuration, checkOutputLimit, estimateRun } from '../../sim/runs/estimate.js';
@@ -87,7 +87,7 @@ export async function run(argv: string[]): Promise<number> {
   } catch (e) {
     throw new SceneError(`${file}: cannot read the scene file (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
   }
-  refuseUnflyable(file, parseScene(text, file, { set: a.values.get('set') ?? [] }).stages);
+  refuseUntracked(file, parseScene(text, file, { set: a.values.get('set') ?? [] }).stages);
   checkSweepFolder(out, force);
   const tty = process.stderr.isTTY === true;
   let last = 0;

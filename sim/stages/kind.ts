@@ -103,7 +103,7 @@ export interface StageKind<S extends Stage = Stage> {
    * Why ions cannot be flown through stages of this kind yet (`run`, `sweep` and `report` refuse
    * a scene with one, in one line), or undefined when they can.
    */
-  readonly flightUnavailable?: string;
+  readonly trackingUnavailable?: string;
   /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
   fieldProblem?(st: S): FieldProblem;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */

@@ -59,10 +59,10 @@ export function firstRf(stages: readonly Stage[]): { index: number; stage: Stage
   return undefined;
 }
 
-/** Why ions cannot be flown through the scene's stages yet (the first such stage), or undefined. */
-export function flightRefusal(stages: readonly Stage[]): string | undefined {
+/** Why ions cannot be tracked through the scene's stages yet (the first such stage), or undefined. */
+export function trackingRefusal(stages: readonly Stage[]): string | undefined {
   for (let i = 0; i < stages.length; i++) {
-    const why = kindOf(stages[i]).flightUnavailable;
+    const why = kindOf(stages[i]).trackingUnavailable;
     if (why !== undefined) return `stage ${stages[i].sceneIndex ?? i} (${kindOf(stages[i]).describe(stages[i] as unknown as Record<string, unknown>)}): ${why}`;
   }
   return undefined;

@@ -4,7 +4,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { parseScene } from '../../sim/scene/load.js';
-import { fieldProblemOf, flightRefusal } from '../../sim/stages/registry.js';
+import { fieldProblemOf, trackingRefusal } from '../../sim/stages/registry.js';
 
 const scene = (grid: string, electrodes: string, extra = '') => `
 stages:
@@ -96,8 +96,8 @@ describe('electrodes stage: scene keys to SI shapes', () => {
 
   it('ions cannot be flown through it yet: the kind says so (and the other kinds do not)', () => {
     const s = parseScene(scene(PLANAR, '      - { name: a, shapes: [ { circle: { center: [8 mm, 0 mm], radius: 1 mm } } ] }'), 's.yaml');
-    expect(flightRefusal(s.stages)).toMatch(/^stage 0 \(electrodes 20\.0 mm, planar grid 0\.05 mm, 1 electrode\): .*`iontrail field`; tracking ions through it is not available yet$/);
+    expect(trackingRefusal(s.stages)).toMatch(/^stage 0 \(electrodes 20\.0 mm, planar grid 0\.05 mm, 1 electrode\): .*`iontrail field`; tracking ions through it is not available yet$/);
     const q = parseScene('stages:\n  - { type: quadrupole, length: 150 mm, r0: 4 mm, rf: { amplitude: 832 V, frequency: 1.2 MHz } }\nions:\n  - { mz: 502, count: 1 }\n', 'q.yaml');
-    expect(flightRefusal(q.stages)).toBeUndefined();
+    expect(trackingRefusal(q.stages)).toBeUndefined();
   });
 });

@@ -1,6 +1,6 @@
 // Stage kind `electrodes`: a field that comes from the electrodes a designer can machine, solved
 // on a grid by `iontrail field` (sim/fields). Tracking ions through it comes later; until then
-// `run`, `sweep` and `report` refuse such a scene (flightUnavailable) while figures still draw it.
+// `run`, `sweep` and `report` refuse such a scene (trackingUnavailable) while figures still draw it.
 
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
 import type { FieldModel } from '../../core/field-model.js';
@@ -43,7 +43,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   rf: (st) => st.rf,
   field: (): FieldModel => notYet(),
   track: () => notYet(),
-  flightUnavailable: NOT_YET,
+  trackingUnavailable: NOT_YET,
   fieldProblem: (st) => st.problem,
   exitFate: () => undefined,
   exitAperture: () => undefined,
