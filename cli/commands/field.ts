@@ -229,6 +229,8 @@ async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hi
   } else if (problem.grid.symmetry === 'axial') {
     const l = axisLegendre(solution, problem, { nMax: MULTIPOLE_ORDERS });
     summary.axis_legendre = l;
+    const scale = problem.grid.referenceRadius ?? problem.grid.length / 2;
+    summary.axis_legendre_about = { center_z_m: problem.grid.length / 2, scale_m: scale, at: 'electrodes at their dc volts', form: 'φ(0, z) = Σ c_v P_n((z − center_z) / scale), fitted on the axis within ±scale (grid.reference_radius, else half the stage length)' };
     bars = legendreBars(l);
     barWhat = 'axis coefficient';
   }
