@@ -14,6 +14,7 @@ import { directSolver } from '../../sim/spacecharge/ensemble-step.js';
 import { COULOMB_K } from '../../sim/spacecharge/direct.js';
 import { ELEMENTARY_CHARGE, ELECTRONVOLT, VACUUM_PERMITTIVITY, ionMassKg } from '../../sim/units/constants.js';
 import { uniformSphere } from './clouds.js';
+import { readIons, readSummary } from '../../sim/runfolder/index.js';
 
 function csvRows(file: string): Record<string, string>[] {
   const [head, ...rows] = readFileSync(file, 'utf8').trim().split('\n');
@@ -170,6 +171,14 @@ describe('TOF packets with space charge', () => {
     expect(out[1].arrival_rms_ratio).toBeGreaterThan(out[0].arrival_rms_ratio);
     expect(out[2].arrival_rms_ratio).toBeGreaterThan(out[1].arrival_rms_ratio + 0.01);
     expect(out[2].arrival_shift_s).toBeGreaterThan(10 * Math.abs(out[1].arrival_shift_s));
+    // summary.json holds the figures printed, and they are those of the ions table (d: the
+    // detected ions' mean arrival time, recomputed from ions.arrow, to rounding).
+    const sum = readSummary(join(d, 'w1000')) as unknown as { space_charge: { arrivals: unknown[] } };
+    expect(sum.space_charge.arrivals[0]).toEqual(out[2]);
+    const ions = readIons(join(d, 'w1000'));
+    const t = Array.from(ions.end_time as ArrayLike<number>).filter((_, i) => ions.fate[i] === 'detected');
+    expect(t).toHaveLength(300);
+    expect(Math.abs(t.reduce((u, v) => u + v, 0) / t.length / out[2].mean_arrival_s - 1)).toBeLessThan(1e-12);
     const r2 = run(d, 'w100-2', linear(100), ['--workers', '2']);
     expect(r2.code, r2.stderr).toBe(0);
     expect(readFileSync(join(d, 'w100-2', 'ions.arrow')).equals(readFileSync(join(d, 'w100', 'ions.arrow')))).toBe(true);
