@@ -23,7 +23,7 @@ import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { finiteOrNull } from '../../sim/core/json.js';
 import { TOOL_VERSION } from '../../sim/version.js';
 import { deviationSpec, equipotentialSpec, multipoleSpec, renderSpec, type Bar, type FieldFigureText } from '../../render/fields/figures.js';
-import { axisLegendre, checkProblem, fitMultipoles, solveField } from '../../sim/fields/index.js';
+import { axisLegendre, axisSeriesFrame, checkProblem, fitMultipoles, solveField } from '../../sim/fields/index.js';
 
 export const describe = 'solve the electrode fields of a scene: unit solutions (.npy, .vti), multipoles and field maps';
 
@@ -229,8 +229,8 @@ async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hi
   } else if (problem.grid.symmetry === 'axial') {
     const l = axisLegendre(solution, problem, { nMax: MULTIPOLE_ORDERS });
     summary.axis_legendre = l;
-    const scale = problem.grid.referenceRadius ?? problem.grid.length / 2;
-    summary.axis_legendre_about = { center_z_m: problem.grid.length / 2, scale_m: scale, at: 'electrodes at their dc volts', form: 'φ(0, z) = Σ c_v P_n((z − center_z) / scale), fitted on the axis within ±scale (grid.reference_radius, else half the stage length)' };
+    const frame = axisSeriesFrame(problem);
+    summary.axis_legendre_about = { center_z_m: frame.about, scale_m: frame.scale, at: 'electrodes at their dc volts', form: 'φ(0, z) = Σ c_v P_n((z − center_z) / scale), fitted on the axis within ±scale (grid.reference_radius, else half the stage length)' };
     bars = legendreBars(l);
     barWhat = 'axis coefficient';
   }
