@@ -54,7 +54,16 @@ export interface OrderedTasks<T, R> {
   onResult: (result: R, i: number) => void;
   /** Polled before each task is handed out: true hands out no more (Ctrl-C). */
   stopped?: () => boolean;
+  /**
+   * Once stopped, return without waiting for the tasks in flight: their results are dropped, and
+   * the executor is spent (close() terminates the workers). A stop is then seen within
+   * ABANDON_POLL_MS even while every worker is busy with a long task.
+   */
+  abandon?: boolean;
 }
+
+/** How often a run that may abandon its tasks looks at stopped() while it waits for workers. */
+const ABANDON_POLL_MS = 100;
 
 interface Slot {
   w: Worker;
@@ -70,6 +79,8 @@ export class Executor<T, R> {
   private nextId = 0;
   private failure: { error: unknown } | null = null;
   private closing = false;
+  /** Set when a run returned with tasks still in flight: close() must terminate, not ask. */
+  private abandoned = false;
   /** Hands the next task of the current run to a slot; false when there is none to hand out. */
   private source: ((slot: Slot) => boolean) | null = null;
   /** Wakes the current run when a result or a failure arrives. */
@@ -147,6 +158,7 @@ export class Executor<T, R> {
   async runOrdered(t: OrderedTasks<T, R>): Promise<number> {
     if (this.slots.length === 0 && t.here === undefined) throw new Error('executor: no worker and no task for this thread');
     if (this.source !== null) throw new Error('executor: one run at a time');
+    if (this.abandoned) throw new Error('executor: spent by an abandoned run');
     const pending = new Map<number, R>();
     let next = 0, delivered = 0, outstanding = 0;
     const halted = () => this.failure !== null || (t.stopped?.() ?? false);
@@ -177,7 +189,18 @@ export class Executor<T, R> {
         deliver();
         await new Promise((r) => setImmediate(r)); // lets worker results and a pending SIGINT in
       }
-      while (outstanding > 0 && this.failure === null) await new Promise<void>((r) => { this.wake = r; });
+      while (outstanding > 0 && this.failure === null) {
+        if (t.abandon && halted()) {
+          // Late results must not reach onResult after this run has returned.
+          this.abandoned = true;
+          this.waiting.clear();
+          break;
+        }
+        await new Promise<void>((r) => {
+          this.wake = r;
+          if (t.abandon) setTimeout(r, ABANDON_POLL_MS);
+        });
+      }
     } finally {
       this.source = null;
       this.wake = null;
@@ -193,7 +216,8 @@ export class Executor<T, R> {
   async close(tell?: () => void): Promise<void> {
     this.closing = true;
     for (const s of this.slots) s.w.ref(); // keep the loop alive until they have exited
-    if (tell !== undefined) tell();
+    if (this.abandoned) for (const s of this.slots) void s.w.terminate();
+    else if (tell !== undefined) tell();
     else for (const s of this.slots) s.w.postMessage(null);
     await Promise.all(this.slots.map((s) => s.exited));
     this.slots = [];

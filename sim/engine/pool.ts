@@ -13,6 +13,12 @@ export interface PoolOptions {
   onResult: (r: BatchResult) => void;
   /** Polled between batches: true stops dispatching (Ctrl-C). */
   stopped: () => boolean;
+  /**
+   * Keep this thread free of batches (every computing thread is a worker) and drop the batches in
+   * flight on a stop, so Ctrl-C is answered at once instead of after the longest batch; for runs
+   * whose batches take seconds. The results are the same either way.
+   */
+  responsive?: boolean;
   /** Only batches first..end−1 (a shard's slice; default all). */
   first?: number;
   end?: number;
@@ -27,7 +33,8 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
   // Each worker keeps two batches queued so it never waits for the main thread to feed it.
   // With one thread (or one batch) no worker starts and this thread runs every batch.
   const first = opts.first ?? 0, count = (opts.end ?? plan.count) - first;
-  const n = Math.max(0, Math.min(opts.workers, count) - 1);
+  const responsive = opts.responsive === true && count > 0;
+  const n = Math.max(0, Math.min(opts.workers, count) - (responsive ? 0 : 1));
   const exec = new Executor<BatchTask, BatchResult>({
     workers: n, script: n > 0 ? workerScript(new URL('./worker.js', import.meta.url)) : undefined,
     workerData: () => ({ scene }), inflight: 2,
@@ -40,9 +47,10 @@ export async function runBatches(scene: Scene, plan: BatchPlan, opts: PoolOption
         const b = first + k, start = b * plan.size;
         return { batch: b, start, count: Math.min(plan.size, plan.total - start) };
       },
-      here: ({ batch, start, count }) => trackBatch(scene, batch, start, count, gas),
+      here: responsive ? undefined : ({ batch, start, count }) => trackBatch(scene, batch, start, count, gas),
       onResult: (r) => opts.onResult(r),
       stopped: opts.stopped,
+      abandon: responsive,
     });
   } finally {
     await exec.close();

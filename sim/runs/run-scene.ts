@@ -41,6 +41,9 @@ export interface RunOptions {
 }
 
 /** A run part's per-batch history sums (history_batches.arrow). */
+/** Estimated seconds per batch above which an interactive run keeps its main thread free (pool.ts). */
+const RESPONSIVE_BATCH_S = 1;
+
 export const HISTORY_BATCH_COLUMNS: readonly ColumnSpec[] = [{ name: 'batch', kind: 'int32' }, { name: 'sum', kind: 'float64' }];
 
 export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSummary> {
@@ -93,7 +96,9 @@ export async function runScene(scene: Scene, opts: RunOptions): Promise<RunSumma
       warnings.push(...c.warnings);
       onResult(c.result);
     } else {
-      await runBatches(scene, plan, { workers, stopped: () => stop, onResult, first: batches[0], end: batches[1] });
+      // A stop is answered at once when batches are long; short ones keep this thread computing.
+      const responsive = opts.handleSigint === true && estimate.cpu_time_s / plan.count > RESPONSIVE_BATCH_S;
+      await runBatches(scene, plan, { workers, stopped: () => stop, onResult, first: batches[0], end: batches[1], responsive });
     }
   } catch (e) {
     offSignals?.();
