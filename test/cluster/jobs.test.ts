@@ -8,8 +8,8 @@ import { spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseYaml } from 'yaml';
-import { CLI, ROOT, iontrail, tempDir } from '../helpers/cli.js';
-import { cli, expectSameFolder } from '../shards/compare.js';
+import { CLI, iontrail, tempDir } from '../helpers/cli.js';
+import { cli, expectSameFolder, shell as sh } from '../shards/compare.js';
 
 const SCENE = `
 name: Skerry QF-4 job-folder check
@@ -35,10 +35,6 @@ function setup() {
   return { d, scene };
 }
 
-function sh(script: string, env: Record<string, string>) {
-  const r = spawnSync('bash', ['-c', script], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ...env } });
-  expect(r.status, r.stderr).toBe(0);
-}
 
 describe('iontrail cluster', () => {
   it('slurm: an array script, a merge held by afterok, and their commands give the unsharded bytes', () => {

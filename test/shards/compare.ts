@@ -4,7 +4,8 @@
 import { expect } from 'vitest';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { iontrail } from '../helpers/cli.js';
+import { spawnSync } from 'node:child_process';
+import { ROOT, iontrail } from '../helpers/cli.js';
 import { formatSummary, type RunSummary } from '../../sim/runfolder/summary.js';
 import { plotRun } from '../../render/plot/index.js';
 import { plotSweep } from '../../render/plot/sweep-figure.js';
@@ -14,6 +15,12 @@ export const MERGE_FIELDS = {
   run: { stats: ['wall_s', 'ion_steps_per_s'], provenance: ['command_line', 'workers', 'started_at', 'shards'] },
   sweep: { stats: [], provenance: ['command_line', 'workers', 'started_at', 'wall_s', 'shards'] },
 } as const;
+
+/** A job script's command run by bash with the scheduler's variables set (SLURM_ARRAY_TASK_ID, ...). */
+export function shell(script: string, env: Record<string, string>): void {
+  const r = spawnSync('bash', ['-c', script], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ...env } });
+  expect(r.status, r.stderr).toBe(0);
+}
 
 export function cli(args: string[]): string {
   const r = iontrail(args);
