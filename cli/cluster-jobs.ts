@@ -117,17 +117,23 @@ export interface KubernetesOptions { image: string; claim: string }
 export function kubernetesFiles(job: ClusterJob, o: KubernetesOptions): Record<string, string> {
   const volume = { volumes: [{ name: 'work', persistentVolumeClaim: { claimName: o.claim } }] };
   const mount = [{ name: 'work', mountPath: job.workdir }];
-  const container = (name: string, script: string, cpus: number) => ({
+  const container = (name: string, script: string, cpus: number, env: object[] = []) => ({
     name, image: o.image, workingDir: job.workdir, command: ['/bin/sh', '-c', script],
+    ...(env.length > 0 ? { env } : {}),
     resources: { requests: { cpu: String(cpus) }, limits: { cpu: String(cpus) } }, volumeMounts: mount,
   });
+  // The Job controller sets JOB_COMPLETION_INDEX itself in Indexed mode; it is also given from the
+  // pod's completion-index annotation through the downward API, so the manifest says where the
+  // index comes from (Kubernetes documentation, "Indexed Job for Parallel Processing with Static
+  // Work Assignment"; from memory, not checked against a cluster here).
+  const indexEnv = [{ name: 'JOB_COMPLETION_INDEX', valueFrom: { fieldRef: { fieldPath: "metadata.annotations['batch.kubernetes.io/job-completion-index']" } } }];
   const shardScript = `exec ${q([...job.iontrail, job.command, ...job.args])} --shard "$JOB_COMPLETION_INDEX/${job.shards}" --workers ${job.cpus} -o ${taskOut(job, '"$JOB_COMPLETION_INDEX"')} --force`;
   const shards = {
     apiVersion: 'batch/v1', kind: 'Job',
     metadata: { name: `${job.name}-shards` },
     spec: {
       completions: job.shards, parallelism: job.shards, completionMode: 'Indexed', backoffLimit: 3 * job.shards,
-      template: { spec: { restartPolicy: 'Never', containers: [container('shard', shardScript, job.cpus)], ...volume } },
+      template: { spec: { restartPolicy: 'Never', containers: [container('shard', shardScript, job.cpus, indexEnv)], ...volume } },
     },
   };
   if (!merges(job)) {
