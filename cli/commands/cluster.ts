@@ -11,8 +11,10 @@ import { parseCount } from './run.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { SceneError } from '../../sim/scene/schema.js';
 import { planBatches } from '../../sim/engine/batches.js';
+import { fieldProblemOf } from '../../sim/stages/registry.js';
 import { sliceRange } from '../../sim/runs/shard.js';
 import { planSweep, type SweepMethod } from '../../sim/sweeps/sweep.js';
+import { parseVariantAxis, planVariants, variantsOf } from '../../sim/sweeps/field-variants.js';
 import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { TOOL_VERSION } from '../../sim/version.js';
 import { kubernetesFiles, slurmFiles, type ClusterJob } from '../cluster-jobs.js';
@@ -20,14 +22,16 @@ import { kubernetesFiles, slurmFiles, type ClusterJob } from '../cluster-jobs.js
 export const describe = 'write (and submit) a Slurm job array or a Kubernetes Indexed Job that runs a scene in shards and merges them';
 
 const USAGE = 'usage: iontrail cluster slurm|kubernetes SCENE.yaml --shards N -o JOB_DIR [--vary KEY=A..B:N]... [--set key=value]... [--seed N] '
-  + '[--method M] [--scan-lines A..B:N] [--collect PATH,...] [--max-output SIZE] [--cpus C] [--partition P] [--time HH:MM:SS] [--submit] [--image IMAGE] [--claim PVC] [--force]';
+  + '[--method M] [--scan-lines A..B:N] [--collect PATH,...] [--max-output SIZE] [--field [--stage N]] [--cpus C] [--partition P] [--time HH:MM:SS] [--submit] [--image IMAGE] [--claim PVC] [--force]';
 
 const HELP = `${USAGE}
 
 Writes JOB_DIR for the cluster's own scheduler: N shards of \`iontrail run\` (or of \`iontrail sweep\`
 when --vary is given), each a part folder JOB_DIR/parts/part-I, and a merge into JOB_DIR/result
-(the bytes one machine would write). The job is checked here first (scene, sweep, N against the
-batches or points), so a bad job is refused before it reaches the queue.
+(the bytes one machine would write). With --field, N shards of \`iontrail field --vary\`: each task
+solves its slice of the geometry variants into JOB_DIR/result (variant-K folders, no merge step).
+The job is checked here first (scene, sweep, N against the batches, points or variants), so a bad
+job is refused before it reaches the queue.
 
 slurm:       shards.sbatch (a job array, one task per shard, $SLURM_ARRAY_TASK_ID → --shard),
              merge.sbatch (held by --dependency=afterok on the array), submit.sh, README.md
@@ -43,13 +47,15 @@ kubernetes:  job.yaml (an Indexed Job, JOB_COMPLETION_INDEX → --shard), merge-
   --image IMAGE        Kubernetes: container image that runs iontrail (default iontrail:${TOOL_VERSION})
   --claim PVC          Kubernetes: persistent volume claim mounted at this folder's path (default iontrail-work)
   --force              replace an existing JOB_DIR
+  --field              field solves of the --vary geometry variants (KEY=a,b,c or KEY=A..B:N)
+  --stage N            with --field: the electrodes stage to solve
   --vary, --set, --seed, --method, --scan-lines, --collect, --max-output   as for run and sweep
   -h, --help           this text
 `;
 
 export const FLAGS: FlagSpec = {
-  values: ['out', 'shards', 'cpus', 'partition', 'time', 'image', 'claim', 'vary', 'set', 'seed', 'method', 'scan-lines', 'collect', 'max-output'],
-  switches: ['submit', 'force', 'help'],
+  values: ['out', 'shards', 'cpus', 'partition', 'time', 'image', 'claim', 'vary', 'set', 'seed', 'method', 'scan-lines', 'collect', 'max-output', 'stage'],
+  switches: ['submit', 'force', 'help', 'field'],
   repeatable: ['set', 'vary'],
   aliases: { o: 'out', h: 'help' },
 };
@@ -86,6 +92,14 @@ export async function run(argv: string[]): Promise<number> {
   const set = a.values.get('set') ?? [];
   const seed = flag(a, 'seed');
   const vary = a.values.get('vary') ?? [];
+  const field = a.switches.has('field');
+  if (field) {
+    const other = ['set', 'seed', 'method', 'scan-lines', 'collect', 'max-output'].find((k) => a.values.has(k));
+    if (other) throw new UsageError(`cluster: --${other} is not an option of field solves (--field takes --vary and --stage)`);
+    if (vary.length === 0) throw new UsageError('cluster: --field needs --vary KEY=a,b,c (the geometry variants the tasks solve)');
+  } else if (flag(a, 'stage') !== undefined) throw new UsageError('cluster: --stage goes with --field');
+  const stage = parseCount(flag(a, 'stage'), '--stage', 0);
+  if (field) checkVariants(sceneArg, vary, shards);
   const args = [scene, ...set.flatMap((s) => ['--set', s]), ...(seed !== undefined ? ['--seed', seed] : [])];
   for (const k of ['method', 'scan-lines', 'collect', 'max-output'] as const) {
     const v = flag(a, k);
@@ -95,11 +109,12 @@ export async function run(argv: string[]): Promise<number> {
     }
   }
   vary.forEach((v) => args.push('--vary', v));
-  checkJob(scene, sceneArg, { set, seed: parseCount(seed, '--seed', 0), vary, shards, method: flag(a, 'method') as SweepMethod | undefined, scanLines: flag(a, 'scan-lines'), collect: flag(a, 'collect') });
+  if (stage !== undefined) args.push('--stage', String(stage));
+  if (!field) checkJob(scene, sceneArg, { set, seed: parseCount(seed, '--seed', 0), vary, shards, method: flag(a, 'method') as SweepMethod | undefined, scanLines: flag(a, 'scan-lines'), collect: flag(a, 'collect') });
 
   const job: ClusterJob = {
     name: `iontrail-${basename(scene).replace(/\.ya?ml$/i, '').toLowerCase().replace(/[^a-z0-9-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40) || 'job'}`,
-    command: vary.length > 0 ? 'sweep' : 'run', args, shards, dir,
+    command: field ? 'field' : vary.length > 0 ? 'sweep' : 'run', args, shards, dir,
     iontrail: target === 'slurm' ? [process.execPath, CLI] : ['iontrail'], workdir: process.cwd(), cpus,
   };
   const files = target === 'slurm'
@@ -108,7 +123,7 @@ export async function run(argv: string[]): Promise<number> {
   const temp = folderBeside(dir);
   try {
     for (const [name, text] of Object.entries(files)) writeFileSync(join(temp, name), text, { mode: name.endsWith('.sh') || name.endsWith('.sbatch') ? 0o755 : 0o644 });
-    mkdirSync(join(temp, 'parts'));
+    if (!field) mkdirSync(join(temp, 'parts'));
     mkdirSync(join(temp, 'logs'));
     swapFolderIntoPlace(temp, dir, true);
   } catch (e) {
@@ -123,6 +138,17 @@ export async function run(argv: string[]): Promise<number> {
     process.stdout.write(r.stdout);
   }
   return 0;
+}
+
+/** The variants of a field job: every variant's scene loads, and N is at most their number. */
+function checkVariants(shown: string, vary: string[], shards: number): void {
+  const { text } = loadSceneFile(shown);
+  const plan = planVariants(vary.map((v) => parseVariantAxis(v, text, shown)));
+  variantsOf(plan, { index: 0, count: shards });
+  for (const v of plan.variants) {
+    const { scene: s } = loadSceneFile(shown, { set: v.set });
+    if (!s.stages.some((st) => fieldProblemOf(st) !== undefined)) throw new UsageError(`cluster: ${shown} has no stage whose field is solved from electrodes (a stage of type: electrodes)`);
+  }
 }
 
 /** Refuse here what the shards would refuse on the cluster: the scene, the sweep, N too large. */

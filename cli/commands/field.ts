@@ -24,10 +24,11 @@ import { finiteOrNull } from '../../sim/core/json.js';
 import { TOOL_VERSION } from '../../sim/version.js';
 import { deviationSpec, equipotentialSpec, multipoleSpec, renderSpec, type Bar, type FieldFigureText } from '../../render/fields/figures.js';
 import { axisLegendre, axisSeriesFrame, checkProblem, fitMultipoles, solveField } from '../../sim/fields/index.js';
+import { writeVariants } from '../field-variants.js';
 
 export const describe = 'solve the electrode fields of a scene: unit solutions (.npy, .vti), multipoles and field maps';
 
-const USAGE = 'usage: iontrail field SCENE.yaml -o DIR [--stage N] [--workers N] [--force] [--json] | iontrail field SCENE.yaml --at X,Y,Z [--at ...] [--time T] [--json]';
+const USAGE = 'usage: iontrail field SCENE.yaml -o DIR [--stage N] [--workers N] [--force] [--json] | iontrail field SCENE.yaml --vary KEY=a,b,c [--vary ...] [--shard I/N] -o DIR | iontrail field SCENE.yaml --at X,Y,Z [--at ...] [--time T] [--json]';
 
 const HELP = `${USAGE}
 
@@ -51,6 +52,13 @@ $XDG_CACHE_HOME/iontrail (else ~/.cache/iontrail).
                      instrument from the first stage's entrance; lengths with units, e.g.
                      1mm,0mm,20mm, or plain numbers in metres); repeatable
   --time T           time of the RF drive for --at (default 0 s): volts = dc + rf × V cos(Ωt + φ)
+  --vary KEY=a,b,c   geometry variants (values in the key's units, or KEY=A..B:N), e.g.
+                     stages.0.electrodes.0.shapes.0.circle.radius=1.8mm,2mm; repeatable (every
+                     combination): DIR/variant-K/ is the field folder of variant K, DIR/variants.json
+                     lists the variants and their values
+  --shard I/N        with --vary: solve the I-th of N slices of the variants (0-based) into DIR;
+                     the N shards together write what one machine would (one variant per task
+                     when N is the number of variants)
   --json             print summary.json (or the --at points) as JSON
   -h, --help         this text
 
@@ -60,9 +68,9 @@ qualified staff.
 `;
 
 export const FLAGS: FlagSpec = {
-  values: ['out', 'stage', 'at', 'time', 'workers'],
+  values: ['out', 'stage', 'at', 'time', 'workers', 'vary', 'shard'],
   switches: ['force', 'json', 'help'],
-  repeatable: ['at'],
+  repeatable: ['at', 'vary'],
   aliases: { o: 'out', h: 'help' },
 };
 
@@ -124,6 +132,16 @@ export async function run(argv: string[]): Promise<number> {
     try { time = parseQuantity(timeText, 'time', '--time'); } catch { throw new UsageError(`--time expects a time such as 0.2 us, got '${timeText}'`); }
   }
   const points = at.map(point);
+  const vary = a.values.get('vary') ?? [];
+  const shard = flag(a, 'shard');
+  if (shard !== undefined && vary.length === 0) throw new UsageError('field: --shard goes with --vary (a shard solves whole geometry variants)');
+  if (vary.length > 0) {
+    if (!out) throw new UsageError('field: --vary needs -o DIR (one field folder per variant inside it)');
+    if (a.switches.has('json')) throw new UsageError('field: --json goes without --vary (with --vary, DIR/variants.json and each variant\'s summary.json hold the results)');
+    const force = a.switches.has('force');
+    return writeVariants({ file, out, vary, shard, force }, (scene) => targets(scene.stages, file, which),
+      (dir, chosen, scene, text, cacheParent) => writeFolders(dir, chosen, { file, text, scene, workers, force, json: false, argv, cacheParent }));
+  }
   const { scene, text } = loadSceneFile(file);
   const chosen = targets(scene.stages, file, which);
   if (out) return writeFolders(out, chosen, { file, text, scene, workers, force: a.switches.has('force'), json: a.switches.has('json'), argv });
@@ -161,14 +179,14 @@ async function printPoints(points: [number, number, number][], time: number, cho
   return 0;
 }
 
-interface FolderOpts { file: string; text: string; scene: { name: string }; workers?: number; force: boolean; json: boolean; argv: string[] }
+interface FolderOpts { file: string; text: string; scene: { name: string }; workers?: number; force: boolean; json: boolean; argv: string[]; cacheParent?: string }
 
 async function writeFolders(out: string, chosen: Target[], o: FolderOpts): Promise<number> {
   const target = resolve(out);
   const parent = dirname(target);
   if (!existsSync(parent) || !statSync(parent).isDirectory()) throw new UsageError(`-o ${out}: parent folder ${parent} does not exist`);
   if (existsSync(target) && !o.force) throw new UsageError(`-o ${out}: already exists (give --force to replace it)`);
-  const root = cacheRoot(parent);
+  const root = cacheRoot(o.cacheParent ?? parent);
   const solved: { t: Target; solution: FieldSolution; hit: boolean }[] = [];
   // Every stage solved (and every check passed) before anything is written.
   for (const t of chosen) solved.push({ t, ...(await solve(t, o.text, o.file, root, o.workers)) });

@@ -1,6 +1,5 @@
 // Title and footer text of a figure, from the run's summary.json.
 
-import { basename, resolve } from 'node:path';
 import type { RunSummary } from '../../sim/runfolder/index.js';
 
 export function figureTitle(summary: RunSummary, what: string): string {
@@ -8,16 +7,18 @@ export function figureTitle(summary: RunSummary, what: string): string {
   return `${name} — ${what}`;
 }
 
-/** "iontrail 0.1.0 · seed 42 · scene scenes/qf4.yaml · run out/qf4 · 2026-01-01T00:00Z · incomplete run". */
-export function footerText(summary: RunSummary, dir: string): string {
+/**
+ * "iontrail 0.1.0 · seed 42 · scene scenes/qf4.yaml · incomplete run". Only what fixes the result
+ * (version, seed, scene) goes in: no start time and no folder name, so a figure of a merged or
+ * re-run folder has the bytes of the unsharded run's figure; times stay in summary.json.
+ */
+export function footerText(summary: RunSummary): string {
   const p = (summary.provenance ?? {}) as Partial<RunSummary['provenance']>;
   const parts = [
     `iontrail ${p.tool_version ?? '?'}`,
     `seed ${p.seed ?? '?'}`,
     `scene ${p.scene_file ?? '(inline)'}`,
-    `run ${basename(resolve(dir))}`,
   ];
-  if (p.started_at) parts.push(`started ${p.started_at}`);
   if (summary.complete === false) parts.push('INCOMPLETE run (interrupted)');
   return parts.join('  ·  ');
 }

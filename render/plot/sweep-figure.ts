@@ -4,7 +4,7 @@
 // curve per value of the other key (a peak per DC value), never one line through every point.
 
 import { readFileSync, existsSync } from 'node:fs';
-import { join, basename, resolve } from 'node:path';
+import { join } from 'node:path';
 import { INK, seriesColor } from '../common/palette.js';
 import { checkOutputFolder, imageFormat, writeFileAtomic } from '../common/output.js';
 import { renderFigure, type FigureSpec } from './figure.js';
@@ -137,7 +137,9 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
     subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
     legend, panels, rows: panels.length, cols: 1, sharedX: true,
-    footer: `iontrail ${p.tool_version ?? '?'} · seed ${p.seed ?? '?'} · scene ${p.scene_file ?? '?'} · sweep ${basename(resolve(t.dir))}${p.started_at ? ` · started ${p.started_at}` : ''}`,
+    // Version, seed and scene only (no start time, no folder name): a merged sweep's figure has the
+    // unsharded sweep's bytes.
+    footer: `iontrail ${p.tool_version ?? '?'} · seed ${p.seed ?? '?'} · scene ${p.scene_file ?? '?'}`,
   };
 }
 

@@ -103,12 +103,12 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
   const fates = fateParts(storage).map((p) => p.label);
   await own('transmission', input.kind === 'quadrupole' ? 'Transmission' : storage ? 'Ions stored' : 'Ion fates',
     `Share of each species' ions by fate at the end of the run (${fates.join(', ')}), one bar per species by m/z; the label over each bar gives the ${storage ? 'stored' : 'detected'} share.`,
-    transmissionFigure(run.summary, input.runDir, storage), 560);
+    transmissionFigure(run.summary, storage), 560);
 
   // Quadrupole peak shape from an m/z sweep.
   if (input.kind === 'quadrupole' && input.sweep) {
     await own('peak', 'Peak shape', 'Transmission against m/z at the stage\'s fixed RF and DC (m/z sweep of the scene); dashed line: peak centre; bars: the full width at 50 % (FWHM) and at 10 % of the maximum, between the interpolated crossings the resolution is computed from.',
-      peakShapeFigure(input.sweep, run.summary, input.runDir));
+      peakShapeFigure(input.sweep, run.summary));
   }
 
   // Buffer-gas cooling.
@@ -121,7 +121,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
 
   // Trap mass scan.
   if (input.kind === 'trap-scan') {
-    await own('spectrum', 'Mass spectrum', 'Ions ejected through the end cap, binned by m/z through the calibration of the RF ramp; dashed lines mark the true m/z.', spectrumFigure(run.summary, input.runDir));
+    await own('spectrum', 'Mass spectrum', 'Ions ejected through the end cap, binned by m/z through the calibration of the RF ramp; dashed lines mark the true m/z.', spectrumFigure(run.summary));
   }
 
   // Time of flight.
@@ -133,7 +133,7 @@ export async function makeFigures(input: FigureInput): Promise<ReportFigure[]> {
       await kindFig('arrival', 'Arrival-time spectrum', 'Histogram of the arrival times of detected ions, one colour per species (one zoomed panel per species when the peaks lie far apart).', input.runDir, 'arrival', Math.max(620, 260 + 190 * nSpecies));
       await kindFig('energy', 'Energy at the detector', 'Histogram of the kinetic energy of detected ions at the detector, per species; the axis is the offset from the round energy named in its label, so the spread in eV shows.', input.runDir, 'energy', 620);
     }
-    await own('calibration', 'Mass calibration', 'Peak centres against √(m/z) with the least-squares calibration line and its residuals.', calibrationFigure(run.summary, input.runDir), 700);
+    await own('calibration', 'Mass calibration', 'Peak centres against √(m/z) with the least-squares calibration line and its residuals.', calibrationFigure(run.summary), 700);
     await own('source-focus', 'Source space focus', 'Arrival-time offset against start position for each species: the slope shows how far the detector sits from the first-order space focus of the two-field source.', sourceFocusFigure(run));
     await own('reflectron', 'Reflectron energy focusing', 'Arrival-time offset against initial kinetic energy, with the reflectron and for a field-free analyzer of the same mean flight time.', reflectronFigure(run));
   }

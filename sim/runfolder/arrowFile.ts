@@ -113,6 +113,22 @@ export class ArrowFileStream {
     return batch.numRows;
   }
 
+  /**
+   * One record batch from Data read from a file of the same columns (columnBatches in reader.ts),
+   * written unchanged under this file's schema: no decoding, no per-row work.
+   */
+  appendData(columns: readonly Data[], rows: number): number {
+    if (!this.open) throw new RunFolderError(`${this.path}: already finished`);
+    if (columns.length !== this.specs.length) throw new RunFolderError(`${this.table}: ${columns.length} columns in the batch, expected ${this.specs.length}`);
+    columns.forEach((c, k) => {
+      if (c.length !== rows) throw new RunFolderError(`${this.table}: column '${this.specs[k].name}' has ${c.length} rows, expected ${rows}`);
+    });
+    const struct = makeData({ type: new Struct(this.schema.fields), length: rows, nullCount: 0, children: columns as Data[] });
+    if (rows > 0) this.writer.write(new RecordBatch(this.schema, struct));
+    this.rows += rows;
+    return rows;
+  }
+
   /** Write the footer and close the file. */
   finish(): void {
     if (!this.open) return;

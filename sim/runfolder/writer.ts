@@ -7,6 +7,7 @@ import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
 import { FATE_NAMES } from '../core/batch.js';
+import { makeVector, type Data } from 'apache-arrow';
 import { ArrowFileStream } from './arrowFile.js';
 import { CsvFileStream } from './csv.js';
 import {
@@ -107,6 +108,39 @@ export class RunFolderWriter {
     this.ions.csv?.append(row);
   }
 
+  /**
+   * One record batch of ion rows as read from another ions.arrow (columnBatches), passed on
+   * unchanged; ions strictly increasing across all batches. The caller checks the fates
+   * (fateCodes). With CSV output the rows are decoded for the CSV file.
+   */
+  appendIonData(columns: readonly Data[], rows: number): void {
+    this.live();
+    const ion = intColumn(columns[ION_COLUMNS.findIndex((c) => c.name === 'ion')]);
+    for (let k = 0; k < rows; k++) {
+      if (!(ion[k] > this.lastIon)) {
+        throw new RunFolderError(`${FILES.ions}: ion ${ion[k]} written after ion ${this.lastIon} (rows must be in ion order)`);
+      }
+      this.lastIon = ion[k];
+    }
+    this.ions.arrow.appendData(columns, rows);
+    this.ions.csv?.append(decoded(ION_COLUMNS, columns));
+  }
+
+  /** One record batch of trajectory points as read from another trajectories.arrow, passed on unchanged. */
+  appendTrajectoryData(columns: readonly Data[], rows: number): void {
+    this.live();
+    const ion = intColumn(columns[TRAJECTORY_COLUMNS.findIndex((c) => c.name === 'ion')]);
+    for (let k = 0; k < rows; k++) {
+      if (ion[k] < this.lastTrajectoryIon) {
+        throw new RunFolderError(`${FILES.trajectories}: points of ion ${ion[k]} after ion ${this.lastTrajectoryIon} (ions must be in index order)`);
+      }
+      this.lastTrajectoryIon = ion[k];
+    }
+    this.trajectories ??= this.openTable(FILES.trajectories, FILES.trajectoriesCsv, TRAJECTORY_COLUMNS, 'trajectories');
+    this.trajectories.arrow.appendData(columns, rows);
+    this.trajectories.csv?.append(decoded(TRAJECTORY_COLUMNS, columns));
+  }
+
   /** One record batch of trajectory points; ion non-decreasing across all batches. */
   appendTrajectory(cols: TrajectoryColumnsInput): void {
     this.live();
@@ -204,6 +238,18 @@ export class RunFolderWriter {
   private removeTemp(): void {
     rmSync(this.tempDir, { recursive: true, force: true });
   }
+}
+
+/** The values of an Int32 column's Data (a view, offset applied). */
+export function intColumn(d: Data): Int32Array {
+  return (d.values as Int32Array).subarray(d.offset, d.offset + d.length);
+}
+
+/** Columns of Data as the CSV writer takes them (only when CSV output is asked for). */
+function decoded(specs: readonly ColumnSpec[], columns: readonly Data[]): Record<string, ArrayLike<unknown>> {
+  const out: Record<string, ArrayLike<unknown>> = {};
+  specs.forEach((spec, k) => { out[spec.name] = makeVector(columns[k]).toArray() as ArrayLike<unknown>; });
+  return out;
 }
 
 function fateNames(fate: ArrayLike<string> | Int8Array): string[] {

@@ -1,8 +1,10 @@
 // The merge of a run's shards into the folder one machine would have written. It streams: each
-// part's record batches go one at a time through the same writer and reducers as a run (ions and
-// trajectories in ion order; the ensemble history from each batch's own sums, added in batch
-// order), so memory stays at one batch whatever the number of parts, and the tables' bytes are the
-// unsharded run's. summary.json differs from the unsharded run's only in stats.wall_s,
+// part's record batches are read in order (sim/runfolder/reader.ts columnBatches: sequential
+// reads, one batch in memory) and written on unchanged, their Arrow data never decoded into rows;
+// the reducers read the few numeric columns they need as typed-array views and the fates from the
+// utf8 bytes (fate-codes.ts). Ions and trajectories go in ion order, the ensemble history from
+// each batch's own sums added in batch order, so memory stays at one batch whatever the number of
+// parts, and the tables' bytes are the unsharded run's. summary.json differs from the unsharded run's only in stats.wall_s,
 // stats.ion_steps_per_s (the parts' wall times added), provenance.command_line, .workers,
 // .started_at, and provenance.shards (the parts, their slices and wall times), which it adds.
 
@@ -10,10 +12,11 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseScene } from '../scene/load.js';
 import type { Scene } from '../scene/types.js';
-import { FATE_NAMES } from '../core/batch.js';
+import type { Data } from 'apache-arrow';
 import { RunFolderWriter, FILES } from '../runfolder/writer.js';
-import { tableBatches } from '../runfolder/reader.js';
-import { ION_COLUMNS, TRAJECTORY_COLUMNS, type IonColumns, type TrajectoryColumns } from '../runfolder/columns.js';
+import { columnBatches } from '../runfolder/reader.js';
+import { fateCodes } from '../runfolder/fate-codes.js';
+import { ION_COLUMNS, TRAJECTORY_COLUMNS } from '../runfolder/columns.js';
 import type { RunSummary } from '../runfolder/summary.js';
 import type { BatchResult } from '../engine/track.js';
 import { planBatches } from '../engine/batches.js';
@@ -35,13 +38,20 @@ export function partScene(dir: string, m: ShardManifest): Scene {
   return scene;
 }
 
-const FATE_CODE = new Map<string, number>(FATE_NAMES.map((n, k) => [n, k]));
+const ION_INDEX = Object.fromEntries(ION_COLUMNS.map((c, k) => [c.name, k])) as Record<string, number>;
+
+/** A numeric column's values as a view (offset applied). */
+function view(d: Data): Float64Array | Int32Array {
+  return (d.values as Float64Array | Int32Array).subarray(d.offset, d.offset + d.length);
+}
 
 /** The ion rows of a record batch as the reducers read a batch result. */
-function asBatchResult(c: IonColumns): BatchResult {
-  const fate = new Int8Array(c.fate.length);
-  for (let k = 0; k < fate.length; k++) fate[k] = FATE_CODE.get(c.fate[k])!;
-  return { count: c.ion.length, population: c.population, collisions: c.collisions, end_ke_ev: c.end_ke_ev, end_time: c.end_time, fate, steps: 0, energyError: 0 } as unknown as BatchResult;
+function asBatchResult(cols: readonly Data[], rows: number, path: string): BatchResult {
+  const c = (name: string) => view(cols[ION_INDEX[name]]);
+  return {
+    count: rows, population: c('population'), collisions: c('collisions'), end_ke_ev: c('end_ke_ev'), end_time: c('end_time'),
+    fate: fateCodes(cols[ION_INDEX.fate], path), steps: 0, energyError: 0,
+  } as unknown as BatchResult;
 }
 
 export async function mergeRun(parts: { dir: string; m: ShardManifest }[], opts: MergeOptions): Promise<RunSummary> {
@@ -55,9 +65,10 @@ export async function mergeRun(parts: { dir: string; m: ShardManifest }[], opts:
   try {
     for (const { dir, m } of parts) {
       const before = writer.ionRows;
-      for await (const cols of tableBatches<IonColumns>(join(dir, FILES.ions), ION_COLUMNS)) {
-        writer.appendIons(cols);
-        const r = asBatchResult(cols);
+      const ionsPath = join(dir, FILES.ions);
+      for (const { rows, columns } of columnBatches(ionsPath, ION_COLUMNS)) {
+        writer.appendIonData(columns, rows);
+        const r = asBatchResult(columns, rows, ionsPath);
         t.tally.add(r);
         t.arrivals?.add(r);
         done += r.count;
@@ -65,9 +76,10 @@ export async function mergeRun(parts: { dir: string; m: ShardManifest }[], opts:
       const [from, to] = m.ions as [number, number];
       if (writer.ionRows - before !== to - from) throw new ShardError(`${dir}: ${FILES.ions} holds ${writer.ionRows - before} rows, its slice ${to - from} ions (${from}..${to - 1})`);
       if (existsSync(join(dir, FILES.trajectories))) {
-        for await (const cols of tableBatches<TrajectoryColumns>(join(dir, FILES.trajectories), TRAJECTORY_COLUMNS)) writer.appendTrajectory(cols);
+        for (const { rows, columns } of columnBatches(join(dir, FILES.trajectories), TRAJECTORY_COLUMNS)) writer.appendTrajectoryData(columns, rows);
       }
-      for await (const b of tableBatches<{ batch: Int32Array; sum: Float64Array }>(join(dir, HISTORY_BATCHES_FILE), HISTORY_BATCH_COLUMNS)) t.hist.merge(b.sum);
+      const sumAt = HISTORY_BATCH_COLUMNS.findIndex((c) => c.name === 'sum');
+      for (const { columns } of columnBatches(join(dir, HISTORY_BATCHES_FILE), HISTORY_BATCH_COLUMNS)) t.hist.merge(view(columns[sumAt]) as Float64Array);
       t.stepTally.steps += m.steps as number;
       t.stepTally.energyError = Math.max(t.stepTally.energyError, m.energy_error as number);
     }

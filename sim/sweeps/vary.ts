@@ -128,6 +128,14 @@ export function fieldAt(key: string, raw: Record<string, any>, file: string): Fi
   const unknown = (i: number) => new SweepError(`--vary ${key}: unknown key '${parts.slice(0, i + 1).join('.')}' in ${file}`);
   for (let i = 0; i < parts.length; i++) {
     const p = parts[i];
+    // A one-key mapping (a shape such as `circle: { radius: 2 mm }`): the key names the variant.
+    if (f.kind === 'choice') {
+      const variant = f.variants[p];
+      if (!variant || node?.[p] === undefined) throw unknown(i);
+      f = { kind: 'object', fields: variant.fields, required: variant.required };
+      node = node[p];
+      continue;
+    }
     if (f.kind === 'list') {
       if (!/^\d+$/.test(p) || !Array.isArray(node) || Number(p) >= node.length) {
         throw new SweepError(`--vary ${key}: no entry ${p} in ${parts.slice(0, i).join('.')} of ${file}`);

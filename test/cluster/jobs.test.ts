@@ -8,8 +8,9 @@ import { spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseYaml } from 'yaml';
-import { CLI, ROOT, iontrail, tempDir } from '../helpers/cli.js';
-import { cli, expectSameFolder } from '../shards/compare.js';
+import { Job } from 'kubernetes-models/batch/v1/Job';
+import { CLI, iontrail, tempDir } from '../helpers/cli.js';
+import { cli, expectSameFolder, shell as sh } from '../shards/compare.js';
 
 const SCENE = `
 name: Skerry QF-4 job-folder check
@@ -28,6 +29,46 @@ ions:
 run: { steps_per_cycle: 20, max_time: 20 us, record_every: 0 }
 `;
 
+// An Indexed Job as batch/v1 defines it, checked without a cluster: the manifest against the Job
+// schema of kubernetes-models 4.5.1 (generated from the Kubernetes OpenAPI document: field types
+// and required fields; it does not refuse unknown fields), then what the Job API documents for
+// Indexed mode: completionMode Indexed, completions N, parallelism at most N, restartPolicy Never
+// or OnFailure, and JOB_COMPLETION_INDEX from the pod's job-completion-index annotation.
+function expectIndexedJob(m: any, n: number): void {
+  expect(() => new Job(m).validate(), 'job.yaml against the batch/v1 Job schema').not.toThrow();
+  expect([m.apiVersion, m.kind, m.spec.completionMode, m.spec.completions]).toEqual(['batch/v1', 'Job', 'Indexed', n]);
+  expect(m.spec.parallelism).toBeGreaterThanOrEqual(1);
+  expect(m.spec.parallelism).toBeLessThanOrEqual(n);
+  expect(['Never', 'OnFailure']).toContain(m.spec.template.spec.restartPolicy);
+  const env = m.spec.template.spec.containers[0].env.find((e: any) => e.name === 'JOB_COMPLETION_INDEX');
+  expect(env.valueFrom.fieldRef.fieldPath).toBe("metadata.annotations['batch.kubernetes.io/job-completion-index']");
+  // The check can fail: the same manifest with a wrong type or without a container name is refused.
+  expect(() => new Job({ ...m, spec: { ...m.spec, completions: String(n) } }).validate()).toThrow(/completions must be integer/);
+  const nameless = { ...m.spec.template.spec.containers[0], name: undefined };
+  expect(() => new Job({ ...m, spec: { ...m.spec, template: { spec: { ...m.spec.template.spec, containers: [nameless] } } } }).validate()).toThrow(/must have required property name/);
+}
+
+const COAX = `name: Skerry C-2 coaxial job check
+seed: 1
+stages:
+  - type: electrodes
+    length: 10 mm
+    grid: { symmetry: planar, spacing: 0.25 mm, half_width: 5 mm, reference_radius: 1.5 mm, mirror: [x, y] }
+    electrodes:
+      - name: inner
+        potential: { dc: 10 V }
+        shapes:
+          - circle: { center: [0 mm, 0 mm], radius: 2 mm }
+      - name: outer
+        potential: { dc: 0 V }
+        shapes:
+          - rectangle: { min: [-6 mm, -6 mm], max: [6 mm, 6 mm] }
+        holes:
+          - circle: { center: [0 mm, 0 mm], radius: 4 mm }
+ions:
+  - { mz: 100, count: 1, energy: 0.05 eV }
+`;
+
 function setup() {
   const d = tempDir();
   const scene = join(d, 'scene.yaml');
@@ -35,10 +76,6 @@ function setup() {
   return { d, scene };
 }
 
-function sh(script: string, env: Record<string, string>) {
-  const r = spawnSync('bash', ['-c', script], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ...env } });
-  expect(r.status, r.stderr).toBe(0);
-}
 
 describe('iontrail cluster', () => {
   it('slurm: an array script, a merge held by afterok, and their commands give the unsharded bytes', () => {
@@ -66,7 +103,7 @@ describe('iontrail cluster', () => {
     const vary = ['--vary', 'mz=500..504:3'];
     cli(['cluster', 'kubernetes', scene, ...vary, '--shards', '4', '-o', job, '--image', 'registry.example/iontrail:1', '--claim', 'skerry-work']);
     const m = parseYaml(readFileSync(join(job, 'job.yaml'), 'utf8'));
-    expect([m.apiVersion, m.kind, m.spec.completionMode, m.spec.completions]).toEqual(['batch/v1', 'Job', 'Indexed', 4]);
+    expectIndexedJob(m, 4);
     const c = m.spec.template.spec.containers[0];
     expect(c.image).toBe('registry.example/iontrail:1');
     expect(m.spec.template.spec.volumes[0].persistentVolumeClaim.claimName).toBe('skerry-work');
@@ -74,6 +111,8 @@ describe('iontrail cluster', () => {
     const script: string = c.command[2];
     expect(script).toContain('--shard "$JOB_COMPLETION_INDEX/4"');
     const mj = parseYaml(readFileSync(join(job, 'merge-job.yaml'), 'utf8'));
+    expect(() => new Job(mj).validate(), 'merge-job.yaml against the batch/v1 Job schema').not.toThrow();
+    expect([mj.spec.completions, mj.spec.completionMode]).toEqual([1, undefined]);
     expect(readFileSync(join(job, 'submit-kubernetes.sh'), 'utf8')).toMatch(/kubectl wait --for=condition=complete .*\n.*merge-job\.yaml/);
     // As the cluster would: `iontrail` on PATH in the image, each index, then the merge.
     const bin = join(d, 'bin');
@@ -87,6 +126,18 @@ describe('iontrail cluster', () => {
     cli(['sweep', scene, ...vary, '-o', full]);
     expectSameFolder(full, join(job, 'result'), 'sweep');
   }, 60_000);
+
+  it('kubernetes --field: an Indexed Job of the variant solves, no merge Job', () => {
+    const { d } = setup();
+    const scene = join(d, 'coax.yaml');
+    writeFileSync(scene, COAX);
+    const job = join(d, 'k8s-field');
+    cli(['cluster', 'kubernetes', scene, '--field', '--vary', 'stages.0.electrodes.1.holes.0.circle.radius=3.5mm,4mm,4.5mm', '--shards', '3', '-o', job]);
+    const m = parseYaml(readFileSync(join(job, 'job.yaml'), 'utf8'));
+    expectIndexedJob(m, 3);
+    expect(m.spec.template.spec.containers[0].command[2]).toMatch(/iontrail field .* --shard "\$JOB_COMPLETION_INDEX\/3" .* -o \S+\/result --force$/);
+    expect(existsSync(join(job, 'merge-job.yaml'))).toBe(false);
+  });
 
   it('refuses a bad job before writing anything', () => {
     const { d, scene } = setup();

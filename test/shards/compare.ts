@@ -4,14 +4,23 @@
 import { expect } from 'vitest';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { iontrail } from '../helpers/cli.js';
+import { spawnSync } from 'node:child_process';
+import { ROOT, iontrail } from '../helpers/cli.js';
 import { formatSummary, type RunSummary } from '../../sim/runfolder/summary.js';
+import { plotRun } from '../../render/plot/index.js';
+import { plotSweep } from '../../render/plot/sweep-figure.js';
 
 /** summary.json fields that a merge may change (wall times, the command and the parts), by folder kind. */
 export const MERGE_FIELDS = {
   run: { stats: ['wall_s', 'ion_steps_per_s'], provenance: ['command_line', 'workers', 'started_at', 'shards'] },
   sweep: { stats: [], provenance: ['command_line', 'workers', 'started_at', 'wall_s', 'shards'] },
 } as const;
+
+/** A job script's command run by bash with the scheduler's variables set (SLURM_ARRAY_TASK_ID, ...). */
+export function shell(script: string, env: Record<string, string>): void {
+  const r = spawnSync('bash', ['-c', script], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, ...env } });
+  expect(r.status, r.stderr).toBe(0);
+}
 
 export function cli(args: string[]): string {
   const r = iontrail(args);
@@ -53,4 +62,23 @@ export function expectSameFolder(full: string, merged: string, kind: 'run' | 'sw
   // Re-written in each kind's own format: runs through formatSummary, sweeps as JSON with 2 spaces.
   const text = kind === 'run' ? formatSummary(b as RunSummary) : JSON.stringify(b, null, 2) + '\n';
   expect(text).toBe(readFileSync(join(full, 'summary.json'), 'utf8'));
+}
+
+/**
+ * The figures of the merged folder are the unsharded folder's PNG bytes: `kinds` of `iontrail
+ * plot` for a run, the sweep figure of `columns` for a sweep. Drawn into `into` (a temp folder).
+ */
+export async function expectSameFigures(full: string, merged: string, into: string, what: { kinds: string[] } | { columns: string[] }): Promise<void> {
+  const draw = async (dir: string, name: string, tag: string) => {
+    const out = join(into, `${tag}-${name}.png`);
+    if ('kinds' in what) await plotRun(dir, { kind: name, out });
+    else await plotSweep(dir, out, name.split('+'));
+    return readFileSync(out);
+  };
+  const names = 'kinds' in what ? what.kinds : [what.columns.join('+')];
+  for (const name of names) {
+    const a = await draw(full, name, 'full'), b = await draw(merged, name, 'merged');
+    expect(a.byteLength, `${name} figure drawn`).toBeGreaterThan(1000);
+    expect(b.equals(a), `${name} figure byte-identical`).toBe(true);
+  }
 }

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { iontrail, tempDir } from '../helpers/cli.js';
-import { cli, expectSameFolder, writeParts } from './compare.js';
+import { cli, expectSameFigures, expectSameFolder, writeParts } from './compare.js';
 
 // A filter with recorded trajectories and two populations (trajectories.arrow, history_species.arrow).
 const FILTER = `
@@ -66,7 +66,7 @@ function setup(text: string) {
 }
 
 describe('run shards merge into the unsharded bytes', () => {
-  it('filter with trajectories: 3 shards and one shard per batch, parts on 1 and 2 workers', () => {
+  it('filter with trajectories: 3 shards and one shard per batch, parts on 1 and 2 workers, and its figures', async () => {
     const { d, scene } = setup(FILTER);
     const full = join(d, 'full');
     cli(['run', scene, '-o', full, '--workers', '2']);
@@ -84,6 +84,8 @@ describe('run shards merge into the unsharded bytes', () => {
       cli(['merge', ...parts, '-o', merged]);
       expectSameFolder(full, merged, 'run');
     }
+    // The figures of a merge are the unsharded run's PNG bytes (their footer holds no time or folder).
+    await expectSameFigures(full, join(d, `m${count}`), d, { kinds: ['traces', 'stability', 'phase'] });
   }, 60_000);
 
   it('more shards than batches is refused with the number of batches', () => {
@@ -94,7 +96,7 @@ describe('run shards merge into the unsharded bytes', () => {
     expect(r.stderr).toMatch(/the run has \d+ batches of \d+ ions .* give at most \d+ shards/);
   });
 
-  it('trap in buffer gas: history, species history and cooling fit from 4 shards', () => {
+  it('trap in buffer gas: history, species history, cooling fit and their figures from 4 shards', async () => {
     const { d, scene } = setup(TRAP);
     const full = join(d, 'full');
     cli(['run', scene, '-o', full, '--workers', '1']);
@@ -102,6 +104,7 @@ describe('run shards merge into the unsharded bytes', () => {
     const merged = join(d, 'm');
     cli(['merge', ...parts, '-o', merged]);
     expectSameFolder(full, merged, 'run');
+    await expectSameFigures(full, merged, d, { kinds: ['cooling', 'energy', 'xy'] });
     expect(JSON.parse(readFileSync(join(merged, 'summary.json'), 'utf8')).cooling.collisions_per_ion, 'the gas acted').toBeGreaterThan(0);
   }, 60_000);
 });

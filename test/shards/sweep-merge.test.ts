@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { iontrail, tempDir } from '../helpers/cli.js';
-import { cli, expectSameFolder, writeParts } from './compare.js';
+import { cli, expectSameFigures, expectSameFolder, writeParts } from './compare.js';
 
 // Ideal filter and drift only: linear, so `auto` takes the matrix path.
 const LINEAR = `
@@ -38,7 +38,7 @@ function setup() {
 }
 
 describe('sweep shards merge into the unsharded bytes', () => {
-  it('matrix path: 7 points in 2, 7 and 16 shards (16: point × ion ranges)', () => {
+  it('matrix path: 7 points in 2, 7 and 16 shards (16: point × ion ranges), and the sweep figure', async () => {
     const { d, scene } = setup();
     const args = [scene, '--vary', 'mz=498..506:7'];
     const full = join(d, 'full');
@@ -52,6 +52,7 @@ describe('sweep shards merge into the unsharded bytes', () => {
       cli(['merge', ...parts, '-o', merged]);
       expectSameFolder(full, merged, 'sweep');
     }
+    await expectSameFigures(full, join(d, 'm16'), d, { columns: ['transmission'] });
     expect(JSON.parse(readFileSync(join(full, 'summary.json'), 'utf8')).peak).not.toBeNull();
   }, 60_000);
 

@@ -130,7 +130,7 @@ export const cooling: PlotKind = {
           note: perSpecies ? rmsNote : undefined,
         },
       ],
-      footer: footerText(run.summary, run.dir),
+      footer: footerText(run.summary),
     };
   },
 };

@@ -170,7 +170,7 @@ function buildHistogram(run: RunFolder, opt: KindOptions, what: 'arrival' | 'ene
     legend,
     rows: panels.length, cols: 1,
     panels: panels.map((p) => p.spec),
-    footer: footerText(run.summary, run.dir),
+    footer: footerText(run.summary),
   };
 }
 

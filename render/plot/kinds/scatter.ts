@@ -160,7 +160,7 @@ async function build(run: RunFolder, opt: KindOptions, kind: 'phase' | 'xy'): Pr
     panels,
     rows: 1,
     cols: panels.length,
-    footer: footerText(run.summary, run.dir),
+    footer: footerText(run.summary),
   };
 }
 

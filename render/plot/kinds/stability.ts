@@ -218,7 +218,7 @@ export const stability: PlotKind = {
         },
         overlay: (ctx, g) => placeLabels(ctx, g, points),
       }],
-      footer: footerText(run.summary, run.dir),
+      footer: footerText(run.summary),
     };
   },
 };

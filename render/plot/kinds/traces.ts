@@ -180,7 +180,7 @@ export const traces: PlotKind = {
       rows: specs.length,
       cols: 1,
       sharedX: true,
-      footer: footerText(run.summary, run.dir),
+      footer: footerText(run.summary),
     };
   },
 };

@@ -23,7 +23,7 @@ export interface SweepCurve {
 
 const fmt = (v: number | null, d = 4): string => (v === null ? '—' : String(Number(v.toPrecision(d))));
 
-export function peakShapeFigure(sweep: SweepCurve, summary: RunSummary, runDir: string): FigureSpec | null {
+export function peakShapeFigure(sweep: SweepCurve, summary: RunSummary): FigureSpec | null {
   if (sweep.mz.length < 2) return null;
   const lo = Math.min(...sweep.mz), hi = Math.max(...sweep.mz);
   const tmax = Math.max(0.05, ...sweep.transmission);
@@ -79,6 +79,6 @@ export function peakShapeFigure(sweep: SweepCurve, summary: RunSummary, runDir: 
         });
       },
     }],
-    footer: footerText(summary, runDir),
+    footer: footerText(summary),
   };
 }

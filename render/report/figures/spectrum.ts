@@ -19,7 +19,7 @@ export interface ScanBlock {
 const fmt = (v: number, d = 4): string => String(Number(v.toPrecision(d)));
 
 /** The figure, or null when the scan has no spectrum or no counts. */
-export function spectrumFigure(summary: RunSummary, runDir: string): FigureSpec | null {
+export function spectrumFigure(summary: RunSummary): FigureSpec | null {
   const scan = summary.scan as ScanBlock | undefined | null;
   const sp = scan?.spectrum;
   if (!sp || !Array.isArray(sp.counts) || !(sp.bin_width_mz > 0)) return null;
@@ -69,6 +69,6 @@ export function spectrumFigure(summary: RunSummary, runDir: string): FigureSpec 
         species.forEach((s, i) => ctx.fillText(`${fmt(s.mz, 6)}`, g.px(s.mz) + 4, g.top + 14 + 14 * (i % 2)));
       },
     }],
-    footer: footerText(summary, runDir),
+    footer: footerText(summary),
   };
 }

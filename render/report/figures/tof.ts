@@ -39,7 +39,7 @@ function dots(ctx: Ctx, g: PanelGeom, xs: ArrayLike<number>, ys: ArrayLike<numbe
 }
 
 /** Mass calibration t = t0 + k√(m/z) over the species' peak centres (needs two or more peaks). */
-export function calibrationFigure(summary: RunSummary, runDir: string): FigureSpec | null {
+export function calibrationFigure(summary: RunSummary): FigureSpec | null {
   const tof = tofOf(summary);
   const cal = tof?.calibration;
   const pts = (tof?.species ?? []).filter((s) => s.arrival_time_s !== null);
@@ -79,7 +79,7 @@ export function calibrationFigure(summary: RunSummary, runDir: string): FigureSp
         },
       },
     ],
-    footer: footerText(summary, runDir),
+    footer: footerText(summary),
   };
 }
 
@@ -128,7 +128,7 @@ export function sourceFocusFigure(run: RunFolder): FigureSpec | null {
       note: 'a flat band means the start-position spread is focused at the detector',
       draw: (ctx, g) => series.forEach((s) => dots(ctx, g, s.dz, s.dt, speciesColor(s.mz))),
     }],
-    footer: footerText(run.summary, run.dir),
+    footer: footerText(run.summary),
   };
 }
 
@@ -172,6 +172,6 @@ export function reflectronFigure(run: RunFolder): FigureSpec | null {
       y: { label: 'arrival time − species mean', unit: 's', min: ya, max: yb },
       draw: (ctx, g) => { dots(ctx, g, e, dtL, cL, 2, 0.45); dots(ctx, g, e, dtR, cR, 2, 0.7); },
     }],
-    footer: footerText(run.summary, run.dir),
+    footer: footerText(run.summary),
   };
 }

@@ -28,7 +28,7 @@ export function fateParts(storage: boolean): { key: string; label: string; color
 const fmtMz = (v: number) => String(Number(v.toPrecision(6)));
 
 /** `storage`: a trap that holds its ions (the stored share is the figure of merit, not detection). */
-export function transmissionFigure(summary: RunSummary, runDir: string, storage = false): FigureSpec {
+export function transmissionFigure(summary: RunSummary, storage = false): FigureSpec {
   const sp = summary.species;
   const n = sp.length;
   const parts = fateParts(storage);
@@ -66,6 +66,6 @@ export function transmissionFigure(summary: RunSummary, runDir: string, storage 
         });
       },
     }],
-    footer: footerText(summary, runDir),
+    footer: footerText(summary),
   };
 }
