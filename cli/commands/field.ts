@@ -247,11 +247,11 @@ async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hi
       figs.push(`${name}.${fmt}`);
     }
   };
-  const map = fieldMap(solution, volts, is3d ? 1 : 2, 0);
+  const map = fieldMap(solution, volts, is3d ? 1 : 2, 0, problem);
   await write('equipotential', equipotentialSpec(map, text('equipotentials', `electrodes at t = 0 (dc + RF at its phase)`)).spec);
   const ideal = idealField(problem, volts);
   if (ideal) {
-    const mid = is3d ? fieldMap(solution, volts, 2, problem.grid.length / 2) : map;
+    const mid = is3d ? fieldMap(solution, volts, 2, problem.grid.length / 2, problem) : map;
     const dev = new Float64Array(mid.values.length);
     const nu = mid.u.coords.length;
     const mags: number[] = [];

@@ -12,7 +12,7 @@ import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
 import type { FieldProblem, FieldSolution, SolvedGrid, SolveStats } from './problem.js';
 
 /** Bumped when the solver's discretisation changes, so old entries are no longer found. */
-export const CACHE_FORMAT = 'iontrail-field-cache-1';
+export const CACHE_FORMAT = 'iontrail-field-cache-2';
 
 /** What the solution depends on, as canonical JSON (object keys sorted). */
 function canonical(v: unknown): string {
