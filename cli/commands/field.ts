@@ -39,6 +39,8 @@ electrode at 1 V, every other electrode and the grounded box edge at 0 V) and wr
   summary.json        grid, nodes, iterations, final residual, wall time, memory, multipoles
                       (planar grids) or axis Legendre coefficients (axial grids) at the dc volts
   equipotential.png/.svg, deviation.png/.svg (where an ideal field exists), multipoles.png/.svg
+The box edge of the grid is grounded (0 V) unless an electrode covers it. A solve that does not
+reach the tolerance within the stage's grid.max_iterations (default 200) is refused, exit 2.
 With several electrodes stages and no --stage, each goes to DIR/stage-N/.
 Solutions are cached by geometry and grid in DIR's parent (.iontrail-cache), or for --at in
 $XDG_CACHE_HOME/iontrail (else ~/.cache/iontrail).

@@ -26,7 +26,9 @@ function canonical(v: unknown): string {
 
 /** The cache key of a problem solved to `tolerance`: hex SHA-256. */
 export function cacheKey(problem: FieldProblem, tolerance: number): string {
-  const geometry = { format: CACHE_FORMAT, tolerance, grid: problem.grid, electrodes: problem.electrodes.map((e) => ({ shapes: e.shapes, holes: e.holes })) };
+  // The iteration limit decides only whether a solve is accepted, not what a converged one holds.
+  const { maxIterations: _limit, ...grid } = problem.grid;
+  const geometry = { format: CACHE_FORMAT, tolerance, grid, electrodes: problem.electrodes.map((e) => ({ shapes: e.shapes, holes: e.holes })) };
   return createHash('sha256').update(canonical(geometry)).digest('hex');
 }
 
