@@ -268,6 +268,8 @@ export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64A
 /** x += P ec at the free fine nodes: the coarse rows combined once per fine row, then along it. */
 export function prolongAdd(op: LevelOperator, x: Float64Array, cop: LevelOperator, ec: Float64Array, s: RowScratch): void {
   const f = op.level, d = op.diag, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, ncx = c.n[0], comb = s.comb;
+  const runs = f.uniform ? regularRuns(op) : undefined, cut = op.rows.node;
+  let cq = 0;
   for (let k = 0; k < nz; k++) {
     for (let j = 0; j < ny; j++) {
       const row = f.guard + (k * ny + j) * nx;
@@ -276,6 +278,21 @@ export function prolongAdd(op: LevelOperator, x: Float64Array, cop: LevelOperato
       for (let q = 0; q < nq; q++) {
         const base = s.base[q], w = s.w[q];
         for (let ic = 0; ic < ncx; ic++) comb[ic] += w * ec[base + ic];
+      }
+      if (runs !== undefined) {
+        // Regular nodes by their runs, then this line's cut rows (stored in node order).
+        const jk = k * ny + j, q1 = runs.line[jk + 1];
+        for (let q = runs.line[jk]; q < q1; q++) {
+          for (let n = runs.start[q], e = runs.end[q]; n < e; n++) {
+            const i = n - row, ic = i >> 1;
+            x[n] += (i & 1) === 0 ? comb[ic] : 0.5 * (comb[ic] + comb[ic + 1]);
+          }
+        }
+        for (const lineEnd = row + nx; cq < cut.length && cut[cq] < lineEnd; cq++) {
+          const n = cut[cq], i = n - row, ic = i >> 1;
+          x[n] += (i & 1) === 0 ? comb[ic] : 0.5 * (comb[ic] + comb[ic + 1]);
+        }
+        continue;
       }
       for (let i = 0, n = row; i < nx; i++, n++) {
         if (d[n] === 0) continue;
