@@ -238,7 +238,7 @@ function rowResidual(op: LevelOperator, b: Float64Array, x: Float64Array, j: num
  * Pᵀ A P (the weights of an integrated d-dimensional operator grow as h^(d−2)).
  */
 export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64Array, cop: LevelOperator, rc: Float64Array, scale: number, s: RowScratch): void {
-  const f = op.level, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, inv = 1 / scale, ncx = c.n[0], res = s.res;
+  const f = op.level, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, inv = 1 / scale, ncx = c.n[0], res = s.res, comb = s.comb;
   rc.fill(0);
   res.fill(0);
   for (let k = 0; k < nz; k++) {
@@ -246,12 +246,14 @@ export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64A
       rowResidual(op, b, x, j, k, res, inv);
       const nq = s.rows(j, k, three, c);
       // Coarse node ic gathers fine nodes 2ic (weight 1) and 2ic ± 1 (weight ½); res is padded.
+      // The row restricted along x once, then added to each of the (up to 4) coarse rows.
+      for (let ic = 0; ic < ncx; ic++) {
+        const i = 2 * ic + 1;
+        comb[ic] = res[i] + 0.5 * (res[i - 1] + res[i + 1]);
+      }
       for (let q = 0; q < nq; q++) {
         const base = s.base[q], w = s.w[q];
-        for (let ic = 0; ic < ncx; ic++) {
-          const i = 2 * ic + 1;
-          rc[base + ic] += w * (res[i] + 0.5 * (res[i - 1] + res[i + 1]));
-        }
+        for (let ic = 0; ic < ncx; ic++) rc[base + ic] += w * comb[ic];
       }
     }
   }
