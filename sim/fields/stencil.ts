@@ -123,7 +123,9 @@ function relaxUniform(op: LevelOperator, b: Float64Array, x: Float64Array, colou
 
 /** The cut rows of colour `colour` from row index q on, while their node lies below `end`; returns the next q. */
 function relaxCutRows(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number, q: number, end: number): number {
-  const r = op.rows, node = r.node, col = r.colour, dg = r.diag, m = node.length, [o0, o1, o2, o3, o4, o5] = offsets(op.level);
+  const r = op.rows, node = r.node, m = node.length;
+  if (q >= m || node[q] >= end) return q;
+  const col = r.colour, dg = r.diag, lv = op.level, o0 = -1, o1 = 1, o2 = -lv.sy, o3 = lv.sy, o4 = -lv.sz, o5 = lv.sz;
   for (; q < m && node[q] < end; q++) {
     if (col[q] !== colour) continue;
     const n = node[q];
