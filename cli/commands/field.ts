@@ -40,6 +40,8 @@ electrode at 1 V, every other electrode and the grounded box edge at 0 V) and wr
   summary.json        grid, nodes, iterations, final residual, wall time, memory, multipoles
                       (planar grids) or axis Legendre coefficients (axial grids) at the dc volts
   equipotential.png/.svg, deviation.png/.svg (where an ideal field exists), multipoles.png/.svg
+The box edge of the grid is grounded (0 V) unless an electrode covers it. A solve that does not
+reach the tolerance within the stage's grid.max_iterations (default 200) is refused, exit 2.
 With several electrodes stages and no --stage, each goes to DIR/stage-N/.
 Solutions are cached by geometry and grid in DIR's parent (.iontrail-cache), or for --at in
 $XDG_CACHE_HOME/iontrail (else ~/.cache/iontrail).
@@ -265,11 +267,11 @@ async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hi
       figs.push(`${name}.${fmt}`);
     }
   };
-  const map = fieldMap(solution, volts, is3d ? 1 : 2, 0);
+  const map = fieldMap(solution, volts, is3d ? 1 : 2, 0, problem);
   await write('equipotential', equipotentialSpec(map, text('equipotentials', `electrodes at t = 0 (dc + RF at its phase)`)).spec);
   const ideal = idealField(problem, volts);
   if (ideal) {
-    const mid = is3d ? fieldMap(solution, volts, 2, problem.grid.length / 2) : map;
+    const mid = is3d ? fieldMap(solution, volts, 2, problem.grid.length / 2, problem) : map;
     const dev = new Float64Array(mid.values.length);
     const nu = mid.u.coords.length;
     const mags: number[] = [];

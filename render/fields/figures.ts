@@ -27,6 +27,7 @@ function diverging(s: number): [number, number, number] {
   return [Math.round(255 + a * (end[0] - 255)), Math.round(255 + a * (end[1] - 255)), Math.round(255 + a * (end[2] - 255))];
 }
 
+/** Nearest node of (u, v), or −1 off the map. */
 function nodeAt(m: FieldMap, u: number, v: number): number {
   const hu = m.u.coords[1] - m.u.coords[0], hv = m.v.coords[1] - m.v.coords[0];
   const a = Math.round((u - m.u.coords[0]) / hu), b = Math.round((v - m.v.coords[0]) / hv);
@@ -35,30 +36,83 @@ function nodeAt(m: FieldMap, u: number, v: number): number {
   return a + nu * b;
 }
 
-/** Paint the map: free nodes by `color(value)`, electrode nodes in their series colour. */
-function paint(ctx: Ctx, g: PanelGeom, m: FieldMap, values: Float64Array, color: (v: number) => [number, number, number] | undefined): void {
-  for (let py = g.top; py < g.top + g.height; py += CELL) {
-    const v = g.y.min + (g.y.max - g.y.min) * (1 - (py + CELL / 2 - g.top) / g.height);
-    for (let px = g.left; px < g.left + g.width; px += CELL) {
-      const u = g.x.min + (g.x.max - g.x.min) * ((px + CELL / 2 - g.left) / g.width);
-      const p = nodeAt(m, u, v);
-      if (p < 0) continue;
-      const e = m.inside[p];
-      let rgb: [number, number, number] | undefined;
-      if (e >= 0) {
-        ctx.fillStyle = seriesColor(e);
-        ctx.fillRect(px, py, CELL, CELL);
-        continue;
-      }
-      rgb = color(values[p]);
-      if (!rgb) continue;
-      ctx.fillStyle = `rgb(${rgb[0]},${rgb[1]},${rgb[2]})`;
-      ctx.fillRect(px, py, CELL, CELL);
+/**
+ * The value at (u, v): bilinear between the four nodes around it when all four are finite (a smooth
+ * shading at the grid's own accuracy; a node inside an electrode holds its potential), else the
+ * nearest node's; NaN where there is nothing to show (outside the ideal field's region).
+ */
+export function valueAt(m: FieldMap, values: Float64Array, u: number, v: number): number {
+  const nu = m.u.coords.length, nv = m.v.coords.length;
+  const hu = m.u.coords[1] - m.u.coords[0], hv = m.v.coords[1] - m.v.coords[0];
+  const fa = (u - m.u.coords[0]) / hu, fb = (v - m.v.coords[0]) / hv;
+  const a = Math.floor(fa), b = Math.floor(fb);
+  if (a >= 0 && b >= 0 && a + 1 < nu && b + 1 < nv) {
+    const p = a + nu * b, q = [p, p + 1, p + nu, p + nu + 1];
+    if (q.every((n) => Number.isFinite(values[n]))) {
+      const s = fa - a, t = fb - b;
+      return (1 - t) * ((1 - s) * values[q[0]] + s * values[q[1]]) + t * ((1 - s) * values[q[2]] + s * values[q[3]]);
     }
   }
+  const n = nodeAt(m, u, v);
+  return n >= 0 ? values[n] : NaN;
 }
 
-/** Contour segments of `values` at `levels` (marching squares), skipping cells touching an electrode. */
+/**
+ * The electrode drawn at (u, v), −1 for none: the shapes themselves where the map carries them
+ * (true outlines), else the nearest node's label.
+ */
+export function electrodeAt(m: FieldMap, u: number, v: number): number {
+  if (m.electrodeAt) return m.electrodeAt(u, v);
+  const n = nodeAt(m, u, v);
+  return n >= 0 ? m.inside[n] : -1;
+}
+
+/** One raster cell colour as a CSS string, or undefined for a cell left unpainted. */
+export type CellColour = string | undefined;
+
+/**
+ * The colours of the cells of a panel, row by row from the top: electrodes in their series colour,
+ * free points by `color(value)` (undefined or a non-finite value: unpainted). Cell edges sit on
+ * whole pixels so neighbouring cells meet without antialiased seams.
+ */
+export function rasterCells(g: PanelGeom, m: FieldMap, values: Float64Array, color: (v: number) => [number, number, number] | undefined): { x: number[]; y: number[]; cells: CellColour[][] } {
+  const x0 = Math.floor(g.left), y0 = Math.floor(g.top), x1 = Math.ceil(g.left + g.width), y1 = Math.ceil(g.top + g.height);
+  const xs: number[] = [], ys: number[] = [];
+  for (let px = x0; px < x1; px += CELL) xs.push(px);
+  for (let py = y0; py < y1; py += CELL) ys.push(py);
+  const cells = ys.map((py) => {
+    const v = (py + CELL / 2 - g.ay) / g.by;
+    return xs.map((px): CellColour => {
+      const u = (px + CELL / 2 - g.ax) / g.bx;
+      const e = electrodeAt(m, u, v);
+      if (e >= 0) return seriesColor(e);
+      const val = valueAt(m, values, u, v);
+      if (!Number.isFinite(val)) return undefined;
+      const rgb = color(val);
+      return rgb ? `rgb(${rgb[0]},${rgb[1]},${rgb[2]})` : undefined;
+    });
+  });
+  return { x: xs, y: ys, cells };
+}
+
+/** Paint the map: each row's runs of one colour as one rectangle (no seams inside an electrode). */
+function paint(ctx: Ctx, g: PanelGeom, m: FieldMap, values: Float64Array, color: (v: number) => [number, number, number] | undefined): void {
+  const r = rasterCells(g, m, values, color);
+  r.cells.forEach((row, j) => {
+    for (let i = 0; i < row.length;) {
+      const c = row[i];
+      let k = i + 1;
+      while (k < row.length && row[k] === c) k++;
+      if (c !== undefined) {
+        ctx.fillStyle = c;
+        ctx.fillRect(r.x[i], r.y[j], CELL * (k - i), CELL);
+      }
+      i = k;
+    }
+  });
+}
+
+/** Contour segments of `values` at `levels` (marching squares), skipping cells touching an electrode or a NaN. */
 function contours(ctx: Ctx, g: PanelGeom, m: FieldMap, values: Float64Array, levels: readonly number[], stroke: (lv: number) => string): void {
   const nu = m.u.coords.length, nv = m.v.coords.length;
   const U = m.u.coords, V = m.v.coords;
@@ -68,7 +122,9 @@ function contours(ctx: Ctx, g: PanelGeom, m: FieldMap, values: Float64Array, lev
     ctx.beginPath();
     for (let b = 0; b < nv - 1; b++) for (let a = 0; a < nu - 1; a++) {
       const p = [a + nu * b, a + 1 + nu * b, a + 1 + nu * (b + 1), a + nu * (b + 1)];
-      if (p.some((q) => m.inside[q] >= 0)) continue;
+      // A NaN corner (outside the ideal field's region) would give NaN crossings, which the
+      // canvas drops from moveTo and so joins the next segment to the last one drawn.
+      if (p.some((q) => m.inside[q] >= 0 || !Number.isFinite(values[q]))) continue;
       const f = p.map((q) => values[q] - lv);
       const cu = [U[a], U[a + 1], U[a + 1], U[a]], cv = [V[b], V[b], V[b + 1], V[b + 1]];
       const pts: [number, number][] = [];

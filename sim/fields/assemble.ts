@@ -81,87 +81,45 @@ export function labelLevel(lv: Level, axes: Axis[], els: ElectrodeSet[], out: In
   }
 }
 
+/** Scratch and output of the rows assembleLevel writes node by node (allocated once per level). */
+interface RowBuilder {
+  lv: Level; axes: Axis[]; els: ElectrodeSet[]; labels: Int16Array; diag: Float64Array;
+  terms?: { node: number[]; coef: number[]; electrode: number[] };
+  stride: number[]; pos: number[]; q: number[]; idx: number[];
+  theta: Float64Array; w: Float64Array; elec: Int16Array; offs: Float64Array;
+  rNode: number[]; rDiag: number[]; rOff: number[]; rColour: number[];
+}
+
 /**
  * The operator of one level (and, when `terms` is given, the boundary terms of the finest level):
  * the regular diagonal Σ w, or a Shortley–Weller row where an edge is cut by an electrode or a face.
+ * The loop over nodes is kept small (most nodes of a Cartesian grid take the plain stencil); the
+ * other nodes go to nodeRow.
  */
 export function assembleLevel(lv: Level, axes: Axis[], els: ElectrodeSet[], labels: Int16Array, terms?: { node: number[]; coef: number[]; electrode: number[] }): LevelOperator {
-  const { n, sy, sz, guard } = lv, H = lv.spacing, d = axes.length;
+  const { n, sy, sz, guard } = lv, d = axes.length;
   const diag = new Float64Array(shared((lv.nodes + 2 * guard) * 8));
-  const stride = [1, sy, sz];
-  const pos = [0, 0, 0], q = [0, 0, 0], idx = [0, 0, 0];
-  const theta = new Float64Array(6), w = new Float64Array(6), elec = new Int16Array(6);
-  const rNode: number[] = [], rDiag: number[] = [], rOff: number[] = [], rColour: number[] = [];
+  const B: RowBuilder = {
+    lv, axes, els, labels, diag, terms, stride: [1, sy, sz], pos: [0, 0, 0], q: [0, 0, 0], idx: [0, 0, 0],
+    theta: new Float64Array(6), w: new Float64Array(6), elec: new Int16Array(6), offs: new Float64Array(6),
+    rNode: [], rDiag: [], rOff: [], rColour: [],
+  };
+  const uniform = lv.uniform, three = d === 3, dd = 2 * d;
   for (let k = 0, node = 0; k < n[2]; k++) {
     for (let j = 0; j < n[1]; j++) {
       for (let i = 0; i < n[0]; i++, node++) {
         if (labels[node] !== FREE) continue;
         // Fast path: a Cartesian node off the low faces with every neighbour free is the plain stencil.
-        if (lv.uniform && i > 0 && j > 0 && (d < 3 || k > 0) && labels[node - 1] === FREE && labels[node + 1] === FREE
-          && labels[node - sy] === FREE && labels[node + sy] === FREE && (d < 3 || (labels[node - sz] === FREE && labels[node + sz] === FREE))) {
-          diag[guard + node] = 2 * d;
+        if (uniform && i > 0 && j > 0 && (!three || k > 0) && labels[node - 1] === FREE && labels[node + 1] === FREE
+          && labels[node - sy] === FREE && labels[node + sy] === FREE && (!three || (labels[node - sz] === FREE && labels[node + sz] === FREE))) {
+          diag[guard + node] = dd;
           continue;
         }
-        idx[0] = i; idx[1] = j; idx[2] = k;
-        for (let a = 0; a < 3; a++) pos[a] = a < d ? axes[a].lo + idx[a] * H : 0;
-        let cut = false, sum = 0;
-        theta.fill(1); w.fill(0); elec.fill(-1);
-        for (let a = 0; a < d; a++) {
-          const ma = a === 0 ? lv.m[1][j] * lv.m[2][k] : a === 1 ? lv.m[0][i] * lv.m[2][k] : lv.m[0][i] * lv.m[1][j];
-          for (let s = 0; s < 2; s++) {
-            const dir = s === 0 ? -1 : 1, slot = 2 * a + s;
-            const wt = (dir < 0 ? lv.em[a][idx[a]] : lv.ep[a][idx[a]]) * ma;
-            const ii = idx[a] + dir;
-            if (ii < 0 || ii >= n[a]) {
-              if (dir > 0) throw new Error('fields: free node on the last index');
-              continue;
-            }
-            w[slot] = wt;
-            if (wt === 0) continue;
-            sum += wt;
-            const nb = node + dir * stride[a], lab = labels[nb];
-            if (lab === FREE) continue;
-            q[0] = pos[0]; q[1] = pos[1]; q[2] = pos[2]; q[a] += dir * H;
-            let t = 2, e = -1;
-            const ax = axes[a];
-            if (dir > 0 && q[a] >= ax.hi - 1e-9 * H) t = (ax.hi - pos[a]) / H;
-            if (dir < 0 && !ax.openLow && q[a] <= ax.lo + 1e-9 * H) t = (pos[a] - ax.lo) / H;
-            if (lab >= 0) {
-              const te = els[lab].entry(pos[0], pos[1], pos[2], q[0], q[1], q[2]);
-              if (te <= t) { t = te; e = lab; }
-            }
-            if (t > 1) t = 1; // a FACE node on a face the box does not cut: 0 V there
-            if (t < THETA_MIN) t = THETA_MIN;
-            theta[slot] = t; elec[slot] = e;
-            if (t < 1) cut = true;
-          }
-        }
-        // Shortley–Weller factor per axis; no node below (mirror, axis): the image, θ⁻ = θ⁺.
-        let dsw = 0;
-        const offs = [0, 0, 0, 0, 0, 0];
-        for (let a = 0; a < d; a++) {
-          const tm = w[2 * a] === 0 ? theta[2 * a + 1] : theta[2 * a], tp = w[2 * a + 1] === 0 ? tm : theta[2 * a + 1];
-          const c = cut ? 2 / (tm + tp) : 1;
-          for (let s = 0; s < 2; s++) {
-            const slot = 2 * a + s;
-            if (w[slot] === 0) continue;
-            // Radial axis off the axis: r at the middle of the (possibly cut) edge, r_{i ± θ/2},
-            // so that the r-weighted difference stays consistent with (1/r)(r φ_r)_r.
-            const wr = axes[a].radial && idx[a] > 0 && cut ? (w[slot] * (idx[a] + (s === 0 ? -0.5 : 0.5) * theta[slot])) / (idx[a] + (s === 0 ? -0.5 : 0.5)) : w[slot];
-            const coef = (c * wr) / theta[slot];
-            dsw += coef;
-            const nb = node + (s === 0 ? -1 : 1) * stride[a];
-            if (labels[nb] === FREE) offs[slot] = coef;
-            if (terms !== undefined && elec[slot] >= 0) { terms.node.push(node); terms.coef.push(coef); terms.electrode.push(elec[slot]); }
-          }
-        }
-        const onMirror = lv.uniform && ((axes[0].openLow && i === 0) || (axes[1].openLow && j === 0) || (d === 3 && axes[2].openLow && k === 0));
-        if (!cut && !onMirror) { diag[guard + node] = sum; continue; }
-        diag[guard + node] = -(rNode.length + 1);
-        rNode.push(guard + node); rDiag.push(dsw); rOff.push(...offs); rColour.push((i + j + k) & 1);
+        nodeRow(B, i, j, k, node);
       }
     }
   }
+  const { rNode, rDiag, rOff, rColour } = B;
   const m = rNode.length;
   const rows: CutRows = {
     node: new Int32Array(shared(m * 4)).subarray(0, m), diag: new Float64Array(shared(m * 8)).subarray(0, m),
@@ -169,6 +127,71 @@ export function assembleLevel(lv: Level, axes: Axis[], els: ElectrodeSet[], labe
   };
   rows.node.set(rNode); rows.diag.set(rDiag); rows.off.set(rOff); rows.colour.set(rColour);
   return { level: lv, diag, rows };
+}
+
+/** The row of free node (i, j, k): the regular diagonal, or a stored Shortley–Weller row. */
+function nodeRow(B: RowBuilder, i: number, j: number, k: number, node: number): void {
+  const { lv, axes, els, labels, diag, terms, stride, pos, q, idx, theta, w, elec, offs } = B;
+  const { n, guard } = lv, H = lv.spacing, d = axes.length;
+  idx[0] = i; idx[1] = j; idx[2] = k;
+  for (let a = 0; a < 3; a++) pos[a] = a < d ? axes[a].lo + idx[a] * H : 0;
+  let cut = false, sum = 0;
+  theta.fill(1); w.fill(0); elec.fill(-1);
+  for (let a = 0; a < d; a++) {
+    const ma = a === 0 ? lv.m[1][j] * lv.m[2][k] : a === 1 ? lv.m[0][i] * lv.m[2][k] : lv.m[0][i] * lv.m[1][j];
+    for (let s = 0; s < 2; s++) {
+      const dir = s === 0 ? -1 : 1, slot = 2 * a + s;
+      const wt = (dir < 0 ? lv.em[a][idx[a]] : lv.ep[a][idx[a]]) * ma;
+      const ii = idx[a] + dir;
+      if (ii < 0 || ii >= n[a]) {
+        if (dir > 0) throw new Error('fields: free node on the last index');
+        continue;
+      }
+      w[slot] = wt;
+      if (wt === 0) continue;
+      sum += wt;
+      const nb = node + dir * stride[a], lab = labels[nb];
+      if (lab === FREE) continue;
+      q[0] = pos[0]; q[1] = pos[1]; q[2] = pos[2]; q[a] += dir * H;
+      let t = 2, e = -1;
+      const ax = axes[a];
+      if (dir > 0 && q[a] >= ax.hi - 1e-9 * H) t = (ax.hi - pos[a]) / H;
+      if (dir < 0 && !ax.openLow && q[a] <= ax.lo + 1e-9 * H) t = (pos[a] - ax.lo) / H;
+      if (lab >= 0) {
+        const te = els[lab].entry(pos[0], pos[1], pos[2], q[0], q[1], q[2]);
+        if (te <= t) { t = te; e = lab; }
+      }
+      if (t > 1) t = 1; // a FACE node on a face the box does not cut: 0 V there
+      if (t < THETA_MIN) t = THETA_MIN;
+      theta[slot] = t; elec[slot] = e;
+      if (t < 1) cut = true;
+    }
+  }
+  // Shortley–Weller factor per axis; no node below (mirror, axis): the image, θ⁻ = θ⁺.
+  let dsw = 0;
+  offs.fill(0);
+  for (let a = 0; a < d; a++) {
+    const tm = w[2 * a] === 0 ? theta[2 * a + 1] : theta[2 * a], tp = w[2 * a + 1] === 0 ? tm : theta[2 * a + 1];
+    const c = cut ? 2 / (tm + tp) : 1;
+    for (let s = 0; s < 2; s++) {
+      const slot = 2 * a + s;
+      if (w[slot] === 0) continue;
+      // Radial axis off the axis: r at the middle of the (possibly cut) edge, r_{i ± θ/2},
+      // so that the r-weighted difference stays consistent with (1/r)(r φ_r)_r.
+      const wr = axes[a].radial && idx[a] > 0 && cut ? (w[slot] * (idx[a] + (s === 0 ? -0.5 : 0.5) * theta[slot])) / (idx[a] + (s === 0 ? -0.5 : 0.5)) : w[slot];
+      const coef = (c * wr) / theta[slot];
+      dsw += coef;
+      const nb = node + (s === 0 ? -1 : 1) * stride[a];
+      if (labels[nb] === FREE) offs[slot] = coef;
+      if (terms !== undefined && elec[slot] >= 0) { terms.node.push(node); terms.coef.push(coef); terms.electrode.push(elec[slot]); }
+    }
+  }
+  const onMirror = lv.uniform && ((axes[0].openLow && i === 0) || (axes[1].openLow && j === 0) || (d === 3 && axes[2].openLow && k === 0));
+  if (!cut && !onMirror) { diag[guard + node] = sum; return; }
+  diag[guard + node] = -(B.rNode.length + 1);
+  B.rNode.push(guard + node); B.rDiag.push(dsw);
+  for (let s = 0; s < 6; s++) B.rOff.push(offs[s]);
+  B.rColour.push((i + j + k) & 1);
 }
 
 export function packTerms(t: { node: number[]; coef: number[]; electrode: number[] }): BoundaryTerms {

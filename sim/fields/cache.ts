@@ -12,7 +12,7 @@ import { folderBeside, swapFolderIntoPlace } from '../core/atomic.js';
 import type { FieldProblem, FieldSolution, SolvedGrid, SolveStats } from './problem.js';
 
 /** Bumped when the solver's discretisation changes, so old entries are no longer found. */
-export const CACHE_FORMAT = 'iontrail-field-cache-1';
+export const CACHE_FORMAT = 'iontrail-field-cache-2';
 
 /** What the solution depends on, as canonical JSON (object keys sorted). */
 function canonical(v: unknown): string {
@@ -26,7 +26,9 @@ function canonical(v: unknown): string {
 
 /** The cache key of a problem solved to `tolerance`: hex SHA-256. */
 export function cacheKey(problem: FieldProblem, tolerance: number): string {
-  const geometry = { format: CACHE_FORMAT, tolerance, grid: problem.grid, electrodes: problem.electrodes.map((e) => ({ shapes: e.shapes, holes: e.holes })) };
+  // The iteration limit decides only whether a solve is accepted, not what a converged one holds.
+  const { maxIterations: _limit, ...grid } = problem.grid;
+  const geometry = { format: CACHE_FORMAT, tolerance, grid, electrodes: problem.electrodes.map((e) => ({ shapes: e.shapes, holes: e.holes })) };
   return createHash('sha256').update(canonical(geometry)).digest('hex');
 }
 

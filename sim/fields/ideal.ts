@@ -66,7 +66,9 @@ function trap(es: readonly Electrode[], dc: (e: Electrode) => number): IdealFiel
   return {
     label: `ideal quadrupole trap, r0 ${(r0 * 1e3).toFixed(2)} mm, z0 ${(z0 * 1e3).toFixed(2)} mm`,
     potential: (r, _y, z) => vc + (vr - vc) * (r * r - 2 * (z - zc) ** 2 + 2 * z0 * z0) / d,
-    inRegion: (r, _y, z) => r * r - 2 * (z - zc) ** 2 < r0 * r0 && 2 * (z - zc) ** 2 - r * r < 2 * z0 * z0,
+    // Between the sheets and inside the ring's truncation radius: beyond the cut-off the ideal
+    // sheets run on to infinity and their deviation (hundreds of volts) says nothing of the trap.
+    inRegion: (r, _y, z) => r < ring.truncate && r * r - 2 * (z - zc) ** 2 < r0 * r0 && 2 * (z - zc) ** 2 - r * r < 2 * z0 * z0,
   };
 }
 

@@ -7,7 +7,7 @@
 // All work arrays are allocated here once; a cycle allocates nothing.
 
 import type { LevelOperator } from './assemble.js';
-import { prolongAdd, relaxColour, restrictResidual, RowScratch } from './stencil.js';
+import { prolongAdd, relaxPair, restrictResidual, RowScratch } from './stencil.js';
 
 export const PRE_SWEEPS = 2, POST_SWEEPS = 2;
 
@@ -102,12 +102,12 @@ export class Multigrid {
   private cycle(l: number, b: Float64Array, x: Float64Array): void {
     const op = this.ops[l];
     if (l === this.ops.length - 1) { this.direct.solve(b, x); return; }
-    for (let s = 0; s < PRE_SWEEPS; s++) { relaxColour(op, b, x, 0); relaxColour(op, b, x, 1); }
+    for (let s = 0; s < PRE_SWEEPS; s++) relaxPair(op, b, x, 0);   // red, then black
     const c = this.ops[l + 1], bc = this.b[l], xc = this.x[l];
     restrictResidual(op, b, x, c, bc, this.scale, this.scratch);
     xc.fill(0);
     this.cycle(l + 1, bc, xc);
     prolongAdd(op, x, c, xc, this.scratch);
-    for (let s = 0; s < POST_SWEEPS; s++) { relaxColour(op, b, x, 1); relaxColour(op, b, x, 0); }
+    for (let s = 0; s < POST_SWEEPS; s++) relaxPair(op, b, x, 1);  // black, then red
   }
 }

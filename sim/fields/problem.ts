@@ -23,6 +23,8 @@ export interface GridSpec {
   mirror: readonly MirrorPlane[];
   /** planar: radius of the circle the multipole content is fitted on, m. */
   referenceRadius?: number;
+  /** Krylov iterations per unit solution before the solve counts as not converging (solve.ts default). */
+  maxIterations?: number;
 }
 
 export type Vec2 = readonly [number, number];

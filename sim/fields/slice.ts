@@ -2,7 +2,8 @@
 // nodes, the grid unfolded across its mirror planes (and an axial grid across its axis, r → ±r)
 // so the picture shows the whole electrode set.
 
-import type { FieldSolution, SolvedGrid } from './problem.js';
+import type { FieldProblem, FieldSolution, SolvedGrid } from './problem.js';
+import { electrodeSets } from './operator.js';
 
 export interface MapAxis {
   /** Coordinate name: x, y, z or r. */
@@ -19,6 +20,12 @@ export interface FieldMap {
   inside: Int16Array;
   /** The plane, e.g. "y = 0" or "z = 20 mm", for captions. */
   plane: string;
+  /**
+   * The electrode at a point (u, v) of the plane from the shapes themselves (−1 free), folded onto
+   * the solved half across mirror planes as the solver sees it: figures draw electrode outlines at
+   * their true place instead of as node staircases. Absent when fieldMap was given no problem.
+   */
+  electrodeAt?: (u: number, v: number) => number;
 }
 
 /** Coordinates of axis `ai` after unfolding, with the stored index each comes from. */
@@ -47,7 +54,7 @@ export function unfoldAxis(grid: SolvedGrid, ai: number): { coords: Float64Array
  * axial grids z–r (r unfolded to ±r), 3D grids the plane through the node nearest `at` across
  * axis `across` (0: x, 1: y, 2: z).
  */
-export function fieldMap(sol: FieldSolution, volts: readonly number[], across = 2, at = 0): FieldMap {
+export function fieldMap(sol: FieldSolution, volts: readonly number[], across = 2, at = 0, problem?: FieldProblem): FieldMap {
   const g = sol.grid;
   const [n0, n1] = g.shape;
   const node = (i: number, j: number, k: number) => i + n0 * (j + n1 * k);
@@ -81,5 +88,32 @@ export function fieldMap(sol: FieldSolution, volts: readonly number[], across = 
   }
   const names = ['x', 'y', 'z'];
   const name = (ai: number) => (g.symmetry === 'axial' ? (ai === 0 ? 'r' : 'z') : names[ai]);
-  return { u: { name: name(ua), coords: U.coords }, v: { name: name(va), coords: V.coords }, values, inside, plane };
+  const planeAt = g.symmetry === 'none' ? g.origin[across] + fixed * g.spacing : 0;
+  const electrodeAt = problem === undefined ? undefined : shapeTest(problem, g, ua, va, across, planeAt);
+  return { u: { name: name(ua), coords: U.coords }, v: { name: name(va), coords: V.coords }, values, inside, plane, electrodeAt };
+}
+
+/**
+ * Which electrode holds the plane point (u, v): the first whose shapes contain it, as labelLevel
+ * (assemble.ts) labels nodes, after folding each mirrored coordinate onto the solved side
+ * (x, y → |x|, |y|; z → L/2 + |z − L/2|; axial r → |r|).
+ */
+function shapeTest(problem: FieldProblem, g: SolvedGrid, ua: number, va: number, across: number, planeAt: number): (u: number, v: number) => number {
+  const sets = electrodeSets(problem);
+  const mirrored = [g.symmetry === 'axial' || g.mirror.includes('x'), g.symmetry !== 'axial' && g.mirror.includes('y'), g.mirror.includes('z')];
+  // The z mirror plane is where the stored z axis starts (axial grids: axis 1; 3D: axis 2).
+  const zAxis = g.symmetry === 'axial' ? 1 : 2;
+  const zMid = g.origin[zAxis];
+  const p = [0, 0, 0];
+  const fold = (ai: number, c: number): number => {
+    if (ai === zAxis && g.symmetry !== 'planar') return mirrored[2] ? zMid + Math.abs(c - zMid) : c;
+    return mirrored[ai] ? Math.abs(c) : c;
+  };
+  return (u, v) => {
+    p[0] = 0; p[1] = 0; p[2] = 0;
+    p[ua] = fold(ua, u); p[va] = fold(va, v);
+    if (g.symmetry === 'none') p[across] = planeAt;
+    for (let k = 0; k < sets.length; k++) if (sets[k].inside(p[0], p[1], p[2])) return k;
+    return -1;
+  };
 }

@@ -238,7 +238,10 @@ export function solid3(sh: SolidShape): Solid {
       return {
         inside: (a, b, c) => {
           const ea = a - ba, eb = b - bb, ec = c - bc, s = ea * xa + eb * xb + ec * xc;
-          return s >= from && s <= to && ea * ea + eb * eb + ec * ec - s * s <= R * R;
+          // The distance from the axis from the perpendicular part E − sA, not |E|² − s²: that
+          // difference cancels, and a node on the surface of a rod along z flipped in and out with z.
+          const pa = ea - s * xa, pb = eb - s * xb, pc = ec - s * xc;
+          return s >= from && s <= to && pa * pa + pb * pb + pc * pc <= R * R;
         },
         crossings: (sg, out) => {
           // |E + tD|² − ((E + tD)·A)² = R², a quadratic in t; and the end planes s = from, to.

@@ -30,7 +30,8 @@ export async function solveField(problem: FieldProblem, opts: SolveOptions = {})
   const threads = Math.max(1, Math.min(opts.workers ?? availableParallelism(), E));
   const nw = threads - 1;
   // The workers start (and compile their kernels, unit.ts warmUp) while this thread builds the operator.
-  const tolerance = opts.tolerance ?? DEFAULT_TOLERANCE, maxIterations = opts.maxIterations ?? DEFAULT_MAX_ITERATIONS;
+  const tolerance = opts.tolerance ?? DEFAULT_TOLERANCE;
+  const maxIterations = opts.maxIterations ?? problem.grid.maxIterations ?? DEFAULT_MAX_ITERATIONS;
   const results: UnitResult[] = [];
   let mg: Multigrid | undefined;
   const exec = new Executor<UnitTask & { op: FieldOperator }, UnitResult>({
@@ -53,7 +54,9 @@ export async function solveField(problem: FieldProblem, opts: SolveOptions = {})
   op = op!;
   for (const r of results) {
     if (!r.converged) {
-      throw new FieldInputError('grid', `electrode field solve (electrode '${problem.electrodes[r.electrode].name}') did not converge: relative residual ${r.residual.toExponential(2)} after ${r.iterations} iterations`);
+      // Named at grid.max_iterations when the scene set it (its line), else at the grid block.
+      const key = problem.grid.maxIterations !== undefined ? 'grid.max_iterations' : 'grid';
+      throw new FieldInputError(key, `the field of electrode '${problem.electrodes[r.electrode].name}' did not converge: relative residual ${r.residual.toExponential(2)} after ${r.iterations} iterations, tolerance ${tolerance.toExponential(0)}; expected a solve within grid.max_iterations (${maxIterations}, a count): raise it, or look for an electrode that nearly touches another at a different potential`);
     }
   }
   const lv = op.ops[0].level, g = lv.guard;

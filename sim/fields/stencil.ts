@@ -22,6 +22,36 @@ function cutSum(rows: CutRows, q: number, x: Float64Array, o0: number, o1: numbe
 /** Stored-row values of A x per operator (this thread's scratch for applyWeighted). */
 const rowScratch = new WeakMap<LevelOperator, Float64Array>();
 
+/**
+ * The regular nodes of a Cartesian level as runs along x: per grid line (index j + ny·k) the runs
+ * start[q] ≤ n < end[q] for q in line[jk] … line[jk + 1] − 1, guarded node indices with d_n > 0.
+ * The constant-weight loops walk the runs instead of testing d_n at every node (one array fewer
+ * read per sweep). Built once per level and thread, on first use.
+ */
+interface Runs { line: Int32Array; start: Int32Array; end: Int32Array }
+const runsOf = new WeakMap<LevelOperator, Runs>();
+
+function regularRuns(op: LevelOperator): Runs {
+  let r = runsOf.get(op);
+  if (r !== undefined) return r;
+  const lv = op.level, d = op.diag, nx = lv.n[0], lines = lv.n[1] * lv.n[2];
+  const line = new Int32Array(lines + 1), st: number[] = [], en: number[] = [];
+  for (let jk = 0; jk < lines; jk++) {
+    line[jk] = st.length;
+    const row = lv.guard + jk * nx;
+    for (let i = 0; i < nx;) {
+      if (!(d[row + i] > 0)) { i++; continue; }
+      const i0 = i;
+      while (i < nx && d[row + i] > 0) i++;
+      st.push(row + i0); en.push(row + i);
+    }
+  }
+  line[lines] = st.length;
+  r = { line, start: Int32Array.from(st), end: Int32Array.from(en) };
+  runsOf.set(op, r);
+  return r;
+}
+
 /** out = A x on a weighted (axial) level, line by line. */
 function applyWeighted(op: LevelOperator, x: Float64Array, out: Float64Array): void {
   const lv = op.level, [nx, ny, nz] = lv.n;
@@ -33,11 +63,13 @@ function applyWeighted(op: LevelOperator, x: Float64Array, out: Float64Array): v
 
 /** out = A x on a Cartesian level: unit weights, diagonal 2d on every regular row. */
 function applyUniform(op: LevelOperator, x: Float64Array, out: Float64Array): void {
-  const lv = op.level, d = op.diag, { sy, sz, guard } = lv, end = guard + lv.nodes, dd = 2 * lv.dims;
+  const lv = op.level, { sy, sz } = lv, dd = 2 * lv.dims, { start, end } = regularRuns(op), m = start.length;
+  // Zero first (fixed nodes stay 0; cut rows are written by applyA after), then the regular runs.
+  out.fill(0);
   if (lv.dims === 2) {
-    for (let n = guard; n < end; n++) out[n] = d[n] <= 0 ? 0 : dd * x[n] - (x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]);
+    for (let q = 0; q < m; q++) for (let n = start[q], e = end[q]; n < e; n++) out[n] = dd * x[n] - (x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]);
   } else {
-    for (let n = guard; n < end; n++) out[n] = d[n] <= 0 ? 0 : dd * x[n] - (x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]);
+    for (let q = 0; q < m; q++) for (let n = start[q], e = end[q]; n < e; n++) out[n] = dd * x[n] - (x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]);
   }
 }
 
@@ -48,11 +80,12 @@ export function applyA(op: LevelOperator, x: Float64Array, out: Float64Array): v
   for (let q = 0; q < r.node.length; q++) { const n = r.node[q]; out[n] = r.diag[q] * x[n] - cutSum(r, q, x, o0, o1, o2, o3, o4, o5); }
 }
 
-function relaxWeighted(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number): void {
-  const lv = op.level, d = op.diag, [nx, ny, nz] = lv.n, { sy, sz, guard } = lv;
+/** Half-sweep of colour `colour` over the regular rows of lines j0..j1 of planes k0..k1 (weighted level). */
+function relaxWeighted(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number, j0: number, j1: number, k0: number, k1: number): void {
+  const lv = op.level, d = op.diag, nx = lv.n[0], ny = lv.n[1], { sy, sz, guard } = lv;
   const m0 = lv.m[0], em0 = lv.em[0], ep0 = lv.ep[0], m1 = lv.m[1], em1 = lv.em[1], ep1 = lv.ep[1], m2 = lv.m[2], em2 = lv.em[2], ep2 = lv.ep[2];
-  for (let k = 0; k < nz; k++) {
-    for (let j = 0; j < ny; j++) {
+  for (let k = k0; k < k1; k++) {
+    for (let j = j0; j < j1; j++) {
       const cx = m1[j] * m2[k], cym = em1[j] * m2[k], cyp = ep1[j] * m2[k], czm = m1[j] * em2[k], czp = m1[j] * ep2[k];
       const row = guard + (k * ny + j) * nx;
       for (let i = (colour + j + k) & 1; i < nx; i += 2) {
@@ -65,34 +98,76 @@ function relaxWeighted(op: LevelOperator, b: Float64Array, x: Float64Array, colo
   }
 }
 
-function relaxUniform(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number): void {
-  const lv = op.level, d = op.diag, [nx, ny, nz] = lv.n, { sy, sz, guard } = lv, inv = 1 / (2 * lv.dims);
-  for (let k = 0; k < nz; k++) {
-    for (let j = 0; j < ny; j++) {
-      const row = guard + (k * ny + j) * nx, end = row + nx;
-      if (lv.dims === 2) {
-        for (let n = row + ((colour + j) & 1); n < end; n += 2) {
-          if (d[n] > 0) x[n] = inv * (b[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]);
-        }
-      } else {
-        for (let n = row + ((colour + j + k) & 1); n < end; n += 2) {
-          if (d[n] > 0) x[n] = inv * (b[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]);
+/** Half-sweep of colour `colour` over the regular rows of lines j0..j1 of planes k0..k1 (Cartesian level). */
+function relaxUniform(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number, j0: number, j1: number, k0: number, k1: number): void {
+  const lv = op.level, nx = lv.n[0], ny = lv.n[1], { sy, sz, guard } = lv, inv = 1 / (2 * lv.dims);
+  const { line, start, end } = regularRuns(op);
+  for (let k = k0; k < k1; k++) {
+    for (let j = j0; j < j1; j++) {
+      const jk = k * ny + j, row = guard + jk * nx, q1 = line[jk + 1];
+      // Node (i, j, k) has colour (i + j + k) mod 2; a run may start on either colour.
+      const par = (colour + j + k) & 1;
+      for (let q = line[jk]; q < q1; q++) {
+        let n = start[q];
+        if (((n - row) & 1) !== par) n++;
+        const e = end[q];
+        if (lv.dims === 2) {
+          for (; n < e; n += 2) x[n] = inv * (b[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]);
+        } else {
+          for (; n < e; n += 2) x[n] = inv * (b[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]);
         }
       }
     }
   }
 }
 
+/** The cut rows of colour `colour` from row index q on, while their node lies below `end`; returns the next q. */
+function relaxCutRows(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number, q: number, end: number): number {
+  const r = op.rows, node = r.node, m = node.length;
+  if (q >= m || node[q] >= end) return q;
+  const col = r.colour, dg = r.diag, lv = op.level, o0 = -1, o1 = 1, o2 = -lv.sy, o3 = lv.sy, o4 = -lv.sz, o5 = lv.sz;
+  for (; q < m && node[q] < end; q++) {
+    if (col[q] !== colour) continue;
+    const n = node[q];
+    x[n] = (b[n] + cutSum(r, q, x, o0, o1, o2, o3, o4, o5)) / dg[q];
+  }
+  return q;
+}
+
+/**
+ * Two Gauss–Seidel half-sweeps, colour `first` (nodes with (i + j + k) mod 2 = first) then the
+ * other, in one pass over memory: slab s (a grid line of a 2D level, a plane of a 3D one) gets the
+ * first colour, then slab s − 1 the second. A node of the second colour in slab s − 1 needs the new
+ * first-colour values of slabs s − 2 … s (all done), and a first-colour node of slab s the old
+ * second-colour values of slabs s − 1 … s + 1 (none changed yet), so every node sees what it sees
+ * in two separate half-sweeps and the result is the same to the bit; the vectors are read once
+ * instead of twice. Cut rows (stored sorted by node) follow their slab.
+ */
+export function relaxPair(op: LevelOperator, b: Float64Array, x: Float64Array, first: number): void {
+  const lv = op.level, three = lv.dims === 3, slabs = three ? lv.n[2] : lv.n[1], slab = three ? lv.sz : lv.sy, ny = lv.n[1];
+  const second = 1 - first, uniform = lv.uniform;
+  let qa = 0, qb = 0;
+  for (let s = 0; s <= slabs; s++) {
+    if (s < slabs) {
+      if (uniform) { if (three) relaxUniform(op, b, x, first, 0, ny, s, s + 1); else relaxUniform(op, b, x, first, s, s + 1, 0, 1); }
+      else if (three) relaxWeighted(op, b, x, first, 0, ny, s, s + 1); else relaxWeighted(op, b, x, first, s, s + 1, 0, 1);
+      qa = relaxCutRows(op, b, x, first, qa, lv.guard + (s + 1) * slab);
+    }
+    if (s > 0) {
+      const t = s - 1;
+      if (uniform) { if (three) relaxUniform(op, b, x, second, 0, ny, t, t + 1); else relaxUniform(op, b, x, second, t, t + 1, 0, 1); }
+      else if (three) relaxWeighted(op, b, x, second, 0, ny, t, t + 1); else relaxWeighted(op, b, x, second, t, t + 1, 0, 1);
+      qb = relaxCutRows(op, b, x, second, qb, lv.guard + s * slab);
+    }
+  }
+}
+
 /** One Gauss–Seidel half-sweep over the nodes of colour (i + j + k) mod 2 = colour. */
 export function relaxColour(op: LevelOperator, b: Float64Array, x: Float64Array, colour: number): void {
-  if (op.level.uniform) relaxUniform(op, b, x, colour); else relaxWeighted(op, b, x, colour);
+  const lv = op.level, ny = lv.n[1], nz = lv.n[2];
+  if (lv.uniform) relaxUniform(op, b, x, colour, 0, ny, 0, nz); else relaxWeighted(op, b, x, colour, 0, ny, 0, nz);
   // Cut rows of this colour: their neighbours are all of the other colour, as for the regular ones.
-  const r = op.rows, [o0, o1, o2, o3, o4, o5] = offsets(op.level);
-  for (let q = 0; q < r.node.length; q++) {
-    if (r.colour[q] !== colour) continue;
-    const n = r.node[q];
-    x[n] = (b[n] + cutSum(r, q, x, o0, o1, o2, o3, o4, o5)) / r.diag[q];
-  }
+  relaxCutRows(op, b, x, colour, 0, Infinity);
 }
 
 /** Coarse parents of fine index i along one axis: the coarse node(s) and weights of linear interpolation. */
@@ -138,11 +213,15 @@ function scatter(rc: Float64Array, s: RowScratch, nq: number, i: number, r: numb
 function rowResidual(op: LevelOperator, b: Float64Array, x: Float64Array, j: number, k: number, res: Float64Array, inv: number): void {
   const f = op.level, d = op.diag, nx = f.n[0], { sy, sz, guard } = f, row = guard + (k * f.n[1] + j) * nx;
   if (f.uniform) {
-    const dd = 2 * f.dims;
-    if (f.dims === 2) {
-      for (let i = 0, n = row; i < nx; i++, n++) res[i + 1] = d[n] > 0 ? inv * (b[n] - dd * x[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]) : 0;
-    } else {
-      for (let i = 0, n = row; i < nx; i++, n++) res[i + 1] = d[n] > 0 ? inv * (b[n] - dd * x[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]) : 0;
+    const dd = 2 * f.dims, { line, start, end } = regularRuns(op), jk = k * f.n[1] + j, q1 = line[jk + 1], at = 1 - row;
+    res.fill(0, 0, nx + 2);
+    for (let q = line[jk]; q < q1; q++) {
+      const e = end[q];
+      if (f.dims === 2) {
+        for (let n = start[q]; n < e; n++) res[at + n] = inv * (b[n] - dd * x[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy]);
+      } else {
+        for (let n = start[q]; n < e; n++) res[at + n] = inv * (b[n] - dd * x[n] + x[n - 1] + x[n + 1] + x[n - sy] + x[n + sy] + x[n - sz] + x[n + sz]);
+      }
     }
     return;
   }
@@ -161,7 +240,7 @@ function rowResidual(op: LevelOperator, b: Float64Array, x: Float64Array, j: num
  * Pᵀ A P (the weights of an integrated d-dimensional operator grow as h^(d−2)).
  */
 export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64Array, cop: LevelOperator, rc: Float64Array, scale: number, s: RowScratch): void {
-  const f = op.level, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, inv = 1 / scale, ncx = c.n[0], res = s.res;
+  const f = op.level, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, inv = 1 / scale, ncx = c.n[0], res = s.res, comb = s.comb;
   rc.fill(0);
   res.fill(0);
   for (let k = 0; k < nz; k++) {
@@ -169,12 +248,14 @@ export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64A
       rowResidual(op, b, x, j, k, res, inv);
       const nq = s.rows(j, k, three, c);
       // Coarse node ic gathers fine nodes 2ic (weight 1) and 2ic ± 1 (weight ½); res is padded.
+      // The row restricted along x once, then added to each of the (up to 4) coarse rows.
+      for (let ic = 0; ic < ncx; ic++) {
+        const i = 2 * ic + 1;
+        comb[ic] = res[i] + 0.5 * (res[i - 1] + res[i + 1]);
+      }
       for (let q = 0; q < nq; q++) {
         const base = s.base[q], w = s.w[q];
-        for (let ic = 0; ic < ncx; ic++) {
-          const i = 2 * ic + 1;
-          rc[base + ic] += w * (res[i] + 0.5 * (res[i - 1] + res[i + 1]));
-        }
+        for (let ic = 0; ic < ncx; ic++) rc[base + ic] += w * comb[ic];
       }
     }
   }
@@ -191,6 +272,8 @@ export function restrictResidual(op: LevelOperator, b: Float64Array, x: Float64A
 /** x += P ec at the free fine nodes: the coarse rows combined once per fine row, then along it. */
 export function prolongAdd(op: LevelOperator, x: Float64Array, cop: LevelOperator, ec: Float64Array, s: RowScratch): void {
   const f = op.level, d = op.diag, c = cop.level, [nx, ny, nz] = f.n, three = nz > 1, ncx = c.n[0], comb = s.comb;
+  const runs = f.uniform ? regularRuns(op) : undefined, cut = op.rows.node;
+  let cq = 0;
   for (let k = 0; k < nz; k++) {
     for (let j = 0; j < ny; j++) {
       const row = f.guard + (k * ny + j) * nx;
@@ -199,6 +282,21 @@ export function prolongAdd(op: LevelOperator, x: Float64Array, cop: LevelOperato
       for (let q = 0; q < nq; q++) {
         const base = s.base[q], w = s.w[q];
         for (let ic = 0; ic < ncx; ic++) comb[ic] += w * ec[base + ic];
+      }
+      if (runs !== undefined) {
+        // Regular nodes by their runs, then this line's cut rows (stored in node order).
+        const jk = k * ny + j, q1 = runs.line[jk + 1];
+        for (let q = runs.line[jk]; q < q1; q++) {
+          for (let n = runs.start[q], e = runs.end[q]; n < e; n++) {
+            const i = n - row, ic = i >> 1;
+            x[n] += (i & 1) === 0 ? comb[ic] : 0.5 * (comb[ic] + comb[ic + 1]);
+          }
+        }
+        for (const lineEnd = row + nx; cq < cut.length && cut[cq] < lineEnd; cq++) {
+          const n = cut[cq], i = n - row, ic = i >> 1;
+          x[n] += (i & 1) === 0 ? comb[ic] : 0.5 * (comb[ic] + comb[ic + 1]);
+        }
+        continue;
       }
       for (let i = 0, n = row; i < nx; i++, n++) {
         if (d[n] === 0) continue;

@@ -118,6 +118,7 @@ export function resolveGrid(g: Raw, length: number, fail: Fail): GridSpec {
   const out: GridSpec = { symmetry: sym, spacing: g.spacing, length, mirror };
   if (g.half_width !== undefined) out.halfWidth = g.half_width;
   if (g.radius !== undefined) out.radius = g.radius;
+  if (g.max_iterations !== undefined) out.maxIterations = g.max_iterations;
   if (g.reference_radius !== undefined) {
     if (!(g.reference_radius < extent)) fail(['grid', 'reference_radius'], `must lie inside the grid (below ${(extent * 1e3).toPrecision(4)} mm)`);
     out.referenceRadius = g.reference_radius;

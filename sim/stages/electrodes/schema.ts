@@ -1,5 +1,9 @@
 // Scene-file keys of an `electrodes` stage: the grid, the electrodes and their shapes, each shape
 // a one-key mapping (`circle: { center: [8.52 mm, 0 mm], radius: 4.52 mm }`) with its units.
+// The box edge of the grid (±half_width in x and y, r = radius, z = 0 and the stage length) is
+// grounded, 0 V, unless an electrode covers it; a mirror plane is a symmetry plane instead (zero
+// normal field), and the axis of an axial grid is no boundary at all. README "Scene files" says so
+// to users.
 
 import type { Field } from '../../scene/schema.js';
 
@@ -57,6 +61,8 @@ export const GRID_FIELD: Field = {
     radius: POS,
     reference_radius: POS,
     mirror: { kind: 'list', item: { kind: 'enum', values: ['x', 'y', 'z'] } },
+    // Krylov iterations allowed per unit solution before the solve is refused as not converging.
+    max_iterations: { kind: 'number', integer: true, min: 1 },
   },
   required: ['symmetry', 'spacing'],
 };
