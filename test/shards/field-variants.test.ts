@@ -116,5 +116,11 @@ describe('field solves of geometry variants, sharded one variant per task', () =
       expect(r.stderr).toMatch(msg);
       expect(existsSync(out), 'nothing written').toBe(false);
     }
+    // A folder of another plan is not mixed into: its variant-1 would mean another radius.
+    const before = readFileSync(join(full, 'variants.json'), 'utf8');
+    const r = iontrail(['field', scene, '--vary', `${KEY}=3.6mm,4.1mm`, '-o', full]);
+    expect([r.code, r.stderr.trim().split('\n').length]).toEqual([2, 1]);
+    expect(r.stderr).toMatch(/holds the variants of another --vary plan .*give --force/);
+    expect(readFileSync(join(full, 'variants.json'), 'utf8')).toBe(before);
   });
 });
