@@ -4,7 +4,7 @@
 // one machine writes. The field command gives the solve and the folder writer (it owns them);
 // this module plans, checks every variant before any solve, and writes.
 
-import { existsSync, mkdirSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { UsageError } from './errors.js';
 import { loadSceneFile } from '../sim/scene/load.js';
@@ -48,6 +48,12 @@ export async function writeVariants<T>(req: VariantRequest, prepare: (scene: Sce
   });
   mkdirSync(target, { recursive: true });
   writeFileAtomic(indexPath, index);
+  // Replacing another plan (--force): its variant folders that this plan does not have go, so DIR
+  // holds this plan's variants only (no task of this job writes those names).
+  const planned = new Set(plan.variants.map((v) => v.folder));
+  for (const name of readdirSync(target)) {
+    if (/^variant-\d+$/.test(name) && !planned.has(name)) rmSync(join(target, name), { recursive: true, force: true });
+  }
   for (const c of checked) await write(join(target, c.v.folder), c.prepared, c.scene, c.text, parent);
   process.stderr.write(`field: ${checked.length} of ${plan.variants.length} variants in ${req.out} (${checked.map((c) => c.v.folder).join(', ')})\n`);
   return 0;

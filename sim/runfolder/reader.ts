@@ -241,23 +241,7 @@ export async function* tableBatches<T>(path: string, specs: readonly ColumnSpec[
 /** Bytes read at a time by the sequential batch reader: large reads, few calls (1 MiB read fastest here). */
 const CHUNK_BYTES = 1 << 20;
 
-/** The bytes of fd from `start` to `end`, CHUNK_BYTES at a time (fresh buffers: batches view them). */
-function* fileChunks(fd: number, start: number, end: number): Generator<Uint8Array> {
-  for (let at = start; at < end;) {
-    const want = Math.min(CHUNK_BYTES, end - at);
-    const buf = new Uint8Array(want);
-    let got = 0;
-    while (got < want) {
-      const n = readSync(fd, buf, got, want - got, at + got);
-      if (n === 0) break;
-      got += n;
-    }
-    if (got === 0) return;
-    at += got;
-    yield got === want ? buf : buf.subarray(0, got);
-  }
-}
-
+/** Up to n bytes of fd from `at` (fewer at the end of the file), in a fresh buffer. */
 function readAt(fd: number, at: number, n: number): Uint8Array {
   const b = new Uint8Array(n);
   let got = 0;
@@ -267,6 +251,16 @@ function readAt(fd: number, at: number, n: number): Uint8Array {
     got += k;
   }
   return b.subarray(0, got);
+}
+
+/** The bytes of fd from `start` to `end`, CHUNK_BYTES at a time (fresh buffers: batches view them). */
+function* fileChunks(fd: number, start: number, end: number): Generator<Uint8Array> {
+  for (let at = start; at < end;) {
+    const buf = readAt(fd, at, Math.min(CHUNK_BYTES, end - at));
+    if (buf.byteLength === 0) return;
+    at += buf.byteLength;
+    yield buf;
+  }
 }
 
 /**

@@ -11,23 +11,9 @@ import { parse as parseYaml } from 'yaml';
 import { Job } from 'kubernetes-models/batch/v1/Job';
 import { CLI, iontrail, tempDir } from '../helpers/cli.js';
 import { cli, expectSameFolder, shell as sh } from '../shards/compare.js';
+import { COAX_OUTER_KEY, coaxScene, filterScene } from '../shards/scenes.js';
 
-const SCENE = `
-name: Skerry QF-4 job-folder check
-seed: 23
-stages:
-  - type: quadrupole
-    length: 40 mm
-    r0: 4 mm
-    rf: { amplitude: 600 V, frequency: 1.2 MHz }
-    dc: 90 V
-ions:
-  - mz: 502
-    count: 60
-    position: { spread: 0.2 mm }
-    energy: 5 eV
-run: { steps_per_cycle: 20, max_time: 20 us, record_every: 0 }
-`;
+const SCENE = filterScene({ name: 'Skerry QF-4 job-folder check', seed: 23, count: 60 });
 
 // An Indexed Job as batch/v1 defines it, checked without a cluster: the manifest against the Job
 // schema of kubernetes-models 4.5.1 (generated from the Kubernetes OpenAPI document: field types
@@ -48,26 +34,7 @@ function expectIndexedJob(m: any, n: number): void {
   expect(() => new Job({ ...m, spec: { ...m.spec, template: { spec: { ...m.spec.template.spec, containers: [nameless] } } } }).validate()).toThrow(/must have required property name/);
 }
 
-const COAX = `name: Skerry C-2 coaxial job check
-seed: 1
-stages:
-  - type: electrodes
-    length: 10 mm
-    grid: { symmetry: planar, spacing: 0.25 mm, half_width: 5 mm, reference_radius: 1.5 mm, mirror: [x, y] }
-    electrodes:
-      - name: inner
-        potential: { dc: 10 V }
-        shapes:
-          - circle: { center: [0 mm, 0 mm], radius: 2 mm }
-      - name: outer
-        potential: { dc: 0 V }
-        shapes:
-          - rectangle: { min: [-6 mm, -6 mm], max: [6 mm, 6 mm] }
-        holes:
-          - circle: { center: [0 mm, 0 mm], radius: 4 mm }
-ions:
-  - { mz: 100, count: 1, energy: 0.05 eV }
-`;
+const COAX = coaxScene('Skerry C-2 coaxial job check');
 
 function setup() {
   const d = tempDir();
@@ -132,7 +99,7 @@ describe('iontrail cluster', () => {
     const scene = join(d, 'coax.yaml');
     writeFileSync(scene, COAX);
     const job = join(d, 'k8s-field');
-    cli(['cluster', 'kubernetes', scene, '--field', '--vary', 'stages.0.electrodes.1.holes.0.circle.radius=3.5mm,4mm,4.5mm', '--shards', '3', '-o', job]);
+    cli(['cluster', 'kubernetes', scene, '--field', '--vary', `${COAX_OUTER_KEY}=3.5mm,4mm,4.5mm`, '--shards', '3', '-o', job]);
     const m = parseYaml(readFileSync(join(job, 'job.yaml'), 'utf8'));
     expectIndexedJob(m, 3);
     expect(m.spec.template.spec.containers[0].command[2]).toMatch(/iontrail field .* --shard "\$JOB_COMPLETION_INDEX\/3" .* -o \S+\/result --force$/);

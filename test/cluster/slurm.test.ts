@@ -11,28 +11,11 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { ROOT, tempDir } from '../helpers/cli.js';
 import { cli, expectSameFolder } from '../shards/compare.js';
+import { filterScene } from '../shards/scenes.js';
 
 const HELPER = join(ROOT, '.ci/slurm-local.sh');
 
-const SCENE = `
-name: Skerry QF-4 cluster check
-seed: 19
-stages:
-  - type: quadrupole
-    length: 60 mm
-    r0: 4 mm
-    rf: { amplitude: 600 V, frequency: 1.2 MHz }
-    dc: 90 V
-  - type: drift
-    length: 10 mm
-ions:
-  - mz: 502
-    count: 1100
-    position: { spread: 0.3 mm }
-    energy: 5 eV
-    angle_spread: 1 deg
-run: { steps_per_cycle: 20, max_time: 40 us, record_every: 200 }
-`;
+const SCENE = filterScene({ name: 'Skerry QF-4 cluster check', seed: 19, count: 1100, length: '60 mm', drift: true, angleSpread: true, maxTime: '40 us', recordEvery: 200 });
 
 interface Slurm { conf: string | null; reason: string; ownDir: string | null; setupS: number }
 

@@ -6,23 +6,9 @@ import { cpSync, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync
 import { join } from 'node:path';
 import { iontrail, tempDir } from '../helpers/cli.js';
 import { cli } from './compare.js';
+import { filterScene } from './scenes.js';
 
-const SCENE = `
-name: Skerry QF-4 bad-input check
-seed: 3
-stages:
-  - type: quadrupole
-    length: 40 mm
-    r0: 4 mm
-    rf: { amplitude: 600 V, frequency: 1.2 MHz }
-    dc: 90 V
-ions:
-  - mz: 502
-    count: 40
-    position: { spread: 0.2 mm }
-    energy: 5 eV
-run: { steps_per_cycle: 20, max_time: 20 us, record_every: 0 }
-`;
+const SCENE = filterScene({ name: 'Skerry QF-4 bad-input check', seed: 3, count: 40 });
 
 const d = tempDir();
 const scene = join(d, 'scene.yaml');

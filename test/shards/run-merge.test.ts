@@ -23,13 +23,13 @@ stages:
     length: 10 mm
 ions:
   - mz: 502
-    count: 700
+    count: 500
     position: { spread: 0.3 mm }
     energy: 5 eV
     energy_spread: 0.2 eV
     angle_spread: 1 deg
   - mz: 480
-    count: 450
+    count: 300
     position: { spread: 0.3 mm }
     energy: 5 eV
 run: { steps_per_cycle: 20, max_time: 40 us, record_every: 200 }
@@ -71,7 +71,7 @@ describe('run shards merge into the unsharded bytes', () => {
     const full = join(d, 'full');
     cli(['run', scene, '-o', full, '--workers', '2']);
     const batches = JSON.parse(readFileSync(join(full, 'summary.json'), 'utf8')).provenance.batch_size;
-    const count = Math.ceil(1150 / batches);
+    const count = Math.ceil(800 / batches);
     expect(count, 'several batches to cut').toBeGreaterThan(3);
     for (const n of [3, count]) {
       const parts = writeParts('run', [scene], n, d, (i) => 1 + (i % 2));
@@ -86,7 +86,7 @@ describe('run shards merge into the unsharded bytes', () => {
     }
     // The figures of a merge are the unsharded run's PNG bytes (their footer holds no time or folder).
     await expectSameFigures(full, join(d, `m${count}`), d, { kinds: ['traces', 'stability', 'phase'] });
-  }, 60_000);
+  }, 120_000);
 
   it('more shards than batches is refused with the number of batches', () => {
     const { d, scene } = setup(FILTER);
@@ -106,5 +106,5 @@ describe('run shards merge into the unsharded bytes', () => {
     expectSameFolder(full, merged, 'run');
     await expectSameFigures(full, merged, d, { kinds: ['cooling', 'energy', 'xy'] });
     expect(JSON.parse(readFileSync(join(merged, 'summary.json'), 'utf8')).cooling.collisions_per_ion, 'the gas acted').toBeGreaterThan(0);
-  }, 60_000);
+  }, 120_000);
 });
