@@ -23,7 +23,7 @@ import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { finiteOrNull } from '../../sim/core/json.js';
 import { TOOL_VERSION } from '../../sim/version.js';
 import { deviationSpec, equipotentialSpec, multipoleSpec, renderSpec, type Bar, type FieldFigureText } from '../../render/fields/figures.js';
-import { solverApi, type SolverApi } from '../field-solver.js';
+import { axisLegendre, axisSeriesFrame, checkProblem, fitMultipoles, solveField } from '../../sim/fields/index.js';
 
 export const describe = 'solve the electrode fields of a scene: unit solutions (.npy, .vti), multipoles and field maps';
 
@@ -88,10 +88,10 @@ function located(e: unknown, text: string, file: string, index: number): never {
   throw e;
 }
 
-async function solve(api: SolverApi, t: Target, text: string, file: string, root: string, workers: number | undefined): Promise<{ solution: FieldSolution; hit: boolean }> {
+async function solve(t: Target, text: string, file: string, root: string, workers: number | undefined): Promise<{ solution: FieldSolution; hit: boolean }> {
   try {
-    api.checkProblem(t.problem, { freeMemoryBytes: freemem() });
-    return await solveCached(t.problem, TOLERANCE, root, () => api.solveField(t.problem, { workers, tolerance: TOLERANCE }));
+    checkProblem(t.problem, { freeMemoryBytes: freemem() });
+    return await solveCached(t.problem, TOLERANCE, root, () => solveField(t.problem, { workers, tolerance: TOLERANCE }));
   } catch (e) {
     return located(e, text, file, t.index);
   }
@@ -131,12 +131,11 @@ export async function run(argv: string[]): Promise<number> {
 }
 
 async function printPoints(points: [number, number, number][], time: number, chosen: Target[], o: { file: string; text: string; workers?: number; json: boolean }): Promise<number> {
-  const api = await solverApi();
   const root = cacheRoot();
   const rows: Record<string, number | null>[] = [];
   const solved = [] as { t: Target; its: GridInterpolant[]; volts: number[] }[];
   for (const t of chosen) {
-    const { solution } = await solve(api, t, o.text, o.file, root, o.workers);
+    const { solution } = await solve(t, o.text, o.file, root, o.workers);
     solved.push({ t, its: solution.units.map((u) => new GridInterpolant(solution.grid, u)), volts: voltsAt(t.problem, rfOf(t.st), time) });
   }
   const v = new Float64Array(4);
@@ -169,18 +168,17 @@ async function writeFolders(out: string, chosen: Target[], o: FolderOpts): Promi
   const parent = dirname(target);
   if (!existsSync(parent) || !statSync(parent).isDirectory()) throw new UsageError(`-o ${out}: parent folder ${parent} does not exist`);
   if (existsSync(target) && !o.force) throw new UsageError(`-o ${out}: already exists (give --force to replace it)`);
-  const api = await solverApi();
   const root = cacheRoot(parent);
   const solved: { t: Target; solution: FieldSolution; hit: boolean }[] = [];
   // Every stage solved (and every check passed) before anything is written.
-  for (const t of chosen) solved.push({ t, ...(await solve(api, t, o.text, o.file, root, o.workers)) });
+  for (const t of chosen) solved.push({ t, ...(await solve(t, o.text, o.file, root, o.workers)) });
   const temp = folderBeside(target);
   const summaries: Record<string, unknown>[] = [];
   try {
     for (const s of solved) {
       const dir = chosen.length > 1 ? join(temp, `stage-${s.t.index}`) : temp;
       if (dir !== temp) mkdirSync(dir);
-      summaries.push(await writeOne(dir, s, api, o, basename(target)));
+      summaries.push(await writeOne(dir, s, o, basename(target)));
     }
     swapFolderIntoPlace(temp, target, true);
   } catch (e) {
@@ -197,7 +195,7 @@ async function writeFolders(out: string, chosen: Target[], o: FolderOpts): Promi
   return 0;
 }
 
-async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hit: boolean }, api: SolverApi, o: FolderOpts, folderName: string): Promise<Record<string, unknown>> {
+async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hit: boolean }, o: FolderOpts, folderName: string): Promise<Record<string, unknown>> {
   const { t, solution } = s;
   const problem = t.problem;
   const rf = rfOf(t.st);
@@ -223,14 +221,16 @@ async function writeOne(dir: string, s: { t: Target; solution: FieldSolution; hi
   let bars: Bar[] | undefined;
   let barWhat = '';
   if (problem.grid.symmetry === 'planar' && problem.grid.referenceRadius !== undefined) {
-    const m = api.fitMultipoles(solution, problem, { nMax: MULTIPOLE_ORDERS, referenceRadius: problem.grid.referenceRadius });
+    const m = fitMultipoles(solution, problem, { nMax: MULTIPOLE_ORDERS, referenceRadius: problem.grid.referenceRadius });
     summary.multipoles = m;
     summary.multipoles_about = { reference_radius_m: problem.grid.referenceRadius, at: 'electrodes at their dc volts', form: 'Φ(r, θ) = Σ (cos_v cos nθ + sin_v sin nθ)(r / reference_radius)^n' };
     bars = m.map((c) => ({ n: c.n, parts: [{ label: 'cos_v', value: c.cos_v }, { label: 'sin_v', value: c.sin_v }] }));
     barWhat = 'multipole coefficient';
   } else if (problem.grid.symmetry === 'axial') {
-    const l = api.axisLegendre(solution, problem, { nMax: MULTIPOLE_ORDERS });
+    const l = axisLegendre(solution, problem, { nMax: MULTIPOLE_ORDERS });
     summary.axis_legendre = l;
+    const frame = axisSeriesFrame(problem);
+    summary.axis_legendre_about = { center_z_m: frame.about, scale_m: frame.scale, at: 'electrodes at their dc volts', form: 'φ(0, z) = Σ c_v P_n((z − center_z) / scale), fitted on the axis within ±scale (grid.reference_radius, else half the stage length)' };
     bars = legendreBars(l);
     barWhat = 'axis coefficient';
   }

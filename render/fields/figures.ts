@@ -110,19 +110,24 @@ export function equipotentialSpec(m: FieldMap, t: FieldFigureText): { spec: Figu
     title: t.title,
     subtitle: t.subtitle,
     legend: [...electrodeLegend(t), { label: `equipotentials every ${Number(step.toPrecision(3))} V (shading: potential, blue < 0 < vermillion)`, color: INK_SOFT, mark: 'line' }],
-    panels: [{
-      x: { label: m.u.name, unit: 'm', min: extent(m.u.coords)[0], max: extent(m.u.coords)[1], nice: false },
-      y: { label: m.v.name, unit: 'm', min: extent(m.v.coords)[0], max: extent(m.v.coords)[1], nice: false },
-      equalAspect: true,
-      note: m.plane,
-      draw(ctx, g) {
-        paint(ctx, g, m, m.values, (v) => diverging(0.55 * v / big));
-        contours(ctx, g, m, m.values, levels, () => 'rgba(31,35,40,0.55)');
-      },
-    }],
+    panels: [mapPanel(m, m.values, (v) => diverging(0.55 * v / big), levels, () => 'rgba(31,35,40,0.55)')],
     rows: 1, cols: 1, footer: t.footer,
   };
   return { spec, step };
+}
+
+/** One equal-aspect panel of a slice: `values` shaded by `shade`, contoured at `levels`. */
+function mapPanel(m: FieldMap, values: Float64Array, shade: (v: number) => [number, number, number] | undefined, levels: readonly number[], ink: (level: number) => string): FigureSpec['panels'][number] {
+  return {
+    x: { label: m.u.name, unit: 'm', min: extent(m.u.coords)[0], max: extent(m.u.coords)[1], nice: false },
+    y: { label: m.v.name, unit: 'm', min: extent(m.v.coords)[0], max: extent(m.v.coords)[1], nice: false },
+    equalAspect: true,
+    note: m.plane,
+    draw(ctx, g) {
+      paint(ctx, g, m, values, shade);
+      contours(ctx, g, m, values, levels, ink);
+    },
+  };
 }
 
 /** Map of Φ − Φ_ideal in the free region, colour clipped at `clip` V. */
@@ -134,16 +139,7 @@ export function deviationSpec(m: FieldMap, deviation: Float64Array, clip: number
     subtitle: t.subtitle,
     legend: [...electrodeLegend(t),
       { label: `Φ − Φ ideal (${idealLabel}): blue < 0 < vermillion, full colour at ±${Number(c.toPrecision(2))} V; contours every ${Number((levels[1] - levels[0] || c).toPrecision(2))} V`, color: INK_SOFT, mark: 'line' }],
-    panels: [{
-      x: { label: m.u.name, unit: 'm', min: extent(m.u.coords)[0], max: extent(m.u.coords)[1], nice: false },
-      y: { label: m.v.name, unit: 'm', min: extent(m.v.coords)[0], max: extent(m.v.coords)[1], nice: false },
-      equalAspect: true,
-      note: m.plane,
-      draw(ctx, g) {
-        paint(ctx, g, m, deviation, (v) => diverging(v / c));
-        contours(ctx, g, m, deviation, levels, (lv) => (lv < 0 ? 'rgba(0,114,178,0.8)' : 'rgba(213,94,0,0.8)'));
-      },
-    }],
+    panels: [mapPanel(m, deviation, (v) => diverging(v / c), levels, (lv) => (lv < 0 ? 'rgba(0,114,178,0.8)' : 'rgba(213,94,0,0.8)'))],
     rows: 1, cols: 1, footer: t.footer,
   };
 }

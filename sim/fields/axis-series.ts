@@ -1,6 +1,6 @@
 // Axis potential of an axial solution as a Legendre series about the stage centre, the axial
 // counterpart of the planar multipoles: φ(0, z) ≈ Σ_n c_n P_n(u), u = (z − about)/scale ∈ [−1, 1],
-// electrodes at their dc values, volts. The coefficients are the least-squares fit to the axis nodes
+// scale = grid.reference_radius (else half the stage length), electrodes at their dc values, volts. The coefficients are the least-squares fit to the axis nodes
 // in [about − scale, about + scale] (normal equations, solved by Gaussian elimination with partial
 // pivoting), P_n by Bonnet's recurrence (n+1) P_{n+1} = (2n+1) u P_n − n P_{n−1} (Abramowitz & Stegun
 // 22.7.10). A mirror plane z gives the other half by reflection.
@@ -16,10 +16,19 @@ function legendre(u: number, nMax: number, out: Float64Array): void {
   for (let n = 1; n < nMax; n++) out[n + 1] = ((2 * n + 1) * u * out[n] - n * out[n - 1]) / (n + 1);
 }
 
+/** The default frame of the fit: centre and half-width of the axis span (see axisLegendre). */
+export function axisSeriesFrame(problem: FieldProblem): { about: number; scale: number } {
+  return { about: problem.grid.length / 2, scale: problem.grid.referenceRadius ?? problem.grid.length / 2 };
+}
+
 export function axisLegendre(solution: FieldSolution, problem: FieldProblem, opts: { nMax?: number; about?: number; scale?: number } = {}): AxisTerm[] {
   const g = solution.grid;
   if (g.symmetry !== 'axial') throw new FieldInputError('grid.symmetry', `the axis series needs an axial grid, not ${g.symmetry}`);
-  const nMax = opts.nMax ?? 10, about = opts.about ?? problem.grid.length / 2, scale = opts.scale ?? problem.grid.length / 2;
+  // The fit spans the free region about the centre (grid.reference_radius when given): over the whole
+  // stage it would also fit the fall-off beyond the electrodes, and a trap's hexapole and octopole
+  // would come out as large as its quadrupole.
+  const frame = axisSeriesFrame(problem);
+  const nMax = opts.nMax ?? 10, about = opts.about ?? frame.about, scale = opts.scale ?? frame.scale;
   const phi = dcPotential(solution, problem), [nr, nz] = g.shape, h = g.spacing, K = nMax + 1;
   const mirrored = g.mirror.includes('z');
   const A = new Float64Array(K * K), rhs = new Float64Array(K), P = new Float64Array(K);

@@ -6,5 +6,5 @@ export * from './problem.js';
 export { solveField, DEFAULT_TOLERANCE, type SolveOptions } from './solve.js';
 export { GridSampler, dcPotential } from './sample.js';
 export { fitMultipoles, type MultipoleTerm } from './multipoles.js';
-export { axisLegendre, type AxisTerm } from './axis-series.js';
+export { axisLegendre, axisSeriesFrame, type AxisTerm } from './axis-series.js';
 export { checkProblem, estimateMemory } from './check.js';

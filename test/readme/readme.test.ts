@@ -176,6 +176,21 @@ interface Checker { name: string; matches: (e: Example) => boolean; check: (e: E
 
 const CHECKERS: Checker[] = [
   {
+    name: 'field: the axis Legendre terms the comment names (ideal trap U/2 (1 − z²/z0²) fitted on ±4.5 mm)',
+    matches: (e) => e.args[0] === 'field',
+    check: (e) => {
+      runExample(e);
+      const s = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      const m = /c0 about ([\d.]+) V and c2 about (-?[\d.]+) V, higher terms below ([\d.]+) V/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const c = s.axis_legendre.map((t: { c_v: number }) => t.c_v);
+      // The comment rounds to 0.1 V.
+      expect(Math.abs(c[0] - num(m[1]))).toBeLessThanOrEqual(0.05);
+      expect(Math.abs(c[2] - num(m[2]))).toBeLessThanOrEqual(0.05);
+      for (let n = 3; n < c.length; n++) expect(Math.abs(c[n])).toBeLessThan(num(m[3]));
+    },
+  },
+  {
     name: 'mkdir -p: the output folder the commands below write into',
     matches: (e) => e.args[0] === 'mkdir',
     check: (e) => { mkdirSync(join(tmp, e.args[1]), { recursive: true }); },

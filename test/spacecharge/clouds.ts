@@ -25,3 +25,21 @@ export function gaussianCloud(n: number, sr: number, sz: number, mass: number, c
   }
   return e;
 }
+
+/**
+ * The points of a simple cubic lattice of spacing R/L inside a sphere of radius R, at rest. A
+ * lattice has no random microfield (each ion's neighbours cancel by symmetry), so what is left of
+ * the cloud's field is its smooth mean field: the sphere of the fluid solutions.
+ */
+export function latticeSphere(L: number, R: number, mass: number, charge: number): Ensemble {
+  const a = R / L, K = Math.ceil(L), pts: number[] = [];
+  for (let i = -K; i <= K; i++) for (let j = -K; j <= K; j++) for (let k = -K; k <= K; k++) {
+    if (i * i + j * j + k * k <= L * L) pts.push(i * a, j * a, k * a);
+  }
+  const e = allocateEnsemble(pts.length / 3);
+  for (let i = 0; i < e.n; i++) {
+    e.x[i] = pts[3 * i]; e.y[i] = pts[3 * i + 1]; e.z[i] = pts[3 * i + 2];
+    e.mass[i] = mass; e.charge[i] = charge;
+  }
+  return e;
+}
