@@ -8,7 +8,9 @@ export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
 export type GasFieldStep = (batch: IonBatch, slot: number, dt: number, ex: number, ey: number, ez: number) => void;
 
 /** How an ion left a stage. */
-export const Exit = { forward: 1, backward: 2, hit: 3, time: 4 } as const;
+// `detected`: the ion reached a detector inside the stage (a linear trap's slotted rod) rather than
+// leaving through a plane.
+export const Exit = { forward: 1, backward: 2, hit: 3, time: 4, detected: 5 } as const;
 export type ExitCode = (typeof Exit)[keyof typeof Exit];
 
 /** The moving ion, loaded into locals by each kernel and stored back on exit. */

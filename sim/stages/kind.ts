@@ -45,6 +45,24 @@ export interface KernelSettings {
   stepNoRf: number;
 }
 
+/**
+ * The Mathieu geometry of a stage whose RF amplitude ramps for a mass-selective scan
+ * (sim/analysis/trap-scan.ts): the motion that ejects and its a and q.
+ */
+export interface MassScanGeometry {
+  /** The ejecting coordinate's q in summary keys: 'qz' (3D trap, along z), 'qx' (radial, x rods). */
+  readonly qKey: string;
+  readonly rf: RfDrive;
+  /** Supplementary dipolar AC along the ejecting coordinate, if any. */
+  readonly aux?: { amplitude: number; frequency: number; phase: number };
+  /** Mathieu a of the ejecting coordinate for an ion of this m/z (charge 1). */
+  a(mz: number): number;
+  /** Mathieu q of the ejecting coordinate at RF amplitude `amplitude` (V) for this m/z. */
+  q(amplitude: number, mz: number): number;
+  /** m/z per volt of RF amplitude for ions ejected at q = qEject. */
+  mzPerVolt(qEject: number): number;
+}
+
 export interface StageKind<S extends Stage = Stage> {
   readonly type: S['type'];
   /** Scene-file entries this kind reads (a kind may read several, e.g. reflectron and source). */
@@ -90,6 +108,8 @@ export interface StageKind<S extends Stage = Stage> {
   readonly analyzer?: Analyzer;
   /** Mathieu geometry of an RF stage (sim/mathieu/parameters.ts), without the ion. */
   operatingPoint?(st: S): Omit<OperatingPoint, 'mz' | 'charge'> & { analyzer: Analyzer };
+  /** Mass-scan geometry of the stage when its RF ramps (a trap of either shape), else undefined. */
+  massScan?(st: S): MassScanGeometry | undefined;
   /** One line for figure subtitles, e.g. "quadrupole 150 mm, r0 4.00 mm". */
   describe(st: Readonly<Record<string, unknown>>): string;
   /** Electrode outline for the renderer (scene data: stage-local SI lengths). */
