@@ -61,21 +61,34 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
       }
       if (hs > 0) {
         const hh = 0.5 * hs, h6 = hs / 6;
-        // w^(n−1) at each of the four RK4 points.
-        let X = x * ir0, Y = y * ir0, pr = X, pi = Y;
-        for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; }
+        // w^(n−1) at each of the four RK4 points: written out for the quadrupole, hexapole and
+        // octupole (a loop over a run-time power is not unrolled by V8), by multiplication beyond.
+        let X = x * ir0, Y = y * ir0, pr: number, pi: number;
+        if (pw === 3) { const X2 = X * X, Y2 = Y * Y; pr = X * (X2 - 3 * Y2); pi = Y * (3 * X2 - Y2); }
+        else if (pw === 2) { pr = X * X - Y * Y; pi = 2 * X * Y; }
+        else if (pw === 1) { pr = X; pi = Y; }
+        else { pr = X; pi = Y; for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; } }
         const ax1 = -g0 * pr, ay1 = g0 * pi;
         const x2 = x + hh * vx, y2 = y + hh * vy, vx2 = vx + hh * ax1, vy2 = vy + hh * ay1;
-        X = x2 * ir0; Y = y2 * ir0; pr = X; pi = Y;
-        for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; }
+        X = x2 * ir0; Y = y2 * ir0;
+        if (pw === 3) { const X2 = X * X, Y2 = Y * Y; pr = X * (X2 - 3 * Y2); pi = Y * (3 * X2 - Y2); }
+        else if (pw === 2) { pr = X * X - Y * Y; pi = 2 * X * Y; }
+        else if (pw === 1) { pr = X; pi = Y; }
+        else { pr = X; pi = Y; for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; } }
         const ax2 = -g1 * pr, ay2 = g1 * pi;
         const x3 = x + hh * vx2, y3 = y + hh * vy2, vx3 = vx + hh * ax2, vy3 = vy + hh * ay2;
-        X = x3 * ir0; Y = y3 * ir0; pr = X; pi = Y;
-        for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; }
+        X = x3 * ir0; Y = y3 * ir0;
+        if (pw === 3) { const X2 = X * X, Y2 = Y * Y; pr = X * (X2 - 3 * Y2); pi = Y * (3 * X2 - Y2); }
+        else if (pw === 2) { pr = X * X - Y * Y; pi = 2 * X * Y; }
+        else if (pw === 1) { pr = X; pi = Y; }
+        else { pr = X; pi = Y; for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; } }
         const ax3 = -g1 * pr, ay3 = g1 * pi;
         const x4 = x + hs * vx3, y4 = y + hs * vy3, vx4 = vx + hs * ax3, vy4 = vy + hs * ay3;
-        X = x4 * ir0; Y = y4 * ir0; pr = X; pi = Y;
-        for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; }
+        X = x4 * ir0; Y = y4 * ir0;
+        if (pw === 3) { const X2 = X * X, Y2 = Y * Y; pr = X * (X2 - 3 * Y2); pi = Y * (3 * X2 - Y2); }
+        else if (pw === 2) { pr = X * X - Y * Y; pi = 2 * X * Y; }
+        else if (pw === 1) { pr = X; pi = Y; }
+        else { pr = X; pi = Y; for (let e = 1; e < pw; e++) { const t = pr * X - pi * Y; pi = pr * Y + pi * X; pr = t; } }
         const ax4 = -g2 * pr, ay4 = g2 * pi;
         x += h6 * (vx + 2 * vx2 + 2 * vx3 + vx4);
         y += h6 * (vy + 2 * vy2 + 2 * vy3 + vy4);
@@ -86,15 +99,16 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
         if (j === jEnd) j = 0;
       }
       const t1 = t0 + (hs > 0 ? hs : 0);
-      // z is linear in t within the leg; the last step lands exactly on the plane.
-      z = last && leaves ? (vz > 0 ? st.zEnd : st.zStart) : zFrom + (t1 - tEntry - nFrom * h) * vz;
-      if (x * x + y * y >= r0sq) { storeCursor(c, t1, x, y, z, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.hit); }
-      if (last) {
+      // z is linear in t within the leg (worked out only where it is read); the last step lands
+      // exactly on the plane.
+      if (x * x + y * y >= r0sq || last) {
+        z = last && leaves ? (vz > 0 ? st.zEnd : st.zStart) : zFrom + (t1 - tEntry - nFrom * h) * vz;
         storeCursor(c, t1, x, y, z, vx, vy, vz, n);
-        return leave(hk, ctx, c, depth, !leaves ? Exit.time : vz > 0 ? Exit.forward : Exit.backward);
+        return leave(hk, ctx, c, depth, x * x + y * y >= r0sq ? Exit.hit : !leaves ? Exit.time : vz > 0 ? Exit.forward : Exit.backward);
       }
       full--;
       if (--watchIn <= 0) {
+        z = zFrom + (t1 - tEntry - nFrom * h) * vz;
         storeCursor(c, t1, x, y, z, vx, vy, vz, 0);
         observe(c, ctx, span0);
         watchIn = span0 = stepsToWatch(c, ctx, h);
@@ -108,14 +122,14 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
           hk.collide(b, i, h, depth);
           depth = hk.depth; lim = hk.limit2; dstep = hk.rate * h;
           vx = b.vx[i]; vy = b.vy[i];
-          if (b.vz[i] !== vz) { vz = b.vz[i]; replan = true; }
+          if (b.vz[i] !== vz) { z = zFrom + (t1 - tEntry - nFrom * h) * vz; vz = b.vz[i]; replan = true; }
         }
       } else if (gas !== null) {
         const b = ctx.batch, i = c.slot;
         b.vx[i] = vx; b.vy[i] = vy; b.vz[i] = vz;
         gas(b, i, h);
         vx = b.vx[i]; vy = b.vy[i];
-        if (b.vz[i] !== vz) { vz = b.vz[i]; replan = true; }
+        if (b.vz[i] !== vz) { z = zFrom + (t1 - tEntry - nFrom * h) * vz; vz = b.vz[i]; replan = true; }
       }
       if (replan) break;
     }
