@@ -108,6 +108,12 @@ export interface StageKind<S extends Stage = Stage> {
   readonly analyzer?: Analyzer;
   /** Mathieu geometry of an RF stage (sim/mathieu/parameters.ts), without the ion. */
   operatingPoint?(st: S): Omit<OperatingPoint, 'mz' | 'charge'> & { analyzer: Analyzer };
+  /**
+   * The radial effective (pseudo)potential of a stored stage for an ion of this m/z and charge:
+   * V*(r) in J, or undefined when the kind has none (render/plot/kinds/radial.ts draws the
+   * Boltzmann density exp(−V* / kT) from it).
+   */
+  effectivePotential?(st: Readonly<Record<string, unknown>>, mz: number, charge: number): { at(r: number): number; r0: number; label: string } | undefined;
   /** Mass-scan geometry of the stage when its RF ramps (a trap of either shape), else undefined. */
   massScan?(st: S): MassScanGeometry | undefined;
   /** One line for figure subtitles, e.g. "quadrupole 150 mm, r0 4.00 mm". */

@@ -4,7 +4,7 @@
 
 import { GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
-import { dcPlusRf, mm2, num, rfAmplitude, voltLabel } from '../shared/describe.js';
+import { dcPlusRf, lengthMm, mm2, num, rfAmplitude, storedStage, voltLabel } from '../shared/describe.js';
 import { r0Plausibility } from '../shared/plausible.js';
 import { linearTrapAx, linearTrapMzPerVolt, linearTrapQx } from '../../mathieu/linear-trap.js';
 import { linearTrapField } from './field.js';
@@ -57,7 +57,10 @@ export const linearTrapKind: StageKind<LinearTrapStage> = {
     q: (amplitude, mz) => linearTrapQx(st.r0, st.rf.frequency, amplitude, mz),
     mzPerVolt: (qEject) => linearTrapMzPerVolt(st.r0, st.rf.frequency, qEject),
   }),
-  describe: (s) => `linear trap ${mm2(s.length)} mm, r0 ${mm2(s.r0)} mm, end electrodes ${voltLabel(num(s.endDc) ?? 0)} (κ ${num(s.kappa) ?? '?'})`,
+  describe(s) {
+    const d = storedStage(s);
+    return `linear trap ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm, end electrodes ${voltLabel(num(d.endDc) ?? 0)} (κ ${num(d.kappa) ?? '?'})`;
+  },
   outline: () => [{ shape: 'rod-set', reachR0: 1.5 }, { shape: 'grid-gap' }],
   electrodeLabels(s) {
     const r0 = num(s.r0) ?? 0, len = num(s.length) ?? 0;

@@ -3,11 +3,12 @@
 
 import { GAS_FIELD, LENGTH_FIELD, RF_FIELD, VOLTAGE_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
-import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
+import { dcPlusRf, lengthMm, mm2, num, rfAmplitude, storedStage } from '../shared/describe.js';
 import { r0Plausibility } from '../shared/plausible.js';
 import { multipoleField } from './field.js';
 import { trackMultipole } from './kernel.js';
 import type { MultipoleStage } from './stage.js';
+import { multipoleEffectivePotential } from '../../mathieu/multipole.js';
 
 /** Names of the common rod sets (the trade's words), by number of rods. */
 const ROD_SET_NAMES: Readonly<Record<number, string>> = { 4: 'quadrupole', 6: 'hexapole', 8: 'octupole', 10: 'decapole', 12: 'dodecapole' };
@@ -41,8 +42,14 @@ export const multipoleKind: StageKind<MultipoleStage> = {
   exitAperture: (st) => st.r0,
   uniformField: false,
   gasPieces: true,
-  describe: (s) => `${rodSetName(num(s.poles) ?? 0)} ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
-  outline: (s) => [{ shape: 'rod-set', reachR0: 1.5, rods: num(s.poles) ?? 4 }],
+  effectivePotential(s, mz, charge) {
+    const poles = num(s.poles), r0 = num(s.r0), rf = s.rf as Readonly<Record<string, unknown>> | undefined;
+    const V = num(rf?.amplitude), f = num(rf?.frequency);
+    if (poles === undefined || r0 === undefined || V === undefined || f === undefined || V === 0 || num(s.dc)) return undefined;
+    return { at: multipoleEffectivePotential(poles, r0, f, V, mz, charge), r0, label: `${rodSetName(poles)} V*(r) ∝ (r/r0)^${poles - 2} (Gerlich 1992)` };
+  },
+  describe: (s) => `${rodSetName(num(storedStage(s).poles) ?? 0)} ${lengthMm(s)} mm, r0 ${mm2(s.r0)} mm`,
+  outline: (s) => [{ shape: 'rod-set', reachR0: 1.5, rods: num(storedStage(s).poles) ?? 4 }],
   electrodeLabels(s) {
     // Rods alternately at ±(U + V cos Ωt): the rod on +x and every second one from it carry +.
     const r0 = num(s.r0) ?? 0, len = num(s.length) ?? 0, poles = num(s.poles) ?? 4;
