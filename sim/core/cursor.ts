@@ -112,6 +112,19 @@ export function observe(c: IonCursor, ctx: StepContext, steps: number): void {
   }
 }
 
+/**
+ * At max_time: sample the history at every grid time up to the cursor's time (the grid's last
+ * point is max_time itself, which the last, shortened step reaches only up to rounding).
+ */
+export function observeHistoryAtEnd(c: IonCursor, ctx: StepContext): void {
+  const h = ctx.hist;
+  if (h === null) return;
+  while (c.nextHist < h.points && h.timeOf(c.nextHist) <= ctx.maxTime) {
+    h.add(c.nextHist, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+    c.nextHist++;
+  }
+}
+
 /** Write a kernel's locals back into the cursor and count the steps taken. */
 export function storeCursor(c: IonCursor, t: number, x: number, y: number, z: number, vx: number, vy: number, vz: number, steps: number): void {
   c.t = t; c.x = x; c.y = y; c.z = z; c.vx = vx; c.vy = vy; c.vz = vz;

@@ -10,7 +10,7 @@
 // at |z| = z0 it strikes an end electrode (the ideal well has no opening).
 
 import type { LinearTrapStage } from './stage.js';
-import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext, type HardSphereKernel } from '../../core/cursor.js';
+import { Exit, observe, observeHistoryAtEnd, stepsToWatch, storeCursor, type ExitCode, type IonCursor, type StepContext, type HardSphereKernel } from '../../core/cursor.js';
 import { phaseTable } from '../../core/phase-table.js';
 
 export function trackLinearTrap(st: LinearTrapStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
@@ -116,7 +116,7 @@ export function trackLinearTrap(st: LinearTrapStage, c: IonCursor, ctx: StepCont
       return leave(hk, ctx, c, depth, x * x >= y * y ? Exit.detected : Exit.hit);
     }
     if (z >= z0 || z <= -z0) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.hit); }
-    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); return leave(hk, ctx, c, depth, Exit.time); }
+    if (last) { storeCursor(c, t1, x, y, z + zc, vx, vy, vz, n); observeHistoryAtEnd(c, ctx); return leave(hk, ctx, c, depth, Exit.time); }
     if (--watchIn <= 0) {
       storeCursor(c, t1, x, y, z + zc, vx, vy, vz, 0);
       observe(c, ctx, span0);
@@ -140,6 +140,7 @@ export function trackLinearTrap(st: LinearTrapStage, c: IonCursor, ctx: StepCont
     }
   }
   storeCursor(c, tEntry + n * h, x, y, z + zc, vx, vy, vz, n);
+  observeHistoryAtEnd(c, ctx);
   return leave(hk, ctx, c, depth, Exit.time);
 
   function vAt(t: number): number {

@@ -9,7 +9,7 @@
 // other model through the plain step after each RK4 step.
 
 import type { MultipoleStage } from './stage.js';
-import { Exit, observe, stepsToWatch, storeCursor, type ExitCode, type HardSphereKernel, type IonCursor, type StepContext } from '../../core/cursor.js';
+import { Exit, observe, observeHistoryAtEnd, stepsToWatch, storeCursor, type ExitCode, type HardSphereKernel, type IonCursor, type StepContext } from '../../core/cursor.js';
 import { phaseTable } from '../../core/phase-table.js';
 
 export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContext, stepsPerCycle: number): ExitCode {
@@ -104,7 +104,9 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
       if (x * x + y * y >= r0sq || last) {
         z = last && leaves ? (vz > 0 ? st.zEnd : st.zStart) : zFrom + (t1 - tEntry - nFrom * h) * vz;
         storeCursor(c, t1, x, y, z, vx, vy, vz, n);
-        return leave(hk, ctx, c, depth, x * x + y * y >= r0sq ? Exit.hit : !leaves ? Exit.time : vz > 0 ? Exit.forward : Exit.backward);
+        const code = x * x + y * y >= r0sq ? Exit.hit : !leaves ? Exit.time : vz > 0 ? Exit.forward : Exit.backward;
+        if (code === Exit.time) observeHistoryAtEnd(c, ctx);
+        return leave(hk, ctx, c, depth, code);
       }
       full--;
       if (--watchIn <= 0) {
