@@ -52,6 +52,8 @@ export interface KernelSettings {
 export interface MassScanGeometry {
   /** The ejecting coordinate's q in summary keys: 'qz' (3D trap, along z), 'qx' (radial, x rods). */
   readonly qKey: string;
+  /** Where an ejected ion goes, for the report's assumptions ("along z through the far end cap ..."). */
+  readonly ejection: string;
   readonly rf: RfDrive;
   /** Supplementary dipolar AC along the ejecting coordinate, if any. */
   readonly aux?: { amplitude: number; frequency: number; phase: number };

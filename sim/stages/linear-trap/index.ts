@@ -52,7 +52,7 @@ export const linearTrapKind: StageKind<LinearTrapStage> = {
   gasPieces: true,
   // Mass scans eject radially through the x rods (kernel.ts: Exit.detected).
   massScan: (st) => (st.rf.ramp === undefined ? undefined : {
-    qKey: 'qx', rf: st.rf, ...(st.aux ? { aux: st.aux } : {}),
+    qKey: 'qx', ejection: 'radially onto an x rod (through its slot, the ideal well having no opening along z)', rf: st.rf, ...(st.aux ? { aux: st.aux } : {}),
     a: (mz) => linearTrapAx({ r0: st.r0, z0: st.z0, freq: st.rf.frequency, dc: st.dc, endDc: st.endDc, kappa: st.kappa, mz }),
     q: (amplitude, mz) => linearTrapQx(st.r0, st.rf.frequency, amplitude, mz),
     mzPerVolt: (qEject) => linearTrapMzPerVolt(st.r0, st.rf.frequency, qEject),

@@ -53,7 +53,7 @@ export const trapKind: StageKind<TrapStage> = {
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
   // Mass-selective scans eject along z (sim/analysis/trap-scan.ts).
   massScan: (st) => (st.rf.ramp === undefined ? undefined : {
-    qKey: 'qz', rf: st.rf, ...(st.aux ? { aux: st.aux } : {}),
+    qKey: 'qz', ejection: 'along z through the far end cap within its aperture', rf: st.rf, ...(st.aux ? { aux: st.aux } : {}),
     a: (mz) => trapAz(st.r0, st.z0, st.rf.frequency, st.dc, mz),
     q: (amplitude, mz) => trapQz(st.r0, st.z0, st.rf.frequency, amplitude, mz),
     mzPerVolt: (qEject) => trapMzPerVolt(st.r0, st.z0, st.rf.frequency, qEject),
