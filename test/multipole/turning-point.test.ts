@@ -51,6 +51,7 @@ describe('multipole kernel: turning point in the effective potential (Gerlich 19
       const periods = Math.ceil((4 * 1.2 * rel * r0 / v0) * f);
       const got = turningRadius(st, m, v0, (phiDeg * Math.PI) / 180, periods, 80);
       expect(Math.abs(got / (rel * r0) - 1)).toBeLessThan(0.02);
+      console.log(`octupole r* = ${rel} r0: turning radius off by ${((got / (rel * r0) - 1) * 100).toFixed(3)} %`);
       // A transverse energy 10 % higher must show (r* grows by 1.1^(1/6) − 1 = 1.6 %): the
       // sampling resolves the turning point better than the effect it checks.
       const higher = turningRadius(st, m, Math.sqrt((2 * 1.1 * ePerp) / m), (phiDeg * Math.PI) / 180, periods, 80);
