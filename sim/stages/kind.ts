@@ -132,6 +132,11 @@ export interface StageKind<S extends Stage = Stage> {
    * a scene with one, in one line), or undefined when they can.
    */
   readonly trackingUnavailable?: string;
+  /**
+   * Why `integrator: dopri5` cannot fly stages of this kind (the run is refused in one line rather
+   * than quietly stepped with RK4), or undefined when it can.
+   */
+  readonly adaptiveUnavailable?: string;
   /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
   fieldProblem?(st: S): FieldProblem;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */

@@ -6,6 +6,7 @@ import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { iontrail, tempDir } from '../helpers/cli.js';
 import { parseScene } from '../../sim/scene/load.js';
+import { checkIntegrator } from '../../sim/engine/checks.js';
 
 const ions = 'ions: [ { mz: 200, count: 2 } ]\n';
 const cases: [string, string, RegExp][] = [
@@ -34,4 +35,8 @@ describe('one-line errors of multipole and linear-trap entries', () => {
       expect(existsSync(out)).toBe(false);
     });
   }
+  it('integrator dopri5 on a kind without an adaptive form: refused in one line, not stepped with RK4 under its name', () => {
+    const scene = parseScene('stages:\n  - { type: multipole, poles: 8, length: 100 mm, r0: 3 mm, rf: { amplitude: 100 V, frequency: 2 MHz } }\n' + ions + 'run: { integrator: dopri5 }\n', 'd5.yaml');
+    expect(() => checkIntegrator(scene)).toThrow(/^run\.integrator: dopri5 cannot fly stage 0 \(the multipole kernel has no adaptive form yet\); use rk4$/);
+  });
 });

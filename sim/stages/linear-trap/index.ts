@@ -43,7 +43,7 @@ export const linearTrapKind: StageKind<LinearTrapStage> = {
   hasRf: true,
   rf: (st) => st.rf,
   field: linearTrapField,
-  // The integrator setting `dopri5` falls back to the fixed-step RK4 here (no adaptive form yet).
+  adaptiveUnavailable: 'the linear-trap kernel has no adaptive form yet',
   track: (st, c, ctx, run) => trackLinearTrap(st, c, ctx, run.stepsPerCycle),
   exitFate: () => undefined,
   // The ideal well is closed at both ends: nothing leaves through the exit plane.

@@ -35,7 +35,7 @@ export const multipoleKind: StageKind<MultipoleStage> = {
   hasRf: true,
   rf: (st) => st.rf,
   field: multipoleField,
-  // The integrator setting `dopri5` falls back to the fixed-step RK4 here (no adaptive form yet).
+  adaptiveUnavailable: 'the multipole kernel has no adaptive form yet',
   track: (st, c, ctx, run) => trackMultipole(st, c, ctx, run.stepsPerCycle),
   exitFate: () => undefined,
   // The exit plane is open; the rods' inscribed circle bounds it.
