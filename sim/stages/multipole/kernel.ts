@@ -19,6 +19,7 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
   const cosT = tab.cos, sinT = tab.sin;
   const jEnd = 2 * stepsPerCycle;
   const r0 = st.r0, ir0 = 1 / r0, r0sq = r0 * r0;
+  const hhF = 0.5 * h, h6F = h / 6;
   const pw = st.poles / 2 - 1; // power of w in the field
   const k = (c.q * (st.poles / 2)) / (c.m * r0);
   const kU = k * st.dc, kV = k * st.rf.amplitude;
@@ -60,7 +61,8 @@ export function trackMultipole(st: MultipoleStage, c: IonCursor, ctx: StepContex
         g2 = kU + kV * (cosT[j + 2] * cp - sinT[j + 2] * sp);
       }
       if (hs > 0) {
-        const hh = 0.5 * hs, h6 = hs / 6;
+        // Full steps use the step's constants (a division per step costs more than the branch).
+        const hh = last ? 0.5 * hs : hhF, h6 = last ? hs / 6 : h6F;
         // w^(n−1) at each of the four RK4 points: written out for the quadrupole, hexapole and
         // octupole (a loop over a run-time power is not unrolled by V8), by multiplication beyond.
         let X = x * ir0, Y = y * ir0, pr: number, pi: number;
