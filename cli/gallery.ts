@@ -67,4 +67,13 @@ await iontrail('plot', join(RUNS, 'scan-pressure'), '--kind', 'sweep',
   '--y', 'scan.species.1.fwhm_mz,scan.species.1.ejection_qz_mean', '-o', fig('scan-pressure.png'));
 await iontrail('sweep', join('scenes', 'qf4-peak-scan.yaml'), '--vary', 'mz=490..514:121', '-o', join(RUNS, 'peak'), '--force');
 await iontrail('plot', join(RUNS, 'peak'), '--kind', 'sweep', '-o', fig('peak.png'));
+await run('cg8-octupole-guide.yaml', 'cg8');
+await iontrail('plot', join(RUNS, 'cg8'), '--kind', 'radial', '-o', fig('radial.png'));
+await iontrail('sweep', join('scenes', 'cg8-guide-transmission.yaml'), '--vary', 'mz=10..400:40', '-o', join(RUNS, 'cg8-octupole'), '--force');
+await iontrail('plot', join(RUNS, 'cg8-octupole'), '--kind', 'sweep', '--y', 'transmission', '-o', fig('guide-octupole.png'));
+await iontrail('sweep', join('scenes', 'cg8-guide-transmission.yaml'), '--vary', 'mz=10..400:40', '--set', 'stages.0.poles=4', '-o', join(RUNS, 'cg8-quadrupole'), '--force');
+await iontrail('plot', join(RUNS, 'cg8-quadrupole'), '--kind', 'sweep', '--y', 'transmission', '-o', fig('guide-quadrupole.png'));
+// The linear trap's spectrum is the review bundle's figure.
+await iontrail('report', join('scenes', 'lq2-linear-trap.yaml'), '-o', join(RUNS, 'lq2-review'), '--force');
+copyFileSync(join(RUNS, 'lq2-review', 'fig-spectrum.png'), fig('spectrum-linear-trap.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

@@ -8,6 +8,7 @@ import { parseQuantity, formatSI } from '../../sim/units/quantity.js';
 import { analyzeOperatingPoint, type OperatingPointReport, type AxisReport } from '../../sim/mathieu/operating-point.js';
 import type { Analyzer, OperatingPoint } from '../../sim/mathieu/parameters.js';
 import { multipoleFigures } from '../../sim/mathieu/multipole.js';
+import { linearTrapFigures } from '../../sim/mathieu/linear-trap.js';
 
 export const describe = 'Mathieu a/q, stability, β, secular frequencies and m/z limits of an operating point';
 
@@ -34,6 +35,11 @@ function help(): string {
     'usage: iontrail check --analyzer multipole --poles 8 --r0 2mm --freq 5MHz --rf 200V --mz 100 [--radius 1mm] [--charge 1] [--json]',
     '  RF-only multipole of 2n rods (Gerlich 1992): effective potential V*(r) at --radius (default r0) and',
     '  at r0, the adiabaticity parameter η there and the radius where η reaches 0.3',
+    '',
+    'usage: iontrail check --analyzer linear-trap --r0 4mm --length 40mm --freq 1MHz --rf 200V [--dc 0V] --end-dc 10V --kappa 0.05 --mz 200 [--charge 1] [--json]',
+    '  linear quadrupole trap, end electrodes as the ideal well κ·U_end·(2z² − x² − y²)/(2 z0²), z0 = length/2:',
+    '  Mathieu a, q and β of x and y (a shifted by −4eκU_end/(m z0² Ω²)), radial and axial secular frequencies;',
+    '  κ is the end electrodes\' geometric factor (from a field solution or a measured axial frequency)',
     '',
   ].join('\n');
 }
@@ -63,7 +69,7 @@ export function parseCheckArgs(argv: string[]): CheckInput {
   const analyzerText = requireFlag(args, 'analyzer', 'check', 'quadrupole');
   if (!(ANALYZERS as readonly string[]).includes(analyzerText)) {
     const hint = closest(analyzerText, ANALYZERS);
-    throw new UsageError(`check: --analyzer expects quadrupole, trap or multipole, got '${analyzerText}'${hint ? ` (did you mean '${hint}'?)` : ''}`);
+    throw new UsageError(`check: --analyzer expects quadrupole, trap, multipole or linear-trap, got '${analyzerText}'${hint ? ` (did you mean '${hint}'?)` : ''}`);
   }
   const analyzer = analyzerText as Analyzer;
   const r0 = positive(requireFlag(args, 'r0', 'check', analyzer === 'trap' ? '7.07mm' : '4mm'), 'length', 'r0');
@@ -206,7 +212,8 @@ export async function run(argv: string[]): Promise<number> {
     process.stdout.write(help());
     return 0;
   }
-  if (multipoleRequested(argv)) return runMultipole(argv);
+  if (analyzerRequested(argv, 'multipole')) return runMultipole(argv);
+  if (analyzerRequested(argv, 'linear-trap')) return runLinearTrap(argv);
   const input = parseCheckArgs(argv);
   const reports = input.mzList.map((mz) =>
     analyzeOperatingPoint({ ...input.base, mz, charge: input.charge }, { rfMax: input.rfMax, qEject: input.qEject }));
@@ -220,10 +227,51 @@ export async function run(argv: string[]): Promise<number> {
   return 0;
 }
 
-/** `--analyzer multipole` (either spelling of the flag). */
-function multipoleRequested(argv: string[]): boolean {
+/** `--analyzer NAME` (either spelling of the flag). */
+function analyzerRequested(argv: string[], name: string): boolean {
   const i = argv.indexOf('--analyzer');
-  return (i >= 0 && argv[i + 1] === 'multipole') || argv.includes('--analyzer=multipole');
+  return (i >= 0 && argv[i + 1] === name) || argv.includes(`--analyzer=${name}`);
+}
+
+/** Linear traps: radial Mathieu a, q, β with the well's shift and the axial secular frequency (sim/mathieu/linear-trap.ts). */
+function runLinearTrap(argv: string[]): number {
+  const args = parseArgs(argv, { values: ['analyzer', 'r0', 'length', 'freq', 'rf', 'dc', 'end-dc', 'kappa', 'mz', 'charge'], switches: ['json', 'help'] }, 'check');
+  if (args.positional.length > 0) throw new UsageError(`check: unexpected argument '${args.positional[0]}'`);
+  const r0 = positive(requireFlag(args, 'r0', 'check', '4mm'), 'length', 'r0');
+  const length = positive(requireFlag(args, 'length', 'check', '40mm'), 'length', 'length');
+  const freq = positive(requireFlag(args, 'freq', 'check', '1MHz'), 'frequency', 'freq');
+  const rf = positive(requireFlag(args, 'rf', 'check', '200V'), 'voltage', 'rf');
+  const dcText = flag(args, 'dc');
+  const dc = dcText === undefined ? 0 : parseQuantity(dcText, 'voltage', 'check: --dc');
+  const endDc = positive(requireFlag(args, 'end-dc', 'check', '10V'), 'voltage', 'end-dc');
+  const kappaText = requireFlag(args, 'kappa', 'check', '0.05');
+  const kappa = /^[+]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(kappaText.trim()) ? Number(kappaText) : NaN;
+  if (!(kappa > 0 && kappa <= 1)) throw new UsageError(`check: --kappa expects the end electrodes' geometric factor, a plain number in (0, 1] such as 0.05, got '${kappaText}'`);
+  const mzText = requireFlag(args, 'mz', 'check', '200');
+  const mz = Number(mzText);
+  if (!(mz > 0) || !Number.isFinite(mz)) throw new UsageError(`check: --mz expects a positive m/z such as 200, got '${mzText}'`);
+  const chargeText = flag(args, 'charge') ?? '1';
+  if (!/^[+-]?\d+$/.test(chargeText.trim()) || Number(chargeText) === 0) throw new UsageError(`check: --charge expects a non-zero whole number, got '${chargeText}'`);
+  const charge = Number(chargeText);
+  const z0 = length / 2;
+  const r = linearTrapFigures({ r0, z0, freq, rf, dc, endDc, kappa, mz, charge });
+  if (args.switches.has('json')) {
+    process.stdout.write(JSON.stringify({ analyzer: 'linear-trap', mz, charge, r0_m: r0, z0_m: z0, freq_hz: freq, rf_v: rf, dc_v: dc, end_dc_v: endDc, kappa, ...r }, null, 2) + '\n');
+    return 0;
+  }
+  const mm = (v: number) => `${(v * 1e3).toPrecision(4)} mm`;
+  const f = (v: number) => (v !== 0 && Math.abs(v) < 1e-3 ? v.toExponential(3) : v.toPrecision(5));
+  const axis = (name: string, a: number, q: number, beta: number | null, stable: boolean, sec: number | null) =>
+    `  ${name}: a = ${f(a)}, q = ${f(q)}, ${stable ? `stable, β = ${f(beta!)}, secular ${formatSI(sec!, 'Hz')}` : 'UNSTABLE'}`;
+  const lines = [
+    `linear trap r0 ${mm(r0)}, rods ${mm(length)} (z0 ${mm(z0)}), f ${formatSI(freq, 'Hz')}, V ${formatSI(rf, 'V')} (0-peak), U ${formatSI(dc, 'V')}, end electrodes ${formatSI(endDc, 'V')}, κ ${kappa}, m/z ${mz}`,
+    axis('x (slotted rods)', r.a_x, r.q_x, r.beta_x, r.stable_x, r.radial_secular_x_hz),
+    axis('y', r.a_y, r.q_y, r.beta_y, r.stable_y, r.radial_secular_y_hz),
+    `  the axial well shifts both a by ${r.a_shift.toPrecision(3)} (−4eκU_end/(m z0² Ω²))`,
+    r.axial_secular_hz === null ? '  axial: the end electrodes do not hold this ion' : `  axial secular frequency ${formatSI(r.axial_secular_hz, 'Hz')} (ω_z² = 2eκU_end/(m z0²)), well depth κ·U_end = ${formatSI(r.axial_well_depth_v, 'V')}`,
+  ];
+  process.stdout.write(lines.join('\n') + '\n' + SAFETY + '\n');
+  return 0;
 }
 
 /** RF-only multipoles: Gerlich's effective potential and adiabaticity (sim/mathieu/multipole.ts). */

@@ -8,6 +8,7 @@
 //   cooling    ensemble mean kinetic energy (log) with the fitted τ, and cloud size, vs time
 //   arrival    histogram of arrival times of detected ions, per species
 //   energy     histogram of final kinetic energies, per species
+//   radial     radial density in an RF multipole against exp(−V*(r)/kT)
 
 import { readRunFolder } from '../../sim/runfolder/index.js';
 import { checkOutputFolder, imageFormat, writeFileAtomic } from '../common/output.js';
@@ -18,11 +19,12 @@ import { stability } from './kinds/stability.js';
 import { phase, xy } from './kinds/scatter.js';
 import { cooling } from './kinds/cooling.js';
 import { arrival, energy } from './kinds/histogram.js';
+import { radial } from './kinds/radial.js';
 
 export { PlotError, type PlotKind, type KindOptions } from './kind.js';
 export { renderFigure, type FigureSpec } from './figure.js';
 
-export const KINDS: readonly PlotKind[] = [traces, stability, phase, xy, cooling, arrival, energy];
+export const KINDS: readonly PlotKind[] = [traces, stability, phase, xy, cooling, arrival, energy, radial];
 
 export function kindByName(name: string): PlotKind | undefined {
   return KINDS.find((k) => k.name === name);

@@ -181,12 +181,14 @@ function coolingBlocks(c: Record<string, unknown>): Block[] {
 
 function scanBlocks(s: Record<string, unknown>): Block[] {
   const sp = (Array.isArray(s.species) ? s.species : []) as Record<string, unknown>[];
+  // The ejecting coordinate: z for the 3D trap, x (radial, through the slotted rods) for a linear trap.
+  const k = s.ejection_qx !== undefined ? 'qx' : 'qz', label = k === 'qx' ? 'q_x' : 'q_z';
   return [
     {
       kind: 'table',
-      caption: `${String(s.mode ?? 'scan')} scan: ejection q_z ${num(s.ejection_qz, 5)}, calibration ${num(s.mz_per_volt, 5)} m/z per volt of RF, scan rate ${num(s.scan_rate_mz_per_s, 4)} m/z per second`,
-      head: ['m/z', 'ejected', 'apparent m/z', 'FWHM (m/z)', 'resolution m/Δm', 'mean ejection q_z', 'expected q_z'],
-      rows: sp.map((x) => [num(x.mz, 6), int(x.ejected), num(x.apparent_mz, 6), num(x.fwhm_mz, 3), num(x.resolution, 4), num(x.ejection_qz_mean, 4), num(x.ejection_qz_expected, 4)]),
+      caption: `${String(s.mode ?? 'scan')} scan: ejection ${label} ${num(s[`ejection_${k}`], 5)}, calibration ${num(s.mz_per_volt, 5)} m/z per volt of RF, scan rate ${num(s.scan_rate_mz_per_s, 4)} m/z per second`,
+      head: ['m/z', 'ejected', 'apparent m/z', 'FWHM (m/z)', 'resolution m/Δm', `mean ejection ${label}`, `expected ${label}`],
+      rows: sp.map((x) => [num(x.mz, 6), int(x.ejected), num(x.apparent_mz, 6), num(x.fwhm_mz, 3), num(x.resolution, 4), num(x[`ejection_${k}_mean`], 4), num(x[`ejection_${k}_expected`], 4)]),
       numeric: [true, true, true, true, true, true, true],
     },
   ];

@@ -113,6 +113,35 @@ function quadrupole(stage: PlacedStage, opts: ElectrodeOptions): THREE.Group {
   return g;
 }
 
+/**
+ * 2n round rods of a multipole guide on the circle r0, at azimuths kπ/n (where cos nθ = ±1),
+ * alternately + and −. Rod radius r0/(n − 1): the usual proportion of multipole guides (common
+ * practice, no source), which for n = 2 is close to the quadrupole's 1.1468.
+ */
+function multipoleRods(stage: PlacedStage, opts: ElectrodeOptions, rods: number): THREE.Group {
+  const g = new THREE.Group();
+  const n = rods / 2;
+  g.name = `${rods}-rod multipole`;
+  const r0 = (stage.r0 ?? 2e-3) * MM;
+  const z0 = stage.zStart * MM, z1 = stage.zEnd * MM;
+  const plus = material(ELECTRODE_COLORS.rodPositive, 'rod +(U + V cos Ωt)');
+  const minus = material(ELECTRODE_COLORS.rodNegative, 'rod −(U + V cos Ωt)');
+  const R = r0 / (n - 1);
+  const rod = new THREE.CylinderGeometry(R, R, z1 - z0, 32, 1, false);
+  rod.rotateX(Math.PI / 2);
+  rod.translate(r0 + R, 0, (z0 + z1) / 2);
+  const outline = rodOutline(rod);
+  for (let k = 0; k < rods; k++) {
+    const az = (k * Math.PI) / n;
+    const open = opts.cutAzimuth !== undefined && angleBetween(az, opts.cutAzimuth) < Math.PI / (2 * n);
+    const m = open ? outline.clone() : new THREE.Mesh(rod, k % 2 === 0 ? plus : minus);
+    m.rotation.z = az;
+    m.name = `rod ${k} ${k % 2 === 0 ? '+' : '−'}${open ? ' (outline)' : ''}`;
+    g.add(m);
+  }
+  return g;
+}
+
 function angleBetween(a: number, b: number): number {
   const d = Math.abs(((a - b) % (2 * Math.PI) + 3 * Math.PI) % (2 * Math.PI) - Math.PI);
   return d;
@@ -298,7 +327,7 @@ export function buildElectrodes(stages: readonly PlacedStage[], opts: ElectrodeO
   const tubeR = defaultTubeRadius(stages);
   stages.forEach((s, i) => {
     const z0 = s.zStart * MM, z1 = s.zEnd * MM;
-    for (const part of outlineOf(s)) root.add(SHAPES[part.shape](s, opts, i, z0, z1, tubeR));
+    for (const part of outlineOf(s)) root.add(SHAPES[part.shape](s, opts, i, z0, z1, tubeR, part));
   });
   return root;
 }
@@ -308,11 +337,11 @@ function outlineOf(s: PlacedStage): OutlinePart[] {
   return kindNamed(s.type)?.outline(s as unknown as Record<string, unknown>) ?? [];
 }
 
-type ShapeBuilder = (s: PlacedStage, opts: ElectrodeOptions, i: number, z0: number, z1: number, tubeR: number) => THREE.Object3D;
+type ShapeBuilder = (s: PlacedStage, opts: ElectrodeOptions, i: number, z0: number, z1: number, tubeR: number, part: OutlinePart) => THREE.Object3D;
 
 /** One builder per electrode shape of sim/stages/outline.ts. */
 const SHAPES: Record<OutlinePart['shape'], ShapeBuilder> = {
-  'rod-set': (s, opts) => quadrupole(s, opts),
+  'rod-set': (s, opts, _i, _z0, _z1, _t, part) => (part.rods !== undefined && part.rods !== 4 ? multipoleRods(s, opts, part.rods) : quadrupole(s, opts)),
   'hyperbolic-trap': (s, opts) => trap(s, opts),
   tube: (s, _o, i, z0, z1, tubeR) => tubeOutline(s.aperture ? s.aperture * MM : tubeR, z0, z1, ELECTRODE_COLORS.outline, `drift tube ${i}`),
   'ring-stack': (s, _o, i, _z0, _z1, tubeR) => reflectron(s, s.aperture ? s.aperture * MM : tubeR, i),

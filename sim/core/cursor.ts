@@ -8,7 +8,9 @@ export type GasStep = (batch: IonBatch, slot: number, dt: number) => void;
 export type GasFieldStep = (batch: IonBatch, slot: number, dt: number, ex: number, ey: number, ez: number) => void;
 
 /** How an ion left a stage. */
-export const Exit = { forward: 1, backward: 2, hit: 3, time: 4 } as const;
+// `detected`: the ion reached a detector inside the stage (a linear trap's slotted rod) rather than
+// leaving through a plane.
+export const Exit = { forward: 1, backward: 2, hit: 3, time: 4, detected: 5 } as const;
 export type ExitCode = (typeof Exit)[keyof typeof Exit];
 
 /** The moving ion, loaded into locals by each kernel and stored back on exit. */
@@ -107,6 +109,19 @@ export function observe(c: IonCursor, ctx: StepContext, steps: number): void {
       h.add(c.nextHist, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz);
       c.nextHist++;
     }
+  }
+}
+
+/**
+ * At max_time: sample the history at every grid time up to the cursor's time (the grid's last
+ * point is max_time itself, which the last, shortened step reaches only up to rounding).
+ */
+export function observeHistoryAtEnd(c: IonCursor, ctx: StepContext): void {
+  const h = ctx.hist;
+  if (h === null) return;
+  while (c.nextHist < h.points && h.timeOf(c.nextHist) <= ctx.maxTime) {
+    h.add(c.nextHist, c.m, c.x, c.y, c.z, c.vx, c.vy, c.vz);
+    c.nextHist++;
   }
 }
 

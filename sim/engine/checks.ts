@@ -42,6 +42,12 @@ export function checkIntegrator(scene: Scene): void {
   if (scene.run.integrator === 'dopri5' && (scene.gas || scene.stages.some((s) => s.gas))) {
     throw new SceneError('run.integrator: dopri5 does not combine with buffer gas (collisions need the fixed step); use rk4');
   }
+  if (scene.run.integrator === 'dopri5') {
+    scene.stages.forEach((s, i) => {
+      const why = kindOf(s).adaptiveUnavailable;
+      if (why !== undefined) throw new SceneError(`run.integrator: dopri5 cannot fly stage ${s.sceneIndex ?? i} (${why}); use rk4`);
+    });
+  }
 }
 
 export function checkStartsInside(scene: Scene): void {

@@ -91,6 +91,7 @@ export function trackBatch(scene: Scene, batchIndex: number, start: number, coun
       const code = kind.track(st, c, ctx, run);
       if (code === Exit.hit) { fate = Fate.hit; break; }
       if (code === Exit.time) { fate = Fate.alive; break; }
+      if (code === Exit.detected) { fate = Fate.detected; break; }
       const next = afterLeaving(scene.stages, kinds, s, code === Exit.forward, c.x, c.y, detectorRadius);
       if (next < 0) { fate = fateOf(next); break; }
       s = next;

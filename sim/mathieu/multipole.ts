@@ -37,6 +37,14 @@ export interface MultipoleReport {
 
 export const ETA_LIMIT = 0.3;
 
+/** V*(r) = n² q² V² / (4 m Ω² r0²) · (r/r0)^(2n−2), J (Gerlich 1992), as a function of r. */
+export function multipoleEffectivePotential(poles: number, r0: number, freq: number, rf: number, mz: number, charge = 1): (r: number) => number {
+  const n = poles / 2, z = Math.abs(charge);
+  const q = z * ELEMENTARY_CHARGE, m = mz * z * ATOMIC_MASS_UNIT, w = 2 * Math.PI * freq;
+  const k = (n * n * q * q * rf * rf) / (4 * m * w * w * r0 * r0);
+  return (r) => k * (r / r0) ** (2 * n - 2);
+}
+
 export function multipoleFigures(p: MultipoleInput): MultipoleReport {
   if (!Number.isInteger(p.poles) || p.poles < 4 || p.poles % 2 !== 0) throw new RangeError(`poles must be an even whole number ≥ 4, got ${p.poles}`);
   const n = p.poles / 2;

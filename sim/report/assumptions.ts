@@ -2,6 +2,7 @@
 // report carries. Plain statements of what the engine does (see sim/engine, sim/gas), so a reviewer
 // knows what the numbers do not include.
 
+import { scanTrap } from '../analysis/trap-scan.js';
 import type { Scene } from '../scene/types.js';
 import type { SceneTraits } from './scene-kind.js';
 import { STAGE_KINDS } from '../stages/registry.js';
@@ -40,7 +41,8 @@ export function assumptions(scene: Scene, t: SceneTraits): string[] {
     out.push('Detector: an ideal plane with no dead time, transit-time spread or electronics jitter; arrival-time widths are those of the ions alone.');
   }
   if (t.kind === 'trap-scan') {
-    out.push('Mass scan: linear RF ramp; every ion ejected along z through the far end cap within its aperture is counted at the time it leaves; no detector conversion dynode model.');
+    const ejection = scanTrap(scene)?.scan.ejection ?? 'from the trap';
+    out.push(`Mass scan: linear RF ramp; every ion ejected ${ejection} is counted at the time it leaves; no detector conversion dynode model.`);
   }
   return out;
 }

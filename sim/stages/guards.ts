@@ -4,12 +4,15 @@
 import type { Stage } from './types.js';
 import type { QuadrupoleStage } from './quadrupole/stage.js';
 import type { TrapStage } from './trap/stage.js';
+import type { MultipoleStage } from './multipole/stage.js';
 import { STAGE_ENTRIES } from './registry.js';
 import { quadrupoleKind } from './quadrupole/index.js';
 import { trapKind } from './trap/index.js';
+import { multipoleKind } from './multipole/index.js';
 
 export const isQuadrupole = (s: Stage | undefined): s is QuadrupoleStage => s?.type === quadrupoleKind.type;
 export const isTrap = (s: Stage | undefined): s is TrapStage => s?.type === trapKind.type;
+export const isMultipole = (s: Stage | undefined): s is MultipoleStage => s?.type === multipoleKind.type;
 
 /** Whether a scene-file `type:` value makes a quadrupole filter stage. */
 export const entryMakesQuadrupole = (type: unknown): boolean =>

@@ -45,6 +45,26 @@ export interface KernelSettings {
   stepNoRf: number;
 }
 
+/**
+ * The Mathieu geometry of a stage whose RF amplitude ramps for a mass-selective scan
+ * (sim/analysis/trap-scan.ts): the motion that ejects and its a and q.
+ */
+export interface MassScanGeometry {
+  /** The ejecting coordinate's q in summary keys: 'qz' (3D trap, along z), 'qx' (radial, x rods). */
+  readonly qKey: string;
+  /** Where an ejected ion goes, for the report's assumptions ("along z through the far end cap ..."). */
+  readonly ejection: string;
+  readonly rf: RfDrive;
+  /** Supplementary dipolar AC along the ejecting coordinate, if any. */
+  readonly aux?: { amplitude: number; frequency: number; phase: number };
+  /** Mathieu a of the ejecting coordinate for an ion of this m/z (charge 1). */
+  a(mz: number): number;
+  /** Mathieu q of the ejecting coordinate at RF amplitude `amplitude` (V) for this m/z. */
+  q(amplitude: number, mz: number): number;
+  /** m/z per volt of RF amplitude for ions ejected at q = qEject. */
+  mzPerVolt(qEject: number): number;
+}
+
 export interface StageKind<S extends Stage = Stage> {
   readonly type: S['type'];
   /** Scene-file entries this kind reads (a kind may read several, e.g. reflectron and source). */
@@ -90,6 +110,14 @@ export interface StageKind<S extends Stage = Stage> {
   readonly analyzer?: Analyzer;
   /** Mathieu geometry of an RF stage (sim/mathieu/parameters.ts), without the ion. */
   operatingPoint?(st: S): Omit<OperatingPoint, 'mz' | 'charge'> & { analyzer: Analyzer };
+  /**
+   * The radial effective (pseudo)potential of a stored stage for an ion of this m/z and charge:
+   * V*(r) in J, or undefined when the kind has none (render/plot/kinds/radial.ts draws the
+   * Boltzmann density exp(−V* / kT) from it).
+   */
+  effectivePotential?(st: Readonly<Record<string, unknown>>, mz: number, charge: number): { at(r: number): number; r0: number; label: string } | undefined;
+  /** Mass-scan geometry of the stage when its RF ramps (a trap of either shape), else undefined. */
+  massScan?(st: S): MassScanGeometry | undefined;
   /** One line for figure subtitles, e.g. "quadrupole 150 mm, r0 4.00 mm". */
   describe(st: Readonly<Record<string, unknown>>): string;
   /** Electrode outline for the renderer (scene data: stage-local SI lengths). */
@@ -104,6 +132,11 @@ export interface StageKind<S extends Stage = Stage> {
    * a scene with one, in one line), or undefined when they can.
    */
   readonly trackingUnavailable?: string;
+  /**
+   * Why `integrator: dopri5` cannot fly stages of this kind (the run is refused in one line rather
+   * than quietly stepped with RK4), or undefined when it can.
+   */
+  readonly adaptiveUnavailable?: string;
   /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
   fieldProblem?(st: S): FieldProblem;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */

@@ -14,6 +14,8 @@ export interface OutlinePart {
    * drawn for stages without an aperture).
    */
   reachR0?: number;
+  /** rod-set: number of rods, 2n (default 4; more draws the round rods of a multipole guide). */
+  rods?: number;
 }
 
 /** A point a label's leader line may end at, on one electrode of the stage. */

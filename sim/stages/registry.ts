@@ -10,10 +10,14 @@ import { trapKind } from './trap/index.js';
 import { accelerateKind } from './accelerate/index.js';
 import { driftKind } from './drift/index.js';
 import { electrodesKind } from './electrodes/index.js';
+import { multipoleKind } from './multipole/index.js';
+import { linearTrapKind } from './linear-trap/index.js';
 
 export const STAGE_KINDS: readonly StageKind[] = [
   quadrupoleKind as unknown as StageKind,
   trapKind as unknown as StageKind,
+  multipoleKind as unknown as StageKind,
+  linearTrapKind as unknown as StageKind,
   accelerateKind as unknown as StageKind,
   driftKind as unknown as StageKind,
   electrodesKind as unknown as StageKind,

@@ -43,7 +43,8 @@ describe('every kind renders', () => {
     ['arrival', () => filterRun], ['energy', () => filterRun], ['cooling', () => trapRun],
   ];
   it('lists exactly the kinds tested here', () => {
-    expect(KINDS.map((k) => k.name).sort()).toEqual(cases.map((c) => c[0]).sort());
+    // radial needs a multipole run with gas: its own block below.
+    expect(KINDS.map((k) => k.name).sort()).toEqual([...cases.map((c) => c[0]), 'radial'].sort());
   });
   for (const [kind, dir] of cases) {
     it(`${kind}: requested size, ink inside the plot area, first series colour present`, async () => {
@@ -186,5 +187,25 @@ describe('plot bad input (CLI)', () => {
     expect(await cli([filterRun, '--kind', 'energy', '-o', join(outDir, 'e.png')])).toBe(0);
     expect(readdirSync(outDir)).toEqual(['e.png']);
     expect(existsSync(join(outDir, 'e.png'))).toBe(true);
+  });
+});
+
+describe('radial', () => {
+  // A small CG-8-like octupole run in helium (scenes/cg8-octupole-guide.yaml with 300 ions, 20 µs):
+  // the figure needs a stage with an effective potential and a gas temperature.
+  let guideRun = '';
+  beforeAll(async () => {
+    guideRun = join(root, 'cg8');
+    const { parseScene } = await import('../../sim/scene/load.js');
+    const { runScene } = await import('../../sim/runs/run-scene.js');
+    const text = readFileSync(join(repoRoot(), 'scenes/cg8-octupole-guide.yaml'), 'utf8');
+    await runScene(parseScene(text, 'cg8-octupole-guide.yaml', { set: ['ions.0.count=300', 'run.max_time=20.03125us'] }), { out: guideRun, workers: 1 });
+  });
+  it('draws the annuli in the species colour and the Boltzmann curve; refuses a run without a multipole', async () => {
+    const r = await png(guideRun, 'radial');
+    expect([r.width, r.height]).toEqual([900, 600]);
+    expect(countInk(r, 100, 120, 880, 540)).toBeGreaterThan(500);
+    expect(countColor(r, speciesColors([500])(500), 60, 60, 90, 900, 560)).toBeGreaterThan(20);
+    await expect(png(filterRun, 'radial')).rejects.toThrow(/no stage with an effective potential/);
   });
 });

@@ -42,6 +42,8 @@ describe('electrode labels from the stage kinds', () => {
       trap: { type: 'trap', r0: 0.01, z0: 0.007, length: 0.014, rf: { amplitude: 500 }, dc: 0, aperture: 0.001 },
       accelerate: { type: 'accelerate', role: 'gap', length: 0.01, voltage: 2000, aperture: 0.006 },
       drift: { type: 'drift', length: 0.3, aperture: 0.012 },
+      'linear-trap': { type: 'linear-trap', length: 0.06, r0: 0.004, z0: 0.03, rf: { amplitude: 300 }, dc: 0, endDc: 12, kappa: 0.05, aux: { amplitude: 2, frequency: 3e5 } },
+      multipole: { type: 'multipole', poles: 8, length: 0.12, r0: 0.003, rf: { amplitude: 150 }, dc: 0 },
       electrodes: {
         type: 'electrodes', length: 0.02, rf: { amplitude: 500 },
         problem: { grid: { symmetry: 'axial', spacing: 1e-4 }, electrodes: [{ name: 'tube', potential: { dc: 5, rf: 1, aux: 0 }, shapes: [{ kind: 'tube', innerRadius: 0.005, outerRadius: 0.006, from: 0, to: 0.02 }], holes: [] }] },

@@ -23,7 +23,7 @@ describe('stage registry', () => {
   it('has one kind per resolved type and a kind for every scene-file entry', () => {
     expect(new Set(STAGE_TYPES).size).toBe(STAGE_KINDS.length);
     for (const t of STAGE_TYPES) expect(kindNamed(t)?.type).toBe(t);
-    expect([...STAGE_ENTRIES.keys()].sort()).toEqual(['accelerate', 'drift', 'electrodes', 'quadrupole', 'reflectron', 'source', 'trap']);
+    expect([...STAGE_ENTRIES.keys()].sort()).toEqual(['accelerate', 'drift', 'electrodes', 'linear-trap', 'multipole', 'quadrupole', 'reflectron', 'source', 'trap']);
     expect(kindNamed('hexapole')).toBeUndefined();
   });
   it('resolves every entry through its kind, chaining the stages along z', () => {
@@ -43,10 +43,10 @@ describe('stage registry', () => {
       expect(k.describe(p as unknown as Record<string, unknown>).length).toBeGreaterThan(0);
       expect(k.outline(p as unknown as Record<string, unknown>).length).toBeGreaterThan(0);
     }
-    expect(() => placeStages([{ type: 'hexapole', length: 1 }], 'summary.json')).toThrow(/'hexapole' is not quadrupole\|trap\|accelerate\|drift/);
+    expect(() => placeStages([{ type: 'hexapole', length: 1 }], 'summary.json')).toThrow(/'hexapole' is not quadrupole\|trap\|multipole\|linear-trap\|accelerate\|drift/);
   });
   it('names the unknown entry and the known ones in a one-line error', () => {
     expect(() => parseScene('stages: [ { type: quadrupol, length: 1 mm } ]\nions: [ { mz: 1, count: 1 } ]\n', 's.yaml'))
-      .toThrow(/^s\.yaml:1: stages\.0\.type: expects one of quadrupole, trap, reflectron, source, accelerate, drift, electrodes, got 'quadrupol' \(did you mean 'quadrupole'\?\)$/);
+      .toThrow(/^s\.yaml:1: stages\.0\.type: expects one of quadrupole, trap, multipole, linear-trap, reflectron, source, accelerate, drift, electrodes, got 'quadrupol' \(did you mean 'quadrupole'\?\)$/);
   });
 });

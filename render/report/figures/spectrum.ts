@@ -12,11 +12,19 @@ import { speciesColors } from '../../common/species.js';
 export interface ScanBlock {
   mode?: string;
   ejection_qz?: number;
+  /** A linear trap's radial scan gives ejection_qx instead. */
+  ejection_qx?: number;
   species?: { population: number; mz: number; ejected: number; apparent_mz: number | null; fwhm_mz: number | null; resolution: number | null }[];
   spectrum?: { mz_low: number; bin_width_mz: number; counts: number[] };
 }
 
 const fmt = (v: number, d = 4): string => String(Number(v.toPrecision(d)));
+
+/** "ejection q_z 0.9080" (3D trap, along z) or "ejection q_x 0.9080" (linear trap, radial). */
+function ejectionText(scan: ScanBlock): string {
+  if (scan.ejection_qx !== undefined) return `radial ejection q_x ${scan.ejection_qx.toFixed(4)}`;
+  return `ejection q_z ${scan.ejection_qz !== undefined ? scan.ejection_qz.toFixed(4) : '?'}`;
+}
 
 /** The figure, or null when the scan has no spectrum or no counts. */
 export function spectrumFigure(summary: RunSummary): FigureSpec | null {
@@ -41,7 +49,7 @@ export function spectrumFigure(summary: RunSummary): FigureSpec | null {
   }));
   return {
     title: figureTitle(summary, 'simulated mass spectrum'),
-    subtitle: `${scan!.mode ?? 'scan'} scan, ejection q_z ${scan!.ejection_qz !== undefined ? scan!.ejection_qz.toFixed(4) : '?'}; dashed lines: true m/z of each species; R = m/Δm at FWHM`,
+    subtitle: `${scan!.mode ?? 'scan'} scan, ${ejectionText(scan!)}; dashed lines: true m/z of each species; R = m/Δm at FWHM`,
     legend,
     rows: 1, cols: 1,
     panels: [{

@@ -22,6 +22,12 @@ export function voltLabel(v: number, signed = false): string {
   return signed && x > 0 ? `+${text}` : text;
 }
 
+/**
+ * The stage as stored in the run folder: the renderer's placed stages carry it as `stored` beside
+ * their common fields (render/scene3d/runInput.ts), other callers pass it directly.
+ */
+export const storedStage = (s: Raw): Raw => (typeof s.stored === 'object' && s.stored !== null ? (s.stored as Raw) : s);
+
 /** Number field of a stored stage, or undefined. */
 export const num = (v: unknown): number | undefined => (typeof v === 'number' && Number.isFinite(v) ? v : undefined);
 

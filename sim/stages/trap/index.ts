@@ -11,6 +11,7 @@ import { adaptiveTrap } from './adaptive.js';
 import { trapField } from './field.js';
 import { trackTrap } from './kernel.js';
 import type { TrapStage } from './stage.js';
+import { trapAz, trapMzPerVolt, trapQz } from '../../mathieu/parameters.js';
 
 export const trapKind: StageKind<TrapStage> = {
   type: 'trap',
@@ -50,6 +51,13 @@ export const trapKind: StageKind<TrapStage> = {
   uniformField: false,
   gasPieces: true,
   operatingPoint: (st) => ({ analyzer: 'trap', r0: st.r0, z0: st.z0, freq: st.rf.frequency, rf: st.rf.amplitude, dc: st.dc }),
+  // Mass-selective scans eject along z (sim/analysis/trap-scan.ts).
+  massScan: (st) => (st.rf.ramp === undefined ? undefined : {
+    qKey: 'qz', ejection: 'along z through the far end cap within its aperture', rf: st.rf, ...(st.aux ? { aux: st.aux } : {}),
+    a: (mz) => trapAz(st.r0, st.z0, st.rf.frequency, st.dc, mz),
+    q: (amplitude, mz) => trapQz(st.r0, st.z0, st.rf.frequency, amplitude, mz),
+    mzPerVolt: (qEject) => trapMzPerVolt(st.r0, st.z0, st.rf.frequency, qEject),
+  }),
   describe: (s) => `RF trap r0 ${mm2(s.r0)} mm, z0 ${mm2(s.z0)} mm`,
   outline: () => [{ shape: 'hyperbolic-trap', reachR0: 1 }],
   electrodeLabels(s) {
