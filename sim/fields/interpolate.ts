@@ -9,6 +9,8 @@
 // whose cross derivatives here are the tensor products of the same differences.
 // Each coordinate's interpolation is a 6-tap filter over the nodes i−2..i+3 of its cell; a call
 // allocates nothing (scratch arrays live on the interpolant), which the ion kernels need.
+// Several fields on one grid (the dc, rf and aux sums of a stage) may be stored interleaved, node
+// by node (`components` > 1): the weights depend on the point only, so one evaluation serves all.
 
 import type { SolvedGrid } from './problem.js';
 
@@ -45,12 +47,15 @@ export class GridInterpolant {
   private readonly mirrorY: boolean;
   private readonly mirrorZ: boolean;
   private readonly zPlane: number;
+  /** Fields stored per node (interleaved); evaluate writes 4 numbers per field. */
+  readonly components: number;
 
-  constructor(grid: SolvedGrid, values: ArrayLike<number>) {
+  constructor(grid: SolvedGrid, values: ArrayLike<number>, components = 1) {
     this.grid = grid;
     this.f = values;
+    this.components = components;
     const [n0, n1, n2] = grid.shape;
-    if (values.length !== n0 * n1 * n2) throw new Error(`the grid has ${n0 * n1 * n2} nodes, the values ${values.length}`);
+    if (values.length !== n0 * n1 * n2 * components) throw new Error(`the grid has ${n0 * n1 * n2} nodes × ${components} fields, the values ${values.length}`);
     const h = grid.spacing;
     const m = new Set(grid.mirror);
     const sym = grid.symmetry;
@@ -130,7 +135,8 @@ export class GridInterpolant {
 
   /**
    * φ and ∇φ at a stage-local point (planar: z is ignored; axial: r = hypot(x, y)) into
-   * out[0] = φ, out[1..3] = ∂φ/∂x, ∂φ/∂y, ∂φ/∂z. False (out untouched) outside the grid.
+   * out[0] = φ, out[1..3] = ∂φ/∂x, ∂φ/∂y, ∂φ/∂z (field c of an interleaved set at out[4c..4c+3]).
+   * False (out untouched) outside the grid.
    */
   evaluate(x: number, y: number, z: number, out: Float64Array): boolean {
     const sym = this.grid.symmetry;
@@ -141,14 +147,15 @@ export class GridInterpolant {
     if (sym === 'none' && this.mirrorZ) z = this.foldZ(z, out);
     if (sym === 'none' && this.mirrorZ) sz = out[3];
     if (!this.weights(0, x) || !this.weights(1, y)) return false;
+    const C = this.components;
     if (sym === 'planar') {
-      this.sum2(out);
-      out[1] *= sx; out[2] *= sy; out[3] = 0;
+      if (C === 1) this.sum2(out); else this.sum2n(out);
+      for (let c = 0; c < 4 * C; c += 4) { out[c + 1] *= sx; out[c + 2] *= sy; out[c + 3] = 0; }
       return true;
     }
     if (!this.weights(2, z)) return false;
-    this.sum3(out);
-    out[1] *= sx; out[2] *= sy; out[3] *= sz;
+    if (C === 1) this.sum3(out); else this.sum3n(out);
+    for (let c = 0; c < 4 * C; c += 4) { out[c + 1] *= sx; out[c + 2] *= sy; out[c + 3] *= sz; }
     return true;
   }
 
@@ -167,12 +174,14 @@ export class GridInterpolant {
     let sz = 1;
     if (this.mirrorZ) { z = this.foldZ(z, out); sz = out[3]; }
     if (!this.weights(0, r) || !this.weights(1, z)) return false;
-    this.sum2(out);
-    const dr = out[1];
+    const C = this.components;
+    if (C === 1) this.sum2(out); else this.sum2n(out);
     // ∂φ/∂r vanishes on the axis (even in r), so x/r may be taken as 0 there.
-    const c = r > 0 ? dr / r : 0;
-    const dz = out[2];
-    out[1] = c * x; out[2] = c * y; out[3] = dz * sz;
+    const ir = r > 0 ? 1 / r : 0;
+    for (let o = 0; o < 4 * C; o += 4) {
+      const c = out[o + 1] * ir, dz = out[o + 2];
+      out[o + 1] = c * x; out[o + 2] = c * y; out[o + 3] = dz * sz;
+    }
     return true;
   }
 
@@ -204,5 +213,40 @@ export class GridInterpolant {
       p += v2[k] * pv; g0 += v2[k] * px; g1 += v2[k] * py; g2 += d2[k] * pv;
     }
     out[0] = p; out[1] = g0; out[2] = g1; out[3] = g2;
+  }
+
+  /** sum2 for interleaved fields: out[4c..4c+2] = φ_c, ∂_0 φ_c, ∂_1 φ_c. */
+  private sum2n(out: Float64Array): void {
+    const f = this.f, C = this.components, b0 = this.base[0], b1 = this.base[1];
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
+    for (let c = 0; c < C; c++) {
+      let p = 0, g0 = 0, g1 = 0;
+      for (let j = 0; j < 6; j++) {
+        const row = ((b1 + j) * this.s1 + b0) * C + c;
+        let rv = 0, rd = 0;
+        for (let i = 0; i < 6; i++) { const fi = f[row + i * C]; rv += v0[i] * fi; rd += d0[i] * fi; }
+        p += v1[j] * rv; g0 += v1[j] * rd; g1 += d1[j] * rv;
+      }
+      out[4 * c] = p; out[4 * c + 1] = g0; out[4 * c + 2] = g1;
+    }
+  }
+
+  private sum3n(out: Float64Array): void {
+    const f = this.f, C = this.components, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
+    for (let c = 0; c < C; c++) {
+      let p = 0, g0 = 0, g1 = 0, g2 = 0;
+      for (let k = 0; k < 6; k++) {
+        let pv = 0, px = 0, py = 0;
+        for (let j = 0; j < 6; j++) {
+          const row = ((b2 + k) * this.s2 + (b1 + j) * this.s1 + b0) * C + c;
+          let rv = 0, rd = 0;
+          for (let i = 0; i < 6; i++) { const fi = f[row + i * C]; rv += v0[i] * fi; rd += d0[i] * fi; }
+          pv += v1[j] * rv; px += v1[j] * rd; py += d1[j] * rv;
+        }
+        p += v2[k] * pv; g0 += v2[k] * px; g1 += v2[k] * py; g2 += d2[k] * pv;
+      }
+      out[4 * c] = p; out[4 * c + 1] = g0; out[4 * c + 2] = g1; out[4 * c + 3] = g2;
+    }
   }
 }
