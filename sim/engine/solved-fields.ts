@@ -1,0 +1,81 @@
+// Before ions fly through stages whose field is solved from electrodes: each stage's unit
+// solutions from the field cache (sim/fields/cache.ts), solved now when missing (or refused under
+// --no-solve), handed to the kernels of this thread; worker threads read the same cache entry.
+// Then the boundary rule: where a solved stage meets another stage the DC potentials on the axis
+// must agree, else an ion would jump in potential there; refused with both values.
+
+import { freemem } from 'node:os';
+import type { Scene } from '../scene/types.js';
+import { SceneError } from '../scene/schema.js';
+import { cacheKey, cacheRoot, readCached, writeCached } from '../fields/cache.js';
+import { checkProblem } from '../fields/check.js';
+import { DEFAULT_TOLERANCE, solveField } from '../fields/solve.js';
+import { FieldInputError, type FieldSolution } from '../fields/problem.js';
+import { fieldProblemOf, kindOf, useSolution } from '../stages/registry.js';
+import { stageFields } from './potential.js';
+
+export interface SolvedFieldOptions {
+  /** Refuse a stage whose solution is not in the cache instead of solving it. */
+  noSolve?: boolean;
+  workers?: number;
+  /** Told of each solve (the CLI prints it to stderr). */
+  onSolve?: (stage: number, cached: boolean) => void;
+}
+
+/** Largest disagreement of the axis potentials at a boundary, V: round-off of the solve (1e-10 relative) and the interpolation. */
+function boundaryTolerance(scale: number): number {
+  return Math.max(1e-3, 1e-4 * scale);
+}
+
+export async function prepareSolvedFields(scene: Scene, file: string, opts: SolvedFieldOptions = {}): Promise<void> {
+  const root = cacheRoot();
+  let any = false;
+  for (let i = 0; i < scene.stages.length; i++) {
+    const st = scene.stages[i];
+    const problem = fieldProblemOf(st);
+    if (problem === undefined) continue;
+    any = true;
+    const at = `${file}: stages.${st.sceneIndex ?? i}`;
+    if (scene.run.integrator === 'dopri5') throw new SceneError(`${file}: run.integrator: dopri5 is not available through a solved electrode field (stage ${st.sceneIndex ?? i}); use rk4`);
+    const key = cacheKey(problem, DEFAULT_TOLERANCE);
+    let sol: FieldSolution | undefined = readCached(root, key);
+    opts.onSolve?.(st.sceneIndex ?? i, sol !== undefined);
+    if (sol === undefined) {
+      if (opts.noSolve) throw new SceneError(`${at}: the electrode field of this stage is not solved (no entry ${key.slice(0, 12)} in the field cache ${root}); run without --no-solve, or iontrail field first`);
+      try {
+        checkProblem(problem, { freeMemoryBytes: freemem() });
+        sol = await solveField(problem, { workers: opts.workers, tolerance: DEFAULT_TOLERANCE });
+      } catch (e) {
+        if (e instanceof FieldInputError) throw new SceneError(`${at}.${e.key}: ${e.message}`);
+        throw e;
+      }
+      if (!writeCached(root, key, sol)) throw new SceneError(`${at}: the solved field could not be stored in the field cache ${root} (the worker threads read it there); check that it is writable or set XDG_CACHE_HOME`);
+    }
+    useSolution(st, sol);
+  }
+  if (any) checkBoundaries(scene, file);
+}
+
+/** The DC potential on the axis at each boundary of a solved stage against its neighbour's. */
+function checkBoundaries(scene: Scene, file: string): void {
+  const fields = stageFields(scene);
+  // Absolute axis potential at each stage's entrance: ideal stages carry drops only, so the chain
+  // starts at the first stage (a solved first stage sets it from its own electrodes).
+  const solved = scene.stages.map((st) => fieldProblemOf(st) !== undefined);
+  // A solved stage's potential is absolute (grounded box): its dc terms on the axis at the entrance.
+  const entrance = (i: number) => fields[i].terms.reduce((p, t) => p + (t.name === 'dc' ? t.drive(0) * t.unitPotential(0, 0, 0) : 0), 0);
+  let phi = solved[0] ? entrance(0) : 0;
+  for (let i = 0; i < scene.stages.length; i++) {
+    const st = scene.stages[i];
+    if (solved[i]) {
+      const here = entrance(i);
+      const scale = Math.max(...(fieldProblemOf(st)?.electrodes.map((e) => Math.abs(e.potential.dc)) ?? [0]), Math.abs(phi));
+      if (i > 0 && Math.abs(here - phi) > boundaryTolerance(scale)) {
+        const prev = scene.stages[i - 1];
+        throw new SceneError(`${file}: stages.${st.sceneIndex ?? i}: the potential on the axis at this stage's entrance (z = ${(st.zStart * 1e3).toPrecision(5)} mm) is ${here.toPrecision(6)} V from its electrodes but ${phi.toPrecision(6)} V where the stage before it (${kindOf(prev).describe(prev as unknown as Record<string, unknown>)}) ends: an ion would jump in potential; make the two agree (electrode dc volts, or an accelerate stage between)`);
+      }
+      phi = here;
+    }
+    phi += fields[i].drop;
+  }
+}
