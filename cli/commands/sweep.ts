@@ -9,6 +9,7 @@ import type { Scene } from '../../sim/scene/types.js';
 import { fieldProblemOf } from '../../sim/stages/registry.js';
 import { cacheKey } from '../../sim/fields/cache.js';
 import { DEFAULT_TOLERANCE } from '../../sim/fields/solve.js';
+import { solvedFieldWarnings } from '../../sim/engine/solved-fields.js';
 import { parseScene } from '../../sim/scene/load.js';
 import { noSolveHelp, prepareTracking, refuseUntracked } from '../tracking.js';
 import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
@@ -92,6 +93,8 @@ export async function run(argv: string[]): Promise<number> {
     throw new SceneError(`${file}: cannot read the scene file (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
   }
   refuseUntracked(file, parseScene(text, file, { set: a.values.get('set') ?? [] }).stages);
+  // Solved fields first: the plan's checks (sceneWarnings) read them.
+  await prepareTracking(file, parseScene(text, file, { set: a.values.get('set') ?? [] }), { noSolve: a.switches.has('no-solve'), workers });
   checkSweepFolder(out, force);
   const tty = process.stderr.isTTY === true;
   let last = 0;
@@ -192,6 +195,7 @@ async function runShard(plan: SweepPlan, spec: ShardSpec, out: string, force: bo
  */
 async function prepareSweepFields(file: string, plan: ReturnType<typeof planSweep>, opts: { noSolve: boolean; workers?: number }): Promise<void> {
   await prepareTracking(file, plan.base, opts);
+  for (const w of solvedFieldWarnings(plan.base)) if (!plan.warnings.includes(w)) plan.warnings.push(w);
   const seen = new Set<string>([geometryOf(plan.base)]);
   for (const t of plan.tasks) {
     const scene = plan.scenes.scene(plan.axes, t.idx, t.extra);

@@ -13,12 +13,23 @@ import { DEFAULT_TOLERANCE, solveField } from '../fields/solve.js';
 import { FieldInputError, type FieldSolution } from '../fields/problem.js';
 import { fieldProblemOf, kindOf, useSolution } from '../stages/registry.js';
 import { stageFields } from './potential.js';
+import { allocateBatch } from '../core/batch.js';
+import { ELECTRONVOLT, ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
+import { populationOffsets, stageAt, startIon } from './start.js';
+
+/** Warnings found while preparing a scene's solved fields (sceneWarnings adds them). */
+const prepared = new WeakMap<Scene, string[]>();
+
+/** The warnings prepareSolvedFields found for this scene object. */
+export function solvedFieldWarnings(scene: Scene): string[] {
+  return prepared.get(scene) ?? [];
+}
 
 export interface SolvedFieldOptions {
   /** Refuse a stage whose solution is not in the cache instead of solving it. */
   noSolve?: boolean;
   workers?: number;
-  /** Told of each solve (the CLI prints it to stderr). */
+  /** Told of each stage about to be solved (the CLI prints it to stderr). */
   onSolve?: (stage: number, cached: boolean) => void;
 }
 
@@ -39,9 +50,9 @@ export async function prepareSolvedFields(scene: Scene, file: string, opts: Solv
     if (scene.run.integrator === 'dopri5') throw new SceneError(`${file}: run.integrator: dopri5 is not available through a solved electrode field (stage ${st.sceneIndex ?? i}); use rk4`);
     const key = cacheKey(problem, DEFAULT_TOLERANCE);
     let sol: FieldSolution | undefined = readCached(root, key);
-    opts.onSolve?.(st.sceneIndex ?? i, sol !== undefined);
     if (sol === undefined) {
       if (opts.noSolve) throw new SceneError(`${at}: the electrode field of this stage is not solved (no entry ${key.slice(0, 12)} in the field cache ${root}); run without --no-solve, or iontrail field first`);
+      opts.onSolve?.(st.sceneIndex ?? i, false);
       try {
         checkProblem(problem, { freeMemoryBytes: freemem() });
         sol = await solveField(problem, { workers: opts.workers, tolerance: DEFAULT_TOLERANCE });
@@ -53,7 +64,58 @@ export async function prepareSolvedFields(scene: Scene, file: string, opts: Solv
     }
     useSolution(st, sol);
   }
-  if (any) checkBoundaries(scene, file);
+  if (!any) return;
+  checkBoundaries(scene, file);
+  prepared.set(scene, [...startsInside(scene), ...coarseSteps(scene)]);
+}
+
+/**
+ * Ions whose start lies inside an electrode of a solved stage: they are counted lost (hit at
+ * t = 0, the kernel's first test); one warning per stage with the count. The starts are drawn by
+ * the engine's own start (the same counter-based streams), so the count is the run's.
+ */
+function startsInside(scene: Scene): string[] {
+  const fields = stageFields(scene);
+  const solved = scene.stages.map((st) => fieldProblemOf(st) !== undefined);
+  const offsets = populationOffsets(scene);
+  const total = offsets[offsets.length - 1];
+  const counts = new Map<number, number>();
+  const b = allocateBatch(1);
+  let pop = 0;
+  for (let ion = 0; ion < total; ion++) {
+    while (ion >= offsets[pop + 1]) pop++;
+    startIon(scene, b, 0, ion, pop, scene.ions[pop]);
+    const s = stageAt(scene, b.z[0]);
+    if (s < 0 || !solved[s]) continue;
+    const f = fields[s];
+    if (f.outside(b.x[0], b.y[0], b.z[0] - f.zRef)) counts.set(s, (counts.get(s) ?? 0) + 1);
+  }
+  return [...counts].map(([s, n]) => `stages.${scene.stages[s].sceneIndex ?? s}: ${n} of ${total} ions start inside an electrode or beyond the grid of this stage; they are counted as hit at t = 0`);
+}
+
+/**
+ * A fixed step that carries an ion across more than one grid cell: the fastest ion the scene can
+ * make (its start energy, mean + 3 spreads, plus the largest electrode volts it can fall through)
+ * against the spacing. The interpolated field then changes more within a step than RK4 follows.
+ */
+function coarseSteps(scene: Scene): string[] {
+  const w: string[] = [];
+  scene.stages.forEach((st, i) => {
+    const p = fieldProblemOf(st);
+    if (p === undefined) return;
+    const rf = kindOf(st).rf(st);
+    const h = rf ? 1 / rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
+    const rfMax = rf ? Math.max(rf.amplitude, rf.ramp?.to ?? 0) : 0;
+    const vMax = Math.max(0, ...p.electrodes.map((e) => Math.abs(e.potential.dc) + Math.abs(e.potential.rf) * rfMax));
+    let fastest = 0;
+    for (const pop of scene.ions) {
+      const ke = (pop.energy + 3 * pop.energySpread) * ELECTRONVOLT + Math.abs(pop.charge) * ELEMENTARY_CHARGE * vMax;
+      fastest = Math.max(fastest, Math.sqrt((2 * ke) / ionMassKg(pop.mz, pop.charge)));
+    }
+    const cells = (fastest * h) / p.grid.spacing;
+    if (cells > 1) w.push(`stages.${st.sceneIndex ?? i}: the step (${Number((h * 1e9).toPrecision(3))} ns) may carry the fastest ion (${Number((fastest / 1e3).toPrecision(3))} km/s) across ${Number(cells.toPrecision(3))} grid cells of ${Number((p.grid.spacing * 1e3).toPrecision(3))} mm; the interpolated field changes within a step: use a smaller run.step_without_rf or more run.steps_per_cycle`);
+  });
+  return w;
 }
 
 /** The DC potential on the axis at each boundary of a solved stage against its neighbour's. */

@@ -37,22 +37,22 @@ export function extendIntoElectrodes(grid: SolvedGrid, values: ArrayLike<number>
     for (let k = 0; k < n2; k++) for (let j = 0; j < n1; j++) for (let i = 0; i < n0; i++) {
       const n = i + n0 * (j + n1 * k);
       if (known[n] !== 0) continue;
-      const idx = [i, j, k];
       let sum = 0, count = 0;
       for (let a = 0; a < axes; a++) {
-        for (const dir of [-1, 1]) {
+        const at = a === 0 ? i : a === 1 ? j : k, sa = strides[a], na = dims[a];
+        for (let dir = -1; dir <= 1; dir += 2) {
           // Known nodes in a row from this one (at most three).
-          let m = 0;
-          const f = [0, 0, 0];
+          let m = 0, f0 = 0, f1 = 0, f2 = 0;
           for (let s = 1; s <= 3; s++) {
-            const c = idx[a] + dir * s;
-            if (c < 0 || c >= dims[a]) break;
-            const q = n + dir * s * strides[a];
+            const c = at + dir * s;
+            if (c < 0 || c >= na) break;
+            const q = n + dir * s * sa;
             if (known[q] === 0) break;
-            f[m++] = out[q];
+            if (s === 1) f0 = out[q]; else if (s === 2) f1 = out[q]; else f2 = out[q];
+            m++;
           }
-          if (m >= 3) { sum += 3 * f[0] - 3 * f[1] + f[2]; count++; }
-          else if (m === 2) { sum += 2 * f[0] - f[1]; count++; }
+          if (m >= 3) { sum += 3 * f0 - 3 * f1 + f2; count++; }
+          else if (m === 2) { sum += 2 * f0 - f1; count++; }
         }
       }
       if (count > 0) { fill.push(n); vals.push(sum / count); }
