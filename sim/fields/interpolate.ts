@@ -31,7 +31,7 @@ interface Axis {
 
 export class GridInterpolant {
   readonly grid: SolvedGrid;
-  private readonly f: ArrayLike<number>;
+  private readonly f: Float64Array;
   private readonly axes: Axis[];
   private readonly s0: number;
   private readonly s1: number;
@@ -52,7 +52,8 @@ export class GridInterpolant {
 
   constructor(grid: SolvedGrid, values: ArrayLike<number>, components = 1) {
     this.grid = grid;
-    this.f = values;
+    this.f = values instanceof Float64Array ? values : Float64Array.from(values);
+    if (!(components >= 1 && components <= 3)) throw new Error(`1 to 3 interleaved fields, got ${components}`);
     this.components = components;
     const [n0, n1, n2] = grid.shape;
     if (values.length !== n0 * n1 * n2 * components) throw new Error(`the grid has ${n0 * n1 * n2} nodes × ${components} fields, the values ${values.length}`);
@@ -215,38 +216,63 @@ export class GridInterpolant {
     out[0] = p; out[1] = g0; out[2] = g1; out[3] = g2;
   }
 
-  /** sum2 for interleaved fields: out[4c..4c+2] = φ_c, ∂_0 φ_c, ∂_1 φ_c. */
+  /**
+   * sum2 for two or three interleaved fields, in one pass over the window: each node's values are
+   * read together and accumulated in locals (a loop per field read the window once per field and
+   * kept nothing in registers). out[4c..4c+2] = φ_c, ∂_0 φ_c, ∂_1 φ_c.
+   */
   private sum2n(out: Float64Array): void {
-    const f = this.f, C = this.components, b0 = this.base[0], b1 = this.base[1];
+    const f = this.f, C = this.components, three = C === 3, b0 = this.base[0], b1 = this.base[1], s1 = this.s1;
     const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
-    for (let c = 0; c < C; c++) {
-      let p = 0, g0 = 0, g1 = 0;
-      for (let j = 0; j < 6; j++) {
-        const row = ((b1 + j) * this.s1 + b0) * C + c;
-        let rv = 0, rd = 0;
-        for (let i = 0; i < 6; i++) { const fi = f[row + i * C]; rv += v0[i] * fi; rd += d0[i] * fi; }
-        p += v1[j] * rv; g0 += v1[j] * rd; g1 += d1[j] * rv;
+    let p0 = 0, x0 = 0, y0 = 0, p1 = 0, x1 = 0, y1 = 0, p2 = 0, x2 = 0, y2 = 0;
+    for (let j = 0; j < 6; j++) {
+      let q = ((b1 + j) * s1 + b0) * C;
+      let a0 = 0, e0 = 0, a1 = 0, e1 = 0, a2 = 0, e2 = 0;
+      for (let i = 0; i < 6; i++, q += C) {
+        const wv = v0[i], wd = d0[i];
+        const g0 = f[q], g1 = f[q + 1];
+        a0 += wv * g0; e0 += wd * g0; a1 += wv * g1; e1 += wd * g1;
+        if (three) { const g2 = f[q + 2]; a2 += wv * g2; e2 += wd * g2; }
       }
-      out[4 * c] = p; out[4 * c + 1] = g0; out[4 * c + 2] = g1;
+      const wv = v1[j], wd = d1[j];
+      p0 += wv * a0; x0 += wv * e0; y0 += wd * a0;
+      p1 += wv * a1; x1 += wv * e1; y1 += wd * a1;
+      p2 += wv * a2; x2 += wv * e2; y2 += wd * a2;
     }
+    out[0] = p0; out[1] = x0; out[2] = y0;
+    out[4] = p1; out[5] = x1; out[6] = y1;
+    if (three) { out[8] = p2; out[9] = x2; out[10] = y2; }
   }
 
+  /** sum3 for two or three interleaved fields, one pass (as sum2n). */
   private sum3n(out: Float64Array): void {
-    const f = this.f, C = this.components, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const f = this.f, C = this.components, three = C === 3, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const s1 = this.s1, s2 = this.s2;
     const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
-    for (let c = 0; c < C; c++) {
-      let p = 0, g0 = 0, g1 = 0, g2 = 0;
-      for (let k = 0; k < 6; k++) {
-        let pv = 0, px = 0, py = 0;
-        for (let j = 0; j < 6; j++) {
-          const row = ((b2 + k) * this.s2 + (b1 + j) * this.s1 + b0) * C + c;
-          let rv = 0, rd = 0;
-          for (let i = 0; i < 6; i++) { const fi = f[row + i * C]; rv += v0[i] * fi; rd += d0[i] * fi; }
-          pv += v1[j] * rv; px += v1[j] * rd; py += d1[j] * rv;
+    let p0 = 0, x0 = 0, y0 = 0, z0 = 0, p1 = 0, x1 = 0, y1 = 0, z1 = 0, p2 = 0, x2 = 0, y2 = 0, z2 = 0;
+    for (let k = 0; k < 6; k++) {
+      let pv0 = 0, px0 = 0, py0 = 0, pv1 = 0, px1 = 0, py1 = 0, pv2 = 0, px2 = 0, py2 = 0;
+      for (let j = 0; j < 6; j++) {
+        let q = ((b2 + k) * s2 + (b1 + j) * s1 + b0) * C;
+        let a0 = 0, e0 = 0, a1 = 0, e1 = 0, a2 = 0, e2 = 0;
+        for (let i = 0; i < 6; i++, q += C) {
+          const wv = v0[i], wd = d0[i];
+          const g0 = f[q], g1 = f[q + 1];
+          a0 += wv * g0; e0 += wd * g0; a1 += wv * g1; e1 += wd * g1;
+          if (three) { const g2 = f[q + 2]; a2 += wv * g2; e2 += wd * g2; }
         }
-        p += v2[k] * pv; g0 += v2[k] * px; g1 += v2[k] * py; g2 += d2[k] * pv;
+        const wv = v1[j], wd = d1[j];
+        pv0 += wv * a0; px0 += wv * e0; py0 += wd * a0;
+        pv1 += wv * a1; px1 += wv * e1; py1 += wd * a1;
+        pv2 += wv * a2; px2 += wv * e2; py2 += wd * a2;
       }
-      out[4 * c] = p; out[4 * c + 1] = g0; out[4 * c + 2] = g1; out[4 * c + 3] = g2;
+      const wv = v2[k], wd = d2[k];
+      p0 += wv * pv0; x0 += wv * px0; y0 += wv * py0; z0 += wd * pv0;
+      p1 += wv * pv1; x1 += wv * px1; y1 += wv * py1; z1 += wd * pv1;
+      p2 += wv * pv2; x2 += wv * px2; y2 += wv * py2; z2 += wd * pv2;
     }
+    out[0] = p0; out[1] = x0; out[2] = y0; out[3] = z0;
+    out[4] = p1; out[5] = x1; out[6] = y1; out[7] = z1;
+    if (three) { out[8] = p2; out[9] = x2; out[10] = y2; out[11] = z2; }
   }
 }
