@@ -22,7 +22,7 @@ export function electrodesField(st: ElectrodesStage): FieldModel {
   const comp = (which: 'dc' | 'rf' | 'aux', x: number, y: number, z: number, out?: Float64Array): number => {
     const f = F();
     const o = which === 'dc' ? 0 : which === 'rf' ? f.oRf : f.oAux;
-    if (o < 0 || !f.interp.evaluate(x, y, z, buf)) { if (out) out.fill(0, 0, 3); return o < 0 ? 0 : NaN; }
+    if (o < 0 || !f.evaluate(x, y, z, buf)) { if (out) out.fill(0, 0, 3); return o < 0 ? 0 : NaN; }
     if (out) { out[0] = -buf[o + 1]; out[1] = -buf[o + 2]; out[2] = -buf[o + 3]; }
     return buf[o];
   };
@@ -52,7 +52,7 @@ export function electrodesField(st: ElectrodesStage): FieldModel {
     },
     outside(x, y, z) {
       const f = F();
-      return !f.interp.evaluate(x, y, z, buf) || f.electrodeAt(x, y, z) >= 0;
+      return !f.evaluate(x, y, z, buf) || f.electrodeAt(x, y, z) >= 0;
     },
   };
 }

@@ -11,7 +11,7 @@ import { labelAnchor } from './labels.js';
 import type { ElectrodesStage } from './stage.js';
 import { electrodesField } from './field.js';
 import { trackElectrodes } from './kernel.js';
-import { registerSolution, solutionKeys } from './solution.js';
+import { registerSolution, SERIES_ORDERS, solutionKeys } from './solution.js';
 
 type Raw = Readonly<Record<string, unknown>>;
 const problemOf = (s: Raw | undefined) => (s?.problem ?? {}) as { grid?: Raw; electrodes?: readonly Raw[] };
@@ -22,6 +22,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     electrodes: {
       fields: {
         length: LENGTH_FIELD, grid: GRID_FIELD, rf: RF_FIELD, electrodes: { kind: 'list', item: ELECTRODE_FIELD, minItems: 1 },
+        flight: { kind: 'enum', values: ['grid', 'multipole'] },
         aux: {
           kind: 'object',
           fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
@@ -34,6 +35,10 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
         const problem = resolveProblem(s, fail);
         const st: ElectrodesStage = { type: 'electrodes', length: s.length, problem, zStart: at.z, zEnd: at.z + s.length };
         if (s.rf) st.rf = resolveRf(s.rf);
+        if (s.flight === 'multipole') {
+          if (problem.grid.symmetry !== 'planar') fail(['flight'], `multipole flies a rod set of constant cross-section: it needs a planar grid, not symmetry ${problem.grid.symmetry} (use flight: grid)`);
+          st.path = 'multipole';
+        }
         if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
         problem.electrodes.forEach((e, i) => {
           if (e.potential.rf !== 0 && !st.rf) fail(['electrodes', i, 'potential', 'rf'], 'drives this electrode with the stage RF, but the stage has no rf block (rf: { amplitude: 830 V, frequency: 1.2 MHz })');
@@ -50,8 +55,12 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   track: (st, c, ctx, run) => trackElectrodes(st, c, ctx, run.stepsPerCycle, run.stepNoRf),
   fieldProblem: (st) => st.problem,
   useSolution(st, sol) {
-    registerSolution(st.problem, sol);
-    st.flight = { path: 'interpolated grid', cache_key: solutionKeys(st.problem).geometry, nodes: sol.grid.shape[0] * sol.grid.shape[1] * sol.grid.shape[2] };
+    const path = st.path ?? 'grid';
+    registerSolution(st.problem, sol, path);
+    const nodes = sol.grid.shape[0] * sol.grid.shape[1] * sol.grid.shape[2], key = solutionKeys(st.problem).geometry;
+    st.flight = path === 'multipole'
+      ? { path: 'multipole series', cache_key: key, nodes, orders: SERIES_ORDERS, reference_radius_m: st.problem.grid.referenceRadius }
+      : { path: 'interpolated grid', cache_key: key, nodes };
   },
   exitFate: () => undefined,
   exitAperture: () => undefined,

@@ -30,7 +30,7 @@ function accel(F: SolvedField, qm: number, x: number, y: number, z: number, cr: 
   const o = F.out;
   // An RK4 stage point just past an end plane takes the field of the plane (the ion leaves there).
   if (z > F.zMax) z = F.zMax; else if (z < 0) z = 0;
-  if (!F.interp.evaluate(x, y, z, o)) return false;
+  if (!F.evaluate(x, y, z, o)) return false;
   let gx = o[1], gy = o[2], gz = o[3];
   const r = F.oRf, a = F.oAux;
   if (r > 0) { gx += cr * o[r + 1]; gy += cr * o[r + 2]; gz += cr * o[r + 3]; }

@@ -5,6 +5,12 @@
 // set of weights per point serves all three (superposition of Laplace solutions). With it: the
 // electrodes as point sets for the hit test, and a per-node mask of where that test is needed.
 //
+// A planar rod set of constant cross-section may fly in its fitted multipole series instead
+// (`flight: multipole`): each sum as Φ = Re Σ_n (c_n − i s_n) w^n, w = (x + iy)/r_ref, the
+// coefficients of sim/fields/multipoles.ts, whose gradient ∂Φ/∂x − i ∂Φ/∂y = f'(w)/r_ref is exact
+// (Φ is the real part of a holomorphic f: Cauchy–Riemann), evaluated with f' by Horner's rule
+// (Knuth, TAOCP vol. 2, §4.6.4). No grid lookup; valid inside the circle the electrodes leave free.
+//
 // Solutions come from the field cache (sim/fields/cache.ts) by the geometry's key: the run's
 // preparation (sim/engine/solved-fields.ts) solves or reads them in the main thread and registers
 // them here; a worker thread, which has only the resolved scene, reads the same cache entry once.
@@ -14,11 +20,15 @@ import { DEFAULT_TOLERANCE } from '../../fields/solve.js';
 import { ElectrodeSet } from '../../fields/electrode.js';
 import { extendIntoElectrodes } from '../../fields/extrapolate.js';
 import { GridInterpolant } from '../../fields/interpolate.js';
+import { fitMultipoles } from '../../fields/multipoles.js';
 import type { FieldProblem, FieldSolution, SolvedGrid } from '../../fields/problem.js';
 import type { ElectrodesStage } from './stage.js';
 
 /** Solver tolerance of the solutions flown through (the default of `iontrail field`, so the cache is shared). */
 export const FLIGHT_TOLERANCE = DEFAULT_TOLERANCE;
+
+/** Orders of the multipole series a rod set flies in (`flight: multipole`). */
+export const SERIES_ORDERS = 20;
 
 /** Chebyshev distance in nodes within which a node counts as near an electrode (the hit test runs there). */
 const NEAR = 2;
@@ -43,7 +53,12 @@ export class SolvedField {
   /** The stage's exit plane, stage-local z, m (planar grids: any z, the field does not depend on it). */
   readonly zMax: number;
 
-  constructor(problem: FieldProblem, sol: FieldSolution) {
+  /** Multipole path: per field and order n, Re and Im of c_n − i s_n (else empty); 1/r_ref. */
+  readonly series: Float64Array;
+  readonly invRef: number;
+  readonly components: number;
+
+  constructor(problem: FieldProblem, sol: FieldSolution, path: 'grid' | 'multipole' = 'grid') {
     this.problem = problem;
     this.grid = sol.grid;
     const g = sol.grid;
@@ -64,12 +79,51 @@ export class SolvedField {
       }
     });
     this.interp = new GridInterpolant(g, v, C);
+    this.components = C;
+    this.series = new Float64Array(path === 'multipole' ? 2 * C * (SERIES_ORDERS + 1) : 0);
+    this.invRef = 0;
+    if (path === 'multipole') {
+      const rRef = problem.grid.referenceRadius!;
+      this.invRef = 1 / rRef;
+      const sums: ('dc' | 'rf' | 'aux')[] = ['dc', ...(hasRf ? ['rf' as const] : []), ...(hasAux ? ['aux' as const] : [])];
+      sums.forEach((which, c) => {
+        const p = { ...problem, electrodes: problem.electrodes.map((e) => ({ ...e, potential: { dc: e.potential[which], rf: 0, aux: 0 } })) };
+        for (const t of fitMultipoles(sol, p, { nMax: SERIES_ORDERS, referenceRadius: rRef })) {
+          const o = 2 * (c * (SERIES_ORDERS + 1) + t.n);
+          this.series[o] = t.cos_v; this.series[o + 1] = -t.sin_v;
+        }
+      });
+    }
     this.electrodes = problem.electrodes.map((e) => new ElectrodeSet(e, g.symmetry));
     this.near = nearMask(g, sol.inside);
     this.axial = g.symmetry === 'axial';
     this.planar = g.symmetry === 'planar';
     this.reach = (this.axial ? problem.grid.radius : problem.grid.halfWidth) ?? 0;
     this.zMax = this.planar ? Infinity : problem.grid.length;
+  }
+
+  /**
+   * Every sum's φ and ∇φ at a stage-local point into out (the layout of GridInterpolant.evaluate);
+   * false outside the grid sideways. The multipole path sums its series instead of the grid.
+   */
+  evaluate(x: number, y: number, z: number, out: Float64Array): boolean {
+    if (this.series.length === 0) return this.interp.evaluate(x, y, z, out);
+    if (!(Math.abs(x) <= this.reach && Math.abs(y) <= this.reach)) return false;
+    const s = this.series, N = SERIES_ORDERS, k = this.invRef;
+    const wr = x * k, wi = y * k;
+    for (let c = 0; c < this.components; c++) {
+      const b = 2 * c * (N + 1);
+      // Horner for f(w) = Σ a_n wⁿ and f'(w).
+      let fr = s[b + 2 * N], fi = s[b + 2 * N + 1], dr = 0, di = 0;
+      for (let n = N - 1; n >= 0; n--) {
+        const tr = dr * wr - di * wi + fr, ti = dr * wi + di * wr + fi;
+        dr = tr; di = ti;
+        const ur = fr * wr - fi * wi + s[b + 2 * n], ui = fr * wi + fi * wr + s[b + 2 * n + 1];
+        fr = ur; fi = ui;
+      }
+      out[4 * c] = fr; out[4 * c + 1] = dr * k; out[4 * c + 2] = -di * k; out[4 * c + 3] = 0;
+    }
+    return true;
   }
 
   /** Index of the electrode containing a stage-local point (grid coordinates for its shapes), or −1. */
@@ -128,24 +182,18 @@ const byStage = new WeakMap<object, SolvedField>();
 const byKey = new Map<string, SolvedField>();
 
 /** The cache key of a stage's geometry, and the key of its prepared sums (geometry and volts). */
-export function solutionKeys(problem: FieldProblem): { geometry: string; prepared: string } {
+export function solutionKeys(problem: FieldProblem, path: 'grid' | 'multipole' = 'grid'): { geometry: string; prepared: string } {
   const geometry = cacheKey(problem, FLIGHT_TOLERANCE);
   const volts = problem.electrodes.map((e) => [e.potential.dc, e.potential.rf, e.potential.aux]);
-  return { geometry, prepared: `${geometry}:${JSON.stringify(volts)}` };
+  return { geometry, prepared: `${geometry}:${path}:${JSON.stringify(volts)}` };
 }
 
 /** Make a solved stage known to this thread (the run's preparation calls it after solving). */
-export function registerSolution(problem: FieldProblem, sol: FieldSolution): SolvedField {
-  const { prepared } = solutionKeys(problem);
+export function registerSolution(problem: FieldProblem, sol: FieldSolution, path: 'grid' | 'multipole' = 'grid'): SolvedField {
+  const { prepared } = solutionKeys(problem, path);
   let f = byKey.get(prepared);
-  if (f === undefined) { f = new SolvedField(problem, sol); byKey.set(prepared, f); }
+  if (f === undefined) { f = new SolvedField(problem, sol, path); byKey.set(prepared, f); }
   return f;
-}
-
-/** Whether the geometry of a problem is in the field cache (or known to this thread). */
-export function solutionKnown(problem: FieldProblem, root = cacheRoot()): boolean {
-  const { geometry, prepared } = solutionKeys(problem);
-  return byKey.has(prepared) || readCached(root, geometry) !== undefined;
 }
 
 /**
@@ -155,13 +203,14 @@ export function solutionKnown(problem: FieldProblem, root = cacheRoot()): boolea
 export function solvedFieldOf(st: ElectrodesStage): SolvedField {
   const f = byStage.get(st);
   if (f !== undefined) return f;
-  const { geometry, prepared } = solutionKeys(st.problem);
+  const path = st.path ?? 'grid';
+  const { geometry, prepared } = solutionKeys(st.problem, path);
   let g = byKey.get(prepared);
   if (g === undefined) {
     const root = cacheRoot();
     const sol = readCached(root, geometry);
     if (sol === undefined) throw new Error(`the field of the electrodes stage at z = ${(st.zStart * 1e3).toPrecision(4)} mm is not solved (no entry ${geometry.slice(0, 12)} in the field cache ${root}); solve it first`);
-    g = registerSolution(st.problem, sol);
+    g = registerSolution(st.problem, sol, path);
   }
   byStage.set(st, g);
   return g;
