@@ -95,21 +95,28 @@ function startsInside(scene: Scene): string[] {
 
 /**
  * A fixed step that carries an ion across more than one grid cell: the fastest ion the scene can
- * make (its start energy, mean + 3 spreads, plus the largest electrode volts it can fall through)
- * against the spacing. The interpolated field then changes more within a step than RK4 follows.
+ * make (its start energy, mean + 3 spreads, plus what it gains falling along the stage's axis in
+ * the dc field, sampled at 200 points; bounded RF motion adds little for a stable ion) against the
+ * spacing. The interpolated field then changes more within a step than RK4 follows. The multipole
+ * path reads no grid, so it is not checked.
  */
 function coarseSteps(scene: Scene): string[] {
   const w: string[] = [];
+  const fields = stageFields(scene);
   scene.stages.forEach((st, i) => {
     const p = fieldProblemOf(st);
-    if (p === undefined) return;
+    if (p === undefined || (st as { path?: string }).path === 'multipole') return;
     const rf = kindOf(st).rf(st);
     const h = rf ? 1 / rf.frequency / scene.run.stepsPerCycle : scene.run.stepNoRf;
-    const rfMax = rf ? Math.max(rf.amplitude, rf.ramp?.to ?? 0) : 0;
-    const vMax = Math.max(0, ...p.electrodes.map((e) => Math.abs(e.potential.dc) + Math.abs(e.potential.rf) * rfMax));
+    let lo = Infinity, hi = -Infinity;
+    for (let k = 0; k <= 200; k++) {
+      const v = fields[i].dcPotential(0, 0, (k / 200) * (st.zEnd - st.zStart));
+      if (Number.isFinite(v)) { lo = Math.min(lo, v); hi = Math.max(hi, v); }
+    }
+    const gain = hi > lo ? hi - lo : 0;
     let fastest = 0;
     for (const pop of scene.ions) {
-      const ke = (pop.energy + 3 * pop.energySpread) * ELECTRONVOLT + Math.abs(pop.charge) * ELEMENTARY_CHARGE * vMax;
+      const ke = (pop.energy + 3 * pop.energySpread) * ELECTRONVOLT + Math.abs(pop.charge) * ELEMENTARY_CHARGE * gain;
       fastest = Math.max(fastest, Math.sqrt((2 * ke) / ionMassKg(pop.mz, pop.charge)));
     }
     const cells = (fastest * h) / p.grid.spacing;
