@@ -86,5 +86,9 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     });
   },
   plausibility: () => [],
-  assumptions: ['Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.'],
+  assumptions: [
+    'Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.',
+    'Ions fly in the superposition of the unit solutions, interpolated between grid nodes by cubic Hermite polynomials with an exact gradient (or, for flight: multipole, in the fitted multipole series); values inside electrodes near their surface are continued from outside.',
+    'Ions are lost where they enter an electrode shape or reach the grid\'s box edge; no space charge through solved stages.',
+  ],
 };
