@@ -23,6 +23,9 @@ interface Axis {
   n: number;
   origin: number;
   h: number;
+  /** Per cell i (0..n−2): the window's base node, and the derivative stencils of nodes i and i+1 over it (stencil()). */
+  cellBase: Int32Array;
+  cellStencil: Float64Array;
   /** Even symmetry about the low end (a mirror plane there, or the axis r = 0 of an axial grid). */
   reflectLow: boolean;
   /** Even symmetry about the high end (a mirror plane at z = length/2 when the lower half is stored). */
@@ -68,14 +71,30 @@ export class GridInterpolant {
     // Mirror at z: the stored half ends at the plane; the lower half starts at z = 0.
     const lowerHalf = Math.abs(grid.origin[zAxis]) < h / 2;
     this.zPlane = lowerHalf ? grid.origin[zAxis] + (zn - 1) * h : grid.origin[zAxis];
-    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high });
+    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high, cellBase: new Int32Array(0), cellStencil: new Float64Array(0) });
     if (sym === 'axial') {
       this.axes = [axis(0, true, false), axis(1, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf), axis(2, false, false)];
     } else {
       this.axes = [axis(0, this.mirrorX, false), axis(1, this.mirrorY, false),
         axis(2, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf)];
     }
-    for (let i = 0; i < (sym === 'none' ? 3 : 2); i++) if (this.axes[i].n < 6) throw new Error('interpolation needs at least 6 nodes along each axis');
+    for (let i = 0; i < (sym === 'none' ? 3 : 2); i++) {
+      const a = this.axes[i];
+      if (a.n < 6) throw new Error('interpolation needs at least 6 nodes along each axis');
+      // The stencils depend on the cell only: computed once here, looked up per evaluation.
+      a.cellBase = new Int32Array(a.n - 1);
+      a.cellStencil = new Float64Array(12 * (a.n - 1));
+      for (let c = 0; c < a.n - 1; c++) {
+        let base = c - 2;
+        if (base < 0) base = 0;
+        if (base > a.n - 6) base = a.n - 6;
+        a.cellBase[c] = base;
+        this.stencil(a, c, base, this.sa);
+        this.stencil(a, c + 1, base, this.sb);
+        a.cellStencil.set(this.sa, 12 * c);
+        a.cellStencil.set(this.sb, 12 * c + 6);
+      }
+    }
     this.s0 = 1;
     this.s1 = n0;
     this.s2 = n0 * n1;
@@ -112,13 +131,9 @@ export class GridInterpolant {
     if (i < 0) i = 0;
     const t = u - i;
     // With a symmetric end the window may reach past it (reflected back inside by stencil()).
-    let base = i - 2;
-    if (base < 0) base = 0;
-    if (base > a.n - 6) base = a.n - 6;
+    const base = a.cellBase[i];
     this.base[ai] = base;
-    const sa = this.sa, sb = this.sb;
-    this.stencil(a, i, base, sa);
-    this.stencil(a, i + 1, base, sb);
+    const st = a.cellStencil, o = 12 * i;
     // Cubic Hermite basis on [0, 1] and its t-derivatives.
     const t2 = t * t, t3 = t2 * t;
     const h00 = 2 * t3 - 3 * t2 + 1, h10 = t3 - 2 * t2 + t, h01 = -2 * t3 + 3 * t2, h11 = t3 - t2;
@@ -126,8 +141,9 @@ export class GridInterpolant {
     const wv = this.wv[ai], wd = this.wd[ai];
     const inv = 1 / a.h;
     for (let k = 0; k < 6; k++) {
-      wv[k] = h10 * sa[k] + h11 * sb[k];
-      wd[k] = (d10 * sa[k] + d11 * sb[k]) * inv;
+      const sa = st[o + k], sb = st[o + 6 + k];
+      wv[k] = h10 * sa + h11 * sb;
+      wd[k] = (d10 * sa + d11 * sb) * inv;
     }
     wv[i - base] += h00; wv[i + 1 - base] += h01;
     wd[i - base] += d00 * inv; wd[i + 1 - base] += d01 * inv;

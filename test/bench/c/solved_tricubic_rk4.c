@@ -11,7 +11,7 @@
 #include <stdlib.h>
 #include <time.h>
 
-typedef struct { int n; double origin, h; int rlo, rhi; } Axis;
+typedef struct { int n; double origin, h; int rlo, rhi; int *cellBase; double *cellStencil; } Axis;
 static const double CEN[5] = {1, -8, 0, 8, -1}, NODE0[5] = {-25, 48, -36, 16, -3}, NODE1[5] = {-3, -10, 18, -6, 1};
 
 static void stencil(const Axis *a, int i, int base, double *s) {
@@ -39,13 +39,10 @@ static int weights(const Axis *a, double c, int *bo, double *wv, double *wd) {
   if (i > a->n - 2) i = a->n - 2;
   if (i < 0) i = 0;
   double t = u - i;
-  int base = i - 2;
-  if (base < 0) base = 0;
-  if (base > a->n - 6) base = a->n - 6;
+  /* The cell's window base and node stencils, computed once per axis (as interpolate.ts does). */
+  int base = a->cellBase[i];
   *bo = base;
-  double sa[6], sb[6];
-  stencil(a, i, base, sa);
-  stencil(a, i + 1, base, sb);
+  const double *sa = a->cellStencil + 12 * i, *sb = sa + 6;
   double t2 = t * t, t3 = t2 * t;
   double h00 = 2 * t3 - 3 * t2 + 1, h10 = t3 - 2 * t2 + t, h01 = -2 * t3 + 3 * t2, h11 = t3 - t2;
   double d00 = 6 * t2 - 6 * t, d10 = 3 * t2 - 4 * t + 1, d01 = -6 * t2 + 6 * t, d11 = 3 * t2 - 2 * t;
@@ -106,6 +103,19 @@ int main(int argc, char **argv) {
   if (fread(F, sizeof(double), 2 * nodes, fp) != (size_t)(2 * nodes)) return 1;
   fclose(fp);
   s1 = ax[0].n; s2 = ax[0].n * ax[1].n;
+  for (int a = 0; a < 3; a++) {
+    Axis *A = &ax[a];
+    A->cellBase = malloc(sizeof(int) * (A->n - 1));
+    A->cellStencil = malloc(sizeof(double) * 12 * (A->n - 1));
+    for (int c = 0; c < A->n - 1; c++) {
+      int base = c - 2;
+      if (base < 0) base = 0;
+      if (base > A->n - 6) base = A->n - 6;
+      A->cellBase[c] = base;
+      stencil(A, c, base, A->cellStencil + 12 * c);
+      stencil(A, c + 1, base, A->cellStencil + 12 * c + 6);
+    }
+  }
   double h = 1 / freq / spc, omega = 2 * M_PI * freq;
   double *cosT = malloc(sizeof(double) * (2 * spc + 1)), *sinT = malloc(sizeof(double) * (2 * spc + 1));
   for (int j = 0; j <= 2 * spc; j++) { cosT[j] = cos(M_PI * j / spc); sinT[j] = sin(M_PI * j / spc); }
