@@ -51,7 +51,7 @@ export async function prepareSolvedFields(scene: Scene, file: string, opts: Solv
     const key = cacheKey(problem, DEFAULT_TOLERANCE);
     let sol: FieldSolution | undefined = readCached(root, key);
     if (sol === undefined) {
-      if (opts.noSolve) throw new SceneError(`${at}: the electrode field of this stage is not solved (no entry ${key.slice(0, 12)} in the field cache ${root}); run without --no-solve, or iontrail field first`);
+      if (opts.noSolve) throw new SceneError(`${at}: the electrode field of this stage is not solved (no entry ${key.slice(0, 12)} in the field cache ${root}); run once without --no-solve (it solves and caches the field); iontrail field SCENE --at X,Y,Z fills the same cache (field -o DIR keeps its own beside DIR)`);
       opts.onSolve?.(st.sceneIndex ?? i, false);
       try {
         checkProblem(problem, { freeMemoryBytes: freemem() });
