@@ -61,7 +61,7 @@ describe('demo scenes give the recorded bytes', () => {
       const want = manifest.scenes[s];
       expect(Object.keys(want).length).toBeGreaterThan(0);
       expect(digests(s)).toEqual(want);
-    }, 60_000);
+    }, 180_000);
   }
 });
 

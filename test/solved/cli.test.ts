@@ -58,7 +58,7 @@ describe('iontrail run through a solved field', () => {
     expect(again.code).toBe(0);
     expect(again.stderr).not.toMatch(/solving/);
     expect(readFileSync(join(dir, 'r2', 'ions.arrow'))).toEqual(readFileSync(join(out, 'ions.arrow')));
-  }, 30_000);
+  }, 120_000);
 
   it('refuses a solved stage whose axis potential at its entrance differs from where the stage before ends', () => {
     // The grounded box face at the entrance of an axial grid holds the axis at 0 V there, while the
@@ -79,7 +79,7 @@ run: { max_time: 20 us, step_without_rf: 2 ns }
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/stages\.1: the potential on the axis at this stage's entrance \(z = 10\.000 mm\) is 0\.00000 V from its electrodes but -40\.0000 V where the stage before it \(accelerat/);
     expect(existsSync(out)).toBe(false);
-  }, 30_000);
+  }, 120_000);
 
   it('ions born inside an electrode are lost at once, with one warning that counts them', () => {
     // Half the cloud starts in the wall of tube 1 (r from 3 to 4 mm at x = 3.5 mm ± 0.1 mm).
@@ -90,7 +90,7 @@ run: { max_time: 20 us, step_without_rf: 2 ns }
     const w = (s.warnings as string[]).filter((x) => /start inside an electrode/.test(x));
     expect(w).toEqual(['stages.0: 6 of 12 ions start inside an electrode or beyond the grid of this stage; they are counted as hit at t = 0']);
     expect(s.species[0].hit).toBe(6);
-  }, 30_000);
+  }, 120_000);
 
   it('warns when the step can carry an ion across more than one grid cell', () => {
     const f = write('coarse.yaml', LENS('  - { mz: 100, count: 1, energy: 10 eV }', 'run: { max_time: 20 us, step_without_rf: 50 ns }'));
@@ -100,7 +100,7 @@ run: { max_time: 20 us, step_without_rf: 2 ns }
     // 10 eV + the axis potential's fall (just under 50 V: the tube's −50 V does not quite reach the
     // axis) at m/z 100: 10.7 km/s, 0.54 mm per 50 ns step, 2.68 cells of 0.2 mm.
     expect((s.warnings as string[]).some((x) => /stages\.0: the step \(50 ns\) may carry the fastest ion \(10\.7 km\/s\) across 2\.68 grid cells of 0\.2 mm/.test(x))).toBe(true);
-  }, 30_000);
+  }, 120_000);
 
   it('sweep --vary mz through a solved rod set gives the same points with 1 and 2 workers', () => {
     const f = write('rods.yaml', `name: Skerry rod set sweep check
@@ -130,5 +130,5 @@ ions:
     const one = csv('1');
     expect(one.trim().split('\n')).toHaveLength(4);
     expect(csv('2')).toBe(one);
-  }, 60_000);
+  }, 120_000);
 });

@@ -35,7 +35,7 @@ let scene: Scene;
 beforeAll(async () => {
   privateFieldCache();
   scene = await solvedScene(LENS);
-}, 60_000);
+}, 120_000);
 
 describe('two-tube lens through its solved field', () => {
   it('an ion ends inside the second tube with KE₀ − qΔV to 1e-6, on and off the axis', () => {
