@@ -9,6 +9,7 @@ import { fileURLToPath } from 'node:url';
 import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
 import { parseCount } from './run.js';
+import { prepareTracking } from '../tracking.js';
 import { writeReportBundle } from './report.js';
 import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '../run-limits.js';
 import { OutputError, systemReason } from '../../sim/core/atomic.js';
@@ -18,7 +19,7 @@ export const describe = 'run the built-in demo (Skerry filter, trap and TOF scen
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replace(/\/dist$/, '');
 
 /** Demo scenes in the order they run, with the check lines that go with them. */
-export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml'];
+export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml', 'qf4r-round-rods.yaml', 't7t-truncated-trap.yaml'];
 
 const CHECKS: string[][] = [
   ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '832V', '--dc', '138.3V', '--mz', '502', '--rf-max', '5kV'],
@@ -51,6 +52,8 @@ export async function run(argv: string[]): Promise<number> {
     const { scene, text } = loadSceneFile(path);
     const dir = join(out, file.replace(/\.ya?ml$/, ''));
     process.stdout.write(`\n$ iontrail report scenes/${file} -o ${dir} --force\n`);
+    // Scenes with electrode stages: their fields solved (or read from the field cache) first.
+    await prepareTracking(`scenes/${file}`, scene, { workers });
     const r = await writeReportBundle(scene, {
       out: dir, force: true, workers, sceneFile: `scenes/${file}`, sceneText: text, commandLine: 'iontrail demo',
       progressLabel: file, handleSigint: true, maxOutput: limit, onEstimate: printEstimate(`${file}: `),

@@ -17,7 +17,7 @@ import { onStopSignal } from '../../sim/runs/stop-signals.js';
 import type { RunEstimate } from '../../sim/runs/estimate.js';
 import { parseCount } from './run.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { refuseUntracked } from '../tracking.js';
+import { noSolveHelp, prepareTracking } from '../tracking.js';
 import type { Scene } from '../../sim/scene/types.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { mzWindow } from '../../sim/mathieu/operating-point.js';
@@ -32,7 +32,7 @@ import { reportMarkdown } from '../../render/report/markdown.js';
 
 export const describe = 'run a scene and write a design-review bundle (report.html, report.md, figures, results.json, run folder)';
 
-const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--force]';
+const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--no-solve] [--force]';
 
 const HELP = `${USAGE}
 
@@ -48,7 +48,7 @@ Runs the scene (and, for a quadrupole filter, an m/z sweep over its Mathieu wind
   --workers N        worker threads (default: all cores)
   --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
 ${maxOutputHelp()}
-  --force            replace an existing DIR (the old one is removed only once the new one is complete)
+${noSolveHelp()}  --force            replace an existing DIR (the old one is removed only once the new one is complete)
   -h, --help         this text
 
 Ctrl-C or SIGTERM stops the report: nothing is written, exit code 130 (SIGINT) or 143 (SIGTERM).
@@ -232,7 +232,7 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
 /** The flags `iontrail report` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
   values: ['out', 'seed', 'workers', 'set', 'max-output'],
-  switches: ['force', 'help'],
+  switches: ['force', 'help', 'no-solve'],
   repeatable: ['set'],
   aliases: { o: 'out', h: 'help' },
 };
@@ -251,7 +251,7 @@ export async function run(argv: string[]): Promise<number> {
   checkBundleTarget(out, force);
   const set = a.values.get('set') ?? [];
   const { scene, text } = loadSceneFile(file, { set, seed });
-  refuseUntracked(file, scene.stages);
+  await prepareTracking(file, scene, { noSolve: a.switches.has('no-solve'), workers });
   const r = await writeReportBundle(scene, {
     out, force, workers, sceneFile: file, commandLine: ['iontrail', 'report', ...argv].join(' '),
     progressLabel: 'report', handleSigint: true, sceneText: text, set, seed,

@@ -3,7 +3,7 @@
 import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { loadSceneFile } from '../../sim/scene/load.js';
-import { refuseUntracked } from '../tracking.js';
+import { noSolveHelp, prepareTracking } from '../tracking.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { parseShard } from '../../sim/runs/shard.js';
 import { progressBar } from '../progress.js';
@@ -11,7 +11,7 @@ import { interruptedExitCode, maxOutputHelp, maxOutput, printEstimate } from '..
 
 export const describe = 'integrate the ions of a scene file and write a run folder';
 
-const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--force] [--csv] [--json]';
+const USAGE = 'usage: iontrail run SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--no-solve] [--force] [--csv] [--json]';
 
 const HELP = `${USAGE}
 
@@ -28,7 +28,7 @@ Integrates every ion of the scene and writes the run folder DIR:
   --shard I/N        run only slice I (0-based) of N, whole batches of ions, into a part folder
                      (with shard.json); \`iontrail merge\` joins the N parts into this run's bytes
 ${maxOutputHelp()}
-  --force            replace an existing DIR (the old one is removed only once the new one is complete)
+${noSolveHelp()}  --force            replace an existing DIR (the old one is removed only once the new one is complete)
   --csv              also write ions.csv, history.csv and trajectories.csv
   --json             print summary.json to stdout instead of the short table
   -h, --help         this text
@@ -46,7 +46,7 @@ export function parseCount(text: string | undefined, what: string, min: number):
 /** The flags `iontrail run` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
   values: ['out', 'seed', 'workers', 'set', 'max-output', 'shard'],
-  switches: ['force', 'json', 'csv', 'help'],
+  switches: ['force', 'json', 'csv', 'help', 'no-solve'],
   repeatable: ['set'],
   aliases: { o: 'out', h: 'help' },
 };
@@ -65,7 +65,7 @@ export async function run(argv: string[]): Promise<number> {
   const shardText = flag(a, 'shard');
   const spec = shardText === undefined ? undefined : parseShard(shardText);
   const { scene, text } = loadSceneFile(file, { set, seed });
-  refuseUntracked(file, scene.stages);
+  await prepareTracking(file, scene, { noSolve: a.switches.has('no-solve'), workers });
   const bar = progressBar('run');
   const summary = await runScene(scene, {
     out, force: a.switches.has('force'), csv: a.switches.has('csv'), workers, sceneFile: file,

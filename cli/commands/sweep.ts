@@ -5,8 +5,13 @@ import { readFileSync } from 'node:fs';
 import { parseArgs, flag, type FlagSpec } from '../args.js';
 import { UsageError } from '../errors.js';
 import { SceneError } from '../../sim/scene/schema.js';
+import type { Scene } from '../../sim/scene/types.js';
+import { fieldProblemOf } from '../../sim/stages/registry.js';
+import { cacheKey } from '../../sim/fields/cache.js';
+import { DEFAULT_TOLERANCE } from '../../sim/fields/solve.js';
+import { solvedFieldWarnings } from '../../sim/engine/solved-fields.js';
 import { parseScene } from '../../sim/scene/load.js';
-import { refuseUntracked } from '../tracking.js';
+import { noSolveHelp, prepareTracking, refuseUntracked } from '../tracking.js';
 import { planSweep, reduceFinished, runPointRange, sweepSummary, type SweepMethod } from '../../sim/sweeps/sweep.js';
 import { onStopSignal } from '../../sim/runs/stop-signals.js';
 import { aboutDuration, checkOutputLimit, estimateRun } from '../../sim/runs/estimate.js';
@@ -21,7 +26,7 @@ import type { SweepPlan } from '../../sim/sweeps/sweep.js';
 export const describe = 'transmission over m/z or any scene key (peak, FWHM, resolution; U/V scan lines)';
 
 const USAGE = 'usage: iontrail sweep SCENE.yaml --vary KEY=A..B:N [--vary KEY=A..B:N] -o DIR [--scan-lines A..B:N] '
-  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--force] [--json]';
+  + '[--method auto|direct|matrix] [--collect summary.path,...] [--seed N] [--workers N] [--set key=value]... [--shard I/N] [--max-output SIZE] [--no-solve] [--force] [--json]';
 
 const HELP = `${USAGE}
 
@@ -48,7 +53,7 @@ Runs the scene at every point of one or two varied keys and writes DIR:
                            the points) into a part folder; \`iontrail merge\` joins the parts into this sweep's bytes
 ${maxOutputHelp(27)}
                            (--collect writes each point's run folder to a temporary folder)
-  --force                  replace an existing DIR (the old one is removed only once the new one is complete)
+${noSolveHelp(27)}  --force                  replace an existing DIR (the old one is removed only once the new one is complete)
   --json                   print summary.json to stdout instead of the short table
   -h, --help               this text
 
@@ -59,7 +64,7 @@ summary.json says "complete": false, and the exit code is 130 (SIGINT) or 143 (S
 /** The flags `iontrail sweep` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
   values: ['out', 'vary', 'seed', 'workers', 'set', 'method', 'scan-lines', 'collect', 'max-output', 'shard'],
-  switches: ['force', 'json', 'help'],
+  switches: ['force', 'json', 'help', 'no-solve'],
   repeatable: ['set', 'vary'],
   aliases: { o: 'out', h: 'help' },
 };
@@ -88,6 +93,8 @@ export async function run(argv: string[]): Promise<number> {
     throw new SceneError(`${file}: cannot read the scene file (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
   }
   refuseUntracked(file, parseScene(text, file, { set: a.values.get('set') ?? [] }).stages);
+  // Solved fields first: the plan's checks (sceneWarnings) read them.
+  await prepareTracking(file, parseScene(text, file, { set: a.values.get('set') ?? [] }), { noSolve: a.switches.has('no-solve'), workers });
   checkSweepFolder(out, force);
   const tty = process.stderr.isTTY === true;
   let last = 0;
@@ -98,6 +105,7 @@ export async function run(argv: string[]): Promise<number> {
     collect: (a.values.get('collect')?.[0] ?? '').split(',').map((x) => x.trim()).filter((x) => x !== ''),
     scanLines: flag(a, 'scan-lines'), method, workers, maxOutput: limit, stopped: () => stoppedBy !== null,
   });
+  await prepareSweepFields(file, plan, { noSolve: a.switches.has('no-solve'), workers });
   const shardText = flag(a, 'shard');
   const shard = shardText === undefined ? undefined : parseShard(shardText);
   if (shard) sweepSlice(plan, shard);
@@ -179,4 +187,25 @@ async function runShard(plan: SweepPlan, spec: ShardSpec, out: string, force: bo
   const line = `shard ${spec.index}/${spec.count}: ${r.pieces} pieces in ${out}${r.complete ? '' : '  (INCOMPLETE: interrupted)'}`;
   process.stdout.write(json ? JSON.stringify({ shard: spec, pieces: r.pieces, complete: r.complete, out }) + '\n' : `${plan.base.name}\n  ${line}\n`);
   return r.complete ? 0 : interruptedExitCode();
+}
+
+/**
+ * The solved fields of every point: the base scene's, then each point's whose geometry differs
+ * (a swept length or spacing); points that only change volts or ions share the base's solutions.
+ */
+async function prepareSweepFields(file: string, plan: ReturnType<typeof planSweep>, opts: { noSolve: boolean; workers?: number }): Promise<void> {
+  await prepareTracking(file, plan.base, opts);
+  for (const w of solvedFieldWarnings(plan.base)) if (!plan.warnings.includes(w)) plan.warnings.push(w);
+  const seen = new Set<string>([geometryOf(plan.base)]);
+  for (const t of plan.tasks) {
+    const scene = plan.scenes.scene(plan.axes, t.idx, t.extra);
+    const g = geometryOf(scene);
+    if (seen.has(g)) continue;
+    seen.add(g);
+    await prepareTracking(file, scene, opts);
+  }
+}
+
+function geometryOf(scene: Scene): string {
+  return scene.stages.map((st) => { const p = fieldProblemOf(st); return p ? cacheKey(p, DEFAULT_TOLERANCE) : '-'; }).join(',');
 }

@@ -42,7 +42,8 @@ const volts = (v: number) => (Math.abs(v) >= 1000 ? `${(v / 1000).toPrecision(3)
 
 function describeStages(run: RunView): string {
   return run.stages.map((s) => {
-    return kindNamed(s.type)?.describe(s as unknown as Record<string, unknown>) ?? String(s.type);
+    // The stage as stored in provenance: a kind reads its own keys there (an electrodes stage its problem).
+    return kindNamed(s.type)?.describe((s.stored ?? s) as unknown as Record<string, unknown>) ?? String(s.type);
   }).join('  →  ');
 }
 

@@ -4,6 +4,7 @@
 import type { Scene } from '../scene/types.js';
 import { SceneError } from '../scene/schema.js';
 import { stageAt } from './start.js';
+import { solvedFieldWarnings } from './solved-fields.js';
 import { hasRf, kindOf, rfOf } from '../stages/registry.js';
 import { collisionFrequency } from '../gas/collision-rate.js';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../units/constants.js';
@@ -25,6 +26,7 @@ export function sceneWarnings(scene: Scene): string[] {
   w.push(...plausibilityWarnings(scene));
   const alias = historyAliasWarning(scene);
   if (alias) w.push(alias);
+  w.push(...solvedFieldWarnings(scene));
   return w;
 }
 

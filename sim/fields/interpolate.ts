@@ -9,6 +9,8 @@
 // whose cross derivatives here are the tensor products of the same differences.
 // Each coordinate's interpolation is a 6-tap filter over the nodes i−2..i+3 of its cell; a call
 // allocates nothing (scratch arrays live on the interpolant), which the ion kernels need.
+// Several fields on one grid (the dc, rf and aux sums of a stage) may be stored interleaved, node
+// by node (`components` > 1): the weights depend on the point only, so one evaluation serves all.
 
 import type { SolvedGrid } from './problem.js';
 
@@ -21,6 +23,9 @@ interface Axis {
   n: number;
   origin: number;
   h: number;
+  /** Per cell i (0..n−2): the window's base node, and the derivative stencils of nodes i and i+1 over it (stencil()). */
+  cellBase: Int32Array;
+  cellStencil: Float64Array;
   /** Even symmetry about the low end (a mirror plane there, or the axis r = 0 of an axial grid). */
   reflectLow: boolean;
   /** Even symmetry about the high end (a mirror plane at z = length/2 when the lower half is stored). */
@@ -29,7 +34,7 @@ interface Axis {
 
 export class GridInterpolant {
   readonly grid: SolvedGrid;
-  private readonly f: ArrayLike<number>;
+  private readonly f: Float64Array;
   private readonly axes: Axis[];
   private readonly s0: number;
   private readonly s1: number;
@@ -45,12 +50,16 @@ export class GridInterpolant {
   private readonly mirrorY: boolean;
   private readonly mirrorZ: boolean;
   private readonly zPlane: number;
+  /** Fields stored per node (interleaved); evaluate writes 4 numbers per field. */
+  readonly components: number;
 
-  constructor(grid: SolvedGrid, values: ArrayLike<number>) {
+  constructor(grid: SolvedGrid, values: ArrayLike<number>, components = 1) {
     this.grid = grid;
-    this.f = values;
+    this.f = values instanceof Float64Array ? values : Float64Array.from(values);
+    if (!(components >= 1 && components <= 3)) throw new Error(`1 to 3 interleaved fields, got ${components}`);
+    this.components = components;
     const [n0, n1, n2] = grid.shape;
-    if (values.length !== n0 * n1 * n2) throw new Error(`the grid has ${n0 * n1 * n2} nodes, the values ${values.length}`);
+    if (values.length !== n0 * n1 * n2 * components) throw new Error(`the grid has ${n0 * n1 * n2} nodes × ${components} fields, the values ${values.length}`);
     const h = grid.spacing;
     const m = new Set(grid.mirror);
     const sym = grid.symmetry;
@@ -62,14 +71,30 @@ export class GridInterpolant {
     // Mirror at z: the stored half ends at the plane; the lower half starts at z = 0.
     const lowerHalf = Math.abs(grid.origin[zAxis]) < h / 2;
     this.zPlane = lowerHalf ? grid.origin[zAxis] + (zn - 1) * h : grid.origin[zAxis];
-    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high });
+    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high, cellBase: new Int32Array(0), cellStencil: new Float64Array(0) });
     if (sym === 'axial') {
       this.axes = [axis(0, true, false), axis(1, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf), axis(2, false, false)];
     } else {
       this.axes = [axis(0, this.mirrorX, false), axis(1, this.mirrorY, false),
         axis(2, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf)];
     }
-    for (let i = 0; i < (sym === 'none' ? 3 : 2); i++) if (this.axes[i].n < 6) throw new Error('interpolation needs at least 6 nodes along each axis');
+    for (let i = 0; i < (sym === 'none' ? 3 : 2); i++) {
+      const a = this.axes[i];
+      if (a.n < 6) throw new Error('interpolation needs at least 6 nodes along each axis');
+      // The stencils depend on the cell only: computed once here, looked up per evaluation.
+      a.cellBase = new Int32Array(a.n - 1);
+      a.cellStencil = new Float64Array(12 * (a.n - 1));
+      for (let c = 0; c < a.n - 1; c++) {
+        let base = c - 2;
+        if (base < 0) base = 0;
+        if (base > a.n - 6) base = a.n - 6;
+        a.cellBase[c] = base;
+        this.stencil(a, c, base, this.sa);
+        this.stencil(a, c + 1, base, this.sb);
+        a.cellStencil.set(this.sa, 12 * c);
+        a.cellStencil.set(this.sb, 12 * c + 6);
+      }
+    }
     this.s0 = 1;
     this.s1 = n0;
     this.s2 = n0 * n1;
@@ -106,13 +131,9 @@ export class GridInterpolant {
     if (i < 0) i = 0;
     const t = u - i;
     // With a symmetric end the window may reach past it (reflected back inside by stencil()).
-    let base = i - 2;
-    if (base < 0) base = 0;
-    if (base > a.n - 6) base = a.n - 6;
+    const base = a.cellBase[i];
     this.base[ai] = base;
-    const sa = this.sa, sb = this.sb;
-    this.stencil(a, i, base, sa);
-    this.stencil(a, i + 1, base, sb);
+    const st = a.cellStencil, o = 12 * i;
     // Cubic Hermite basis on [0, 1] and its t-derivatives.
     const t2 = t * t, t3 = t2 * t;
     const h00 = 2 * t3 - 3 * t2 + 1, h10 = t3 - 2 * t2 + t, h01 = -2 * t3 + 3 * t2, h11 = t3 - t2;
@@ -120,8 +141,9 @@ export class GridInterpolant {
     const wv = this.wv[ai], wd = this.wd[ai];
     const inv = 1 / a.h;
     for (let k = 0; k < 6; k++) {
-      wv[k] = h10 * sa[k] + h11 * sb[k];
-      wd[k] = (d10 * sa[k] + d11 * sb[k]) * inv;
+      const sa = st[o + k], sb = st[o + 6 + k];
+      wv[k] = h10 * sa + h11 * sb;
+      wd[k] = (d10 * sa + d11 * sb) * inv;
     }
     wv[i - base] += h00; wv[i + 1 - base] += h01;
     wd[i - base] += d00 * inv; wd[i + 1 - base] += d01 * inv;
@@ -130,7 +152,8 @@ export class GridInterpolant {
 
   /**
    * φ and ∇φ at a stage-local point (planar: z is ignored; axial: r = hypot(x, y)) into
-   * out[0] = φ, out[1..3] = ∂φ/∂x, ∂φ/∂y, ∂φ/∂z. False (out untouched) outside the grid.
+   * out[0] = φ, out[1..3] = ∂φ/∂x, ∂φ/∂y, ∂φ/∂z (field c of an interleaved set at out[4c..4c+3]).
+   * False (out untouched) outside the grid.
    */
   evaluate(x: number, y: number, z: number, out: Float64Array): boolean {
     const sym = this.grid.symmetry;
@@ -141,14 +164,15 @@ export class GridInterpolant {
     if (sym === 'none' && this.mirrorZ) z = this.foldZ(z, out);
     if (sym === 'none' && this.mirrorZ) sz = out[3];
     if (!this.weights(0, x) || !this.weights(1, y)) return false;
+    const C = this.components;
     if (sym === 'planar') {
-      this.sum2(out);
-      out[1] *= sx; out[2] *= sy; out[3] = 0;
+      if (C === 1) this.sum2(out); else this.sum2n(out);
+      for (let c = 0; c < 4 * C; c += 4) { out[c + 1] *= sx; out[c + 2] *= sy; out[c + 3] = 0; }
       return true;
     }
     if (!this.weights(2, z)) return false;
-    this.sum3(out);
-    out[1] *= sx; out[2] *= sy; out[3] *= sz;
+    if (C === 1) this.sum3(out); else this.sum3n(out);
+    for (let c = 0; c < 4 * C; c += 4) { out[c + 1] *= sx; out[c + 2] *= sy; out[c + 3] *= sz; }
     return true;
   }
 
@@ -167,12 +191,14 @@ export class GridInterpolant {
     let sz = 1;
     if (this.mirrorZ) { z = this.foldZ(z, out); sz = out[3]; }
     if (!this.weights(0, r) || !this.weights(1, z)) return false;
-    this.sum2(out);
-    const dr = out[1];
+    const C = this.components;
+    if (C === 1) this.sum2(out); else this.sum2n(out);
     // ∂φ/∂r vanishes on the axis (even in r), so x/r may be taken as 0 there.
-    const c = r > 0 ? dr / r : 0;
-    const dz = out[2];
-    out[1] = c * x; out[2] = c * y; out[3] = dz * sz;
+    const ir = r > 0 ? 1 / r : 0;
+    for (let o = 0; o < 4 * C; o += 4) {
+      const c = out[o + 1] * ir, dz = out[o + 2];
+      out[o + 1] = c * x; out[o + 2] = c * y; out[o + 3] = dz * sz;
+    }
     return true;
   }
 
@@ -204,5 +230,65 @@ export class GridInterpolant {
       p += v2[k] * pv; g0 += v2[k] * px; g1 += v2[k] * py; g2 += d2[k] * pv;
     }
     out[0] = p; out[1] = g0; out[2] = g1; out[3] = g2;
+  }
+
+  /**
+   * sum2 for two or three interleaved fields, in one pass over the window: each node's values are
+   * read together and accumulated in locals (a loop per field read the window once per field and
+   * kept nothing in registers). out[4c..4c+2] = φ_c, ∂_0 φ_c, ∂_1 φ_c.
+   */
+  private sum2n(out: Float64Array): void {
+    const f = this.f, C = this.components, three = C === 3, b0 = this.base[0], b1 = this.base[1], s1 = this.s1;
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
+    let p0 = 0, x0 = 0, y0 = 0, p1 = 0, x1 = 0, y1 = 0, p2 = 0, x2 = 0, y2 = 0;
+    for (let j = 0; j < 6; j++) {
+      let q = ((b1 + j) * s1 + b0) * C;
+      let a0 = 0, e0 = 0, a1 = 0, e1 = 0, a2 = 0, e2 = 0;
+      for (let i = 0; i < 6; i++, q += C) {
+        const wv = v0[i], wd = d0[i];
+        const g0 = f[q], g1 = f[q + 1];
+        a0 += wv * g0; e0 += wd * g0; a1 += wv * g1; e1 += wd * g1;
+        if (three) { const g2 = f[q + 2]; a2 += wv * g2; e2 += wd * g2; }
+      }
+      const wv = v1[j], wd = d1[j];
+      p0 += wv * a0; x0 += wv * e0; y0 += wd * a0;
+      p1 += wv * a1; x1 += wv * e1; y1 += wd * a1;
+      p2 += wv * a2; x2 += wv * e2; y2 += wd * a2;
+    }
+    out[0] = p0; out[1] = x0; out[2] = y0;
+    out[4] = p1; out[5] = x1; out[6] = y1;
+    if (three) { out[8] = p2; out[9] = x2; out[10] = y2; }
+  }
+
+  /** sum3 for two or three interleaved fields, one pass (as sum2n). */
+  private sum3n(out: Float64Array): void {
+    const f = this.f, C = this.components, three = C === 3, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const s1 = this.s1, s2 = this.s2;
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
+    let p0 = 0, x0 = 0, y0 = 0, z0 = 0, p1 = 0, x1 = 0, y1 = 0, z1 = 0, p2 = 0, x2 = 0, y2 = 0, z2 = 0;
+    for (let k = 0; k < 6; k++) {
+      let pv0 = 0, px0 = 0, py0 = 0, pv1 = 0, px1 = 0, py1 = 0, pv2 = 0, px2 = 0, py2 = 0;
+      for (let j = 0; j < 6; j++) {
+        let q = ((b2 + k) * s2 + (b1 + j) * s1 + b0) * C;
+        let a0 = 0, e0 = 0, a1 = 0, e1 = 0, a2 = 0, e2 = 0;
+        for (let i = 0; i < 6; i++, q += C) {
+          const wv = v0[i], wd = d0[i];
+          const g0 = f[q], g1 = f[q + 1];
+          a0 += wv * g0; e0 += wd * g0; a1 += wv * g1; e1 += wd * g1;
+          if (three) { const g2 = f[q + 2]; a2 += wv * g2; e2 += wd * g2; }
+        }
+        const wv = v1[j], wd = d1[j];
+        pv0 += wv * a0; px0 += wv * e0; py0 += wd * a0;
+        pv1 += wv * a1; px1 += wv * e1; py1 += wd * a1;
+        pv2 += wv * a2; px2 += wv * e2; py2 += wd * a2;
+      }
+      const wv = v2[k], wd = d2[k];
+      p0 += wv * pv0; x0 += wv * px0; y0 += wv * py0; z0 += wd * pv0;
+      p1 += wv * pv1; x1 += wv * px1; y1 += wv * py1; z1 += wd * pv1;
+      p2 += wv * pv2; x2 += wv * px2; y2 += wv * py2; z2 += wd * pv2;
+    }
+    out[0] = p0; out[1] = x0; out[2] = y0; out[3] = z0;
+    out[4] = p1; out[5] = x1; out[6] = y1; out[7] = z1;
+    if (three) { out[8] = p2; out[9] = x2; out[10] = y2; out[11] = z2; }
   }
 }

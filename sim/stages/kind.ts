@@ -12,7 +12,7 @@ import type { Analyzer, OperatingPoint } from '../mathieu/parameters.js';
 import type { RfDrive } from './base.js';
 import type { Stage } from './types.js';
 import type { ElectrodeLabel, OutlinePart } from './outline.js';
-import type { FieldProblem } from '../fields/problem.js';
+import type { FieldProblem, FieldSolution } from '../fields/problem.js';
 
 /** What an entry's resolution gets besides its validated keys. */
 export interface ResolveContext {
@@ -139,6 +139,11 @@ export interface StageKind<S extends Stage = Stage> {
   readonly adaptiveUnavailable?: string;
   /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
   fieldProblem?(st: S): FieldProblem;
+  /**
+   * Hand the solved field of `fieldProblem` to this thread's kernel before ions fly; returns what
+   * provenance says about the flight (stored on the stage by the caller's preparation).
+   */
+  useSolution?(st: S, solution: FieldSolution): void;
   /** The field-model assumptions a report lists for a scene with a stage of this kind. */
   readonly assumptions: readonly string[];
   /**

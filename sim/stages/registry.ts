@@ -76,3 +76,8 @@ export function trackingRefusal(stages: readonly Stage[]): string | undefined {
 export function fieldProblemOf(st: Stage): import('../fields/problem.js').FieldProblem | undefined {
   return kindOf(st).fieldProblem?.(st);
 }
+
+/** Give a stage its solved field (a kind with `fieldProblem` takes it through `useSolution`). */
+export function useSolution(st: Stage, solution: import('../fields/problem.js').FieldSolution): void {
+  kindOf(st).useSolution?.(st, solution);
+}

@@ -5,6 +5,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { GridInterpolant } from '../../sim/fields/interpolate.js';
+import { extendIntoElectrodes } from '../../sim/fields/extrapolate.js';
 import type { SolvedGrid } from '../../sim/fields/problem.js';
 
 function sample(grid: SolvedGrid, f: (x: number, y: number, z: number) => number): Float64Array {
@@ -109,5 +110,51 @@ describe('bicubic and tricubic interpolation', () => {
         expect(Math.abs((up - a[0]) / (2 * d) - g[c])).toBeLessThan(1e-6);
       }
     }
+  });
+});
+
+describe('interleaved fields and the continuation into electrodes', () => {
+  it('interleaved fields on one grid give each field exactly as its own interpolant does', () => {
+    const grid: SolvedGrid = { symmetry: 'axial', origin: [0, 0, 0], spacing: 0.1, shape: [12, 20, 1], mirror: [] };
+    const fa = sample(grid, (r, z) => r * r - 2 * z * z), fb = sample(grid, (r, z) => Math.cos(r) * Math.exp(-z));
+    const both = new Float64Array(2 * fa.length);
+    for (let n = 0; n < fa.length; n++) { both[2 * n] = fa[n]; both[2 * n + 1] = fb[n]; }
+    const ia = new GridInterpolant(grid, fa), ib = new GridInterpolant(grid, fb), i2 = new GridInterpolant(grid, both, 2);
+    const a = new Float64Array(4), b = new Float64Array(4), ab = new Float64Array(8);
+    const rnd = lcg(5);
+    for (let n = 0; n < 100; n++) {
+      const x = 0.7 * rnd() - 0.35, y = 0.7 * rnd() - 0.35, z = 1.9 * rnd();
+      ia.evaluate(x, y, z, a); ib.evaluate(x, y, z, b); expect(i2.evaluate(x, y, z, ab)).toBe(true);
+      // Same weights, same sums in the same order: equal to round-off.
+      for (let c = 0; c < 4; c++) { expect(Math.abs(ab[c] - a[c])).toBeLessThan(1e-13); expect(Math.abs(ab[4 + c] - b[c])).toBeLessThan(1e-13); }
+    }
+  });
+
+  it('inside nodes within two cells of a surface take the continuation: exact for a quadratic', () => {
+    // Quadratic extrapolation 3φ₁ − 3φ₂ + φ₃ is exact for polynomials of degree ≤ 2 along a grid
+    // line (Newton forward differences, Abramowitz & Stegun 25.2.5): a disc of "electrode" nodes
+    // holding a flat 1 V gets back the quadratic on its two outer layers, and only there.
+    const grid: SolvedGrid = { symmetry: 'planar', origin: [-1, -1, 0], spacing: 0.1, shape: [21, 21, 1], mirror: [] };
+    const f = (x: number, y: number) => 0.2 + x - 0.5 * y + x * x - 0.3 * x * y + 0.7 * y * y;
+    const v = sample(grid, f);
+    const inside = new Int16Array(v.length).fill(-1);
+    const R = 0.55;
+    for (let j = 0; j < 21; j++) for (let i = 0; i < 21; i++) {
+      const x = -1 + 0.1 * i, y = -1 + 0.1 * j;
+      if (x * x + y * y <= R * R) { inside[i + 21 * j] = 0; v[i + 21 * j] = 1; }
+    }
+    const w = extendIntoElectrodes(grid, v, inside);
+    let filled = 0, kept = 0;
+    for (let j = 0; j < 21; j++) for (let i = 0; i < 21; i++) {
+      const n = i + 21 * j, x = -1 + 0.1 * i, y = -1 + 0.1 * j;
+      if (inside[n] < 0) { expect(w[n]).toBe(v[n]); continue; }
+      // Chebyshev distance to the nearest free node.
+      let d = 99;
+      for (let q = 0; q < 21; q++) for (let p = 0; p < 21; p++) if (inside[p + 21 * q] < 0) d = Math.min(d, Math.max(Math.abs(p - i), Math.abs(q - j)));
+      if (w[n] !== 1) { filled++; expect(Math.abs(w[n] - f(x, y))).toBeLessThan(1e-12); expect(d).toBeLessThanOrEqual(2); }
+      else { kept++; expect(d).toBeGreaterThan(1); }
+    }
+    expect(filled).toBeGreaterThan(20);
+    expect(kept).toBeGreaterThan(0);
   });
 });

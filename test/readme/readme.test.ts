@@ -307,6 +307,23 @@ const CHECKERS: Checker[] = [
     },
   },
   {
+    // Solved on first use into a field cache of this test's own (not the user's).
+    name: 'run through a solved field: every ion of the claimed m/z alive at the end',
+    matches: (e) => e.args[0] === 'run' && e.args.some((a) => a.includes('t7t')),
+    check: (e) => {
+      process.env.XDG_CACHE_HOME = join(tmp, 'field-cache');
+      runExample(e);
+      const m = /all (\d+) ions of m\/z (\d+) stay trapped for (\d+) µs/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const s = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      expect(s.species[0].mz).toBe(num(m[2]));
+      expect(s.ions.total).toBe(num(m[1]));
+      expect(s.species[0].alive).toBe(num(m[1]));
+      expect(s.provenance.scene.run.maxTime).toBeCloseTo(num(m[3]) * 1e-6, 12);
+      expect(s.provenance.scene.stages[0].flight.path).toBe('interpolated grid');
+    },
+  },
+  {
     // The full count: the matrix path decides 121 × 2000 ions in about a second.
     name: 'sweep over m/z: a bounded peak at m/z 502 inside the Mathieu window, R10 below R50',
     matches: (e) => e.args[0] === 'sweep' && !e.args.includes('--shard') && e.args.filter((a) => a === '--vary').length === 1,

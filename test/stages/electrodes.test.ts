@@ -94,9 +94,9 @@ describe('electrodes stage: scene keys to SI shapes', () => {
     expect(err(scene(PLANAR, '      - { name: a, shapes: [ { circle: { center: [8 mm, 0 mm], radius: 1 mm } } ] }\n      - { name: a, shapes: [ { circle: { center: [-8 mm, 0 mm], radius: 1 mm } } ] }'))).toMatch(/^s\.yaml:8: stages\.0\.electrodes\.1\.name: 'a' names two electrodes/);
   });
 
-  it('ions cannot be flown through it yet: the kind says so (and the other kinds do not)', () => {
+  it('ions can be flown through it: no kind refuses tracking any more', () => {
     const s = parseScene(scene(PLANAR, '      - { name: a, shapes: [ { circle: { center: [8 mm, 0 mm], radius: 1 mm } } ] }'), 's.yaml');
-    expect(trackingRefusal(s.stages)).toMatch(/^stage 0 \(electrodes 20\.0 mm, planar grid 0\.05 mm, 1 electrode\): .*`iontrail field`; tracking ions through it is not available yet$/);
+    expect(trackingRefusal(s.stages)).toBeUndefined();
     const q = parseScene('stages:\n  - { type: quadrupole, length: 150 mm, r0: 4 mm, rf: { amplitude: 832 V, frequency: 1.2 MHz } }\nions:\n  - { mz: 502, count: 1 }\n', 'q.yaml');
     expect(trackingRefusal(q.stages)).toBeUndefined();
   });

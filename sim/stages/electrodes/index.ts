@@ -1,21 +1,17 @@
 // Stage kind `electrodes`: a field that comes from the electrodes a designer can machine, solved
-// on a grid by `iontrail field` (sim/fields). Tracking ions through it comes later; until then
-// `run`, `sweep` and `report` refuse such a scene (trackingUnavailable) while figures still draw it.
+// on a grid (sim/fields) by `iontrail field` or before a run, and flown through by kernel.ts in the
+// superposition of its unit solutions (solution.ts, field.ts).
 
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
-import type { FieldModel } from '../../core/field-model.js';
 import type { StageKind } from '../kind.js';
 import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
 import { ELECTRODE_FIELD, GRID_FIELD } from './schema.js';
 import { resolveProblem } from './resolve.js';
 import { labelAnchor } from './labels.js';
 import type { ElectrodesStage } from './stage.js';
-
-const NOT_YET = 'the field of an electrodes stage can be solved and mapped with `iontrail field`; tracking ions through it is not available yet';
-
-function notYet(): never {
-  throw new Error(NOT_YET);
-}
+import { electrodesField } from './field.js';
+import { trackElectrodes } from './kernel.js';
+import { registerSolution, SERIES_ORDERS, solutionKeys } from './solution.js';
 
 type Raw = Readonly<Record<string, unknown>>;
 const problemOf = (s: Raw | undefined) => (s?.problem ?? {}) as { grid?: Raw; electrodes?: readonly Raw[] };
@@ -24,15 +20,29 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   type: 'electrodes',
   entries: {
     electrodes: {
-      fields: { length: LENGTH_FIELD, grid: GRID_FIELD, rf: RF_FIELD, electrodes: { kind: 'list', item: ELECTRODE_FIELD, minItems: 1 } },
+      fields: {
+        length: LENGTH_FIELD, grid: GRID_FIELD, rf: RF_FIELD, electrodes: { kind: 'list', item: ELECTRODE_FIELD, minItems: 1 },
+        flight: { kind: 'enum', values: ['grid', 'multipole'] },
+        aux: {
+          kind: 'object',
+          fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
+          required: ['amplitude', 'frequency'],
+        },
+      },
       required: ['length', 'grid', 'electrodes'],
       resolve(s, at) {
         const fail = (key: (string | number)[], msg: string): never => at.fail(key, msg);
         const problem = resolveProblem(s, fail);
         const st: ElectrodesStage = { type: 'electrodes', length: s.length, problem, zStart: at.z, zEnd: at.z + s.length };
         if (s.rf) st.rf = resolveRf(s.rf);
+        if (s.flight === 'multipole') {
+          if (problem.grid.symmetry !== 'planar') fail(['flight'], `multipole flies a rod set of constant cross-section: it needs a planar grid, not symmetry ${problem.grid.symmetry} (use flight: grid)`);
+          st.path = 'multipole';
+        }
+        if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
         problem.electrodes.forEach((e, i) => {
           if (e.potential.rf !== 0 && !st.rf) fail(['electrodes', i, 'potential', 'rf'], 'drives this electrode with the stage RF, but the stage has no rf block (rf: { amplitude: 830 V, frequency: 1.2 MHz })');
+          if (e.potential.aux !== 0 && !st.aux) fail(['electrodes', i, 'potential', 'aux'], 'drives this electrode with the supplementary AC, but the stage has no aux block (aux: { amplitude: 2 V, frequency: 330 kHz })');
         });
         return [st];
       },
@@ -41,10 +51,17 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   holdsIons: false,
   hasRf: true,
   rf: (st) => st.rf,
-  field: (): FieldModel => notYet(),
-  track: () => notYet(),
-  trackingUnavailable: NOT_YET,
+  field: electrodesField,
+  track: (st, c, ctx, run) => trackElectrodes(st, c, ctx, run.stepsPerCycle, run.stepNoRf),
   fieldProblem: (st) => st.problem,
+  useSolution(st, sol) {
+    const path = st.path ?? 'grid';
+    registerSolution(st.problem, sol, path);
+    const nodes = sol.grid.shape[0] * sol.grid.shape[1] * sol.grid.shape[2], key = solutionKeys(st.problem).geometry;
+    st.flight = path === 'multipole'
+      ? { path: 'multipole series', cache_key: key, nodes, orders: SERIES_ORDERS, reference_radius_m: st.problem.grid.referenceRadius }
+      : { path: 'interpolated grid', cache_key: key, nodes };
+  },
   exitFate: () => undefined,
   exitAperture: () => undefined,
   uniformField: false,
@@ -69,5 +86,9 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     });
   },
   plausibility: () => [],
-  assumptions: ['Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.'],
+  assumptions: [
+    'Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.',
+    'Ions fly in the superposition of the unit solutions, interpolated between grid nodes by cubic Hermite polynomials with an exact gradient (or, for flight: multipole, in the fitted multipole series); values inside electrodes near their surface are continued from outside.',
+    'Ions are lost where they enter an electrode shape or reach the grid\'s box edge; no space charge through solved stages.',
+  ],
 };
