@@ -47,7 +47,7 @@ describe('demo scenes give the recorded bytes', () => {
     it('records the digests', () => {
       const all: Record<string, Record<string, string>> = {};
       for (const s of scenes) all[s] = digests(s);
-      writeFileSync(MANIFEST, JSON.stringify({ recorded_with: 'issue 11 fates (after b9b042e), iontrail run --workers 2', scenes: all }, null, 2) + '\n');
+      writeFileSync(MANIFEST, JSON.stringify({ recorded_with: 'iontrail run --workers 2; the commit that re-recorded it says why', scenes: all }, null, 2) + '\n');
       expect(Object.keys(all).length).toBe(scenes.length);
     }, 300_000);
     return;
@@ -65,7 +65,8 @@ describe('demo scenes give the recorded bytes', () => {
   }
 });
 
-describe('demo scenes that cannot be flown yet', () => {
+// Every demo scene flies today; this stays for a stage kind that can be mapped before it can be flown.
+describe.skipIf(untracked.length === 0)('demo scenes that cannot be flown yet', () => {
   for (const s of untracked) {
     it(`scenes/${s}: run refuses in one line, exit 2, nothing written`, () => {
       const out = join(tmp, `refused-${s.replace(/\.yaml$/, '')}`);
