@@ -232,6 +232,8 @@ export class CoulombTree {
   private near = new Float64Array(4 * 1024); private nNear = 0;
   // The leaf's local expansion: centre g, field, gradient (6) and second derivatives (10) there.
   private local = new Float64Array(22);
+  /** Running field sums of one leaf's targets between the passes of sumLeaf. */
+  private acc = new Float64Array(3 * 64);
 
   private interactions(leaf: number, eps2: number): void {
     const { sx, sy, sz, sq, stack, lo, hi, first, nch, crit2, absq, mq, mx, my, mz, px, py, pz } = this;
@@ -338,6 +340,9 @@ export class CoulombTree {
     const gxx = L[6], gyy = L[7], gzz = L[8], gxy = L[9], gxz = L[10], gyz = L[11];
     const hxxx = L[12], hyyy = L[13], hzzz = L[14], hxxy = L[15], hxxz = L[16], hxyy = L[17];
     const hyyz = L[18], hxzz = L[19], hyzz = L[20], hxyz = L[21];
+    if (3 * (t1 - t0) > this.acc.length) this.acc = new Float64Array(3 * (t1 - t0)); // a leaf at the depth cap
+    const acc = this.acc;
+    // Local expansion and far cells, target by target, into acc.
     for (let t = t0; t < t1; t++) {
       const xt = sx[t], yt = sy[t], zt = sz[t];
       // The distant cells through the local expansion: E(g + u) ≈ E + ∇E·u + ½ u·∇∇E·u.
@@ -363,13 +368,41 @@ export class CoulombTree {
         }
         fx += sR * Rx; fy += sR * Ry; fz += sR * Rz;
       }
-      // Near ions: direct sum, same kernel as direct.ts.
+      acc[3 * (t - t0)] = fx; acc[3 * (t - t0) + 1] = fy; acc[3 * (t - t0) + 2] = fz;
+    }
+    // Near ions: direct sum, same kernel as direct.ts, two targets per pass over the list (each
+    // list entry loaded once for both; every target keeps its own order of additions).
+    let t = t0;
+    for (; t + 1 < t1; t += 2) {
+      const a = 3 * (t - t0);
+      const xt = sx[t], yt = sy[t], zt = sz[t], xu = sx[t + 1], yu = sy[t + 1], zu = sz[t + 1];
+      let fx = acc[a], fy = acc[a + 1], fz = acc[a + 2], gx2 = acc[a + 3], gy2 = acc[a + 4], gz2 = acc[a + 5];
+      for (let o = 0; o < nn; o += 4) {
+        const nx = near[o], ny = near[o + 1], nz = near[o + 2], q = near[o + 3];
+        const dx = xt - nx, dy = yt - ny, dz = zt - nz;
+        const ex = xu - nx, ey = yu - ny, ez = zu - nz;
+        const r2 = dx * dx + dy * dy + dz * dz + eps2, s2 = ex * ex + ey * ey + ez * ez + eps2;
+        const inv3 = q / (r2 * Math.sqrt(r2)), jnv3 = q / (s2 * Math.sqrt(s2));
+        fx += dx * inv3; fy += dy * inv3; fz += dz * inv3;
+        gx2 += ex * jnv3; gy2 += ey * jnv3; gz2 += ez * jnv3;
+      }
+      acc[a] = fx; acc[a + 1] = fy; acc[a + 2] = fz; acc[a + 3] = gx2; acc[a + 4] = gy2; acc[a + 5] = gz2;
+    }
+    if (t < t1) {
+      const a = 3 * (t - t0), xt = sx[t], yt = sy[t], zt = sz[t];
+      let fx = acc[a], fy = acc[a + 1], fz = acc[a + 2];
       for (let o = 0; o < nn; o += 4) {
         const dx = xt - near[o], dy = yt - near[o + 1], dz = zt - near[o + 2];
         const r2 = dx * dx + dy * dy + dz * dz + eps2;
         const inv3 = near[o + 3] / (r2 * Math.sqrt(r2));
         fx += dx * inv3; fy += dy * inv3; fz += dz * inv3;
       }
+      acc[a] = fx; acc[a + 1] = fy; acc[a + 2] = fz;
+    }
+    // The leaf's own other ions.
+    for (let t = t0; t < t1; t++) {
+      const a = 3 * (t - t0), xt = sx[t], yt = sy[t], zt = sz[t];
+      let fx = acc[a], fy = acc[a + 1], fz = acc[a + 2];
       for (let p = p0; p < p1; p++) {
         if (p === t) continue;
         const dx = xt - sx[p], dy = yt - sy[p], dz = zt - sz[p];
