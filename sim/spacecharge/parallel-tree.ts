@@ -1,5 +1,6 @@
 // Barnes–Hut field split over threads: this thread and (threads − 1) worker_threads share the
-// positions, charges and field through SharedArrayBuffers, so a step stays synchronous.
+// positions, charges and field through SharedArrayBuffers laid out as ParallelDirect's
+// (parallel.ts views), so a step stays synchronous.
 //
 // Every thread builds the same tree from the shared positions (the build is a function of the
 // positions only and costs ~2 % of an evaluation, less than shipping the tree's arrays), then
@@ -11,44 +12,32 @@ import { CoulombTree } from './tree.js';
 import type { ChargeCloud, FieldOut } from './direct.js';
 import type { FieldSolver } from './ensemble-step.js';
 import { Executor, workerScript } from '../core/executor.js';
+import { views, type SharedLayout } from './parallel.js';
 
 /** Control words in the shared Int32Array. */
 export const TREE_CTRL = { gen: 0, n: 1, stop: 2, threads: 3, next: 4, done: 5 } as const;
 
-export interface TreeLayout {
-  ctrl: SharedArrayBuffer;   // Int32 × 8
-  data: SharedArrayBuffer;   // Float64 × (7 · capacity + 1): x y z qs ex ey ez, then the softening
-  capacity: number;
+export interface TreeLayout extends SharedLayout {
   theta: number;
 }
 
-export function treeViews(l: TreeLayout) {
-  const c = l.capacity, f = (k: number) => new Float64Array(l.data, 8 * k * c, c);
-  return {
-    ctrl: new Int32Array(l.ctrl),
-    cloud: { n: 0, x: f(0), y: f(1), z: f(2), qs: f(3) } as ChargeCloud,
-    out: { ex: f(4), ey: f(5), ez: f(6) } as FieldOut,
-    softening: new Float64Array(l.data, 8 * 7 * c, 1),
-  };
-}
-
 /** This thread's share: build the tree, then evaluate chunks of leaves until the counter runs out. */
-export function shareLeaves(v: ReturnType<typeof treeViews>, tree: CoulombTree): void {
+export function shareLeaves(v: ReturnType<typeof views>, tree: CoulombTree): void {
   v.cloud.n = Atomics.load(v.ctrl, TREE_CTRL.n);
   tree.build(v.cloud);
-  const eps = v.softening[0], chunks = tree.chunks;
+  const eps2 = v.eps2[0], chunks = tree.chunks;
   for (let c = Atomics.add(v.ctrl, TREE_CTRL.next, 1); c < chunks; c = Atomics.add(v.ctrl, TREE_CTRL.next, 1)) {
-    tree.fieldChunk(eps, c, v.out);
+    tree.fieldChunk(eps2, c, v.out);
   }
 }
 
 export class ParallelTree implements FieldSolver {
-  private readonly v: ReturnType<typeof treeViews>;
+  private readonly v: ReturnType<typeof views>;
   private readonly tree: CoulombTree;
   private gen = 0;
 
   private constructor(private readonly layout: TreeLayout, private readonly exec: Executor<never, never>, readonly threads: number) {
-    this.v = treeViews(layout);
+    this.v = views(layout);
     this.tree = new CoulombTree({ theta: layout.theta });
   }
 
@@ -74,7 +63,7 @@ export class ParallelTree implements FieldSolver {
     if (n > this.layout.capacity) throw new RangeError(`parallel tree sized for ${this.layout.capacity} ions, got ${n}`);
     v.cloud.x.set(c.x.subarray(0, n)); v.cloud.y.set(c.y.subarray(0, n)); v.cloud.z.set(c.z.subarray(0, n));
     v.cloud.qs.set(c.qs.subarray(0, n));
-    v.softening[0] = softening;
+    v.eps2[0] = softening * softening; // as CoulombTree.fieldRange squares it: the same bits
     Atomics.store(ctrl, TREE_CTRL.n, n);
     Atomics.store(ctrl, TREE_CTRL.next, 0);
     Atomics.store(ctrl, TREE_CTRL.done, 0);

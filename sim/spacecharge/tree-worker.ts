@@ -3,10 +3,11 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { announceReady } from '../core/executor.js';
 import { CoulombTree } from './tree.js';
-import { TREE_CTRL, treeViews, shareLeaves, type TreeLayout } from './parallel-tree.js';
+import { TREE_CTRL, shareLeaves, type TreeLayout } from './parallel-tree.js';
+import { views } from './parallel.js';
 
 const { layout } = workerData as { layout: TreeLayout };
-const v = treeViews(layout);
+const v = views(layout);
 const tree = new CoulombTree({ theta: layout.theta });
 let seen = Atomics.load(v.ctrl, TREE_CTRL.gen);
 announceReady();

@@ -216,9 +216,8 @@ export class CoulombTree {
     return Math.ceil(this.nodes / LEAF_CHUNK);
   }
 
-  /** Field, V/m, at the ions of the leaves among nodes of chunk c, written at their own indices in out. */
-  fieldChunk(softening: number, c: number, out: FieldOut): void {
-    const eps2 = softening * softening;
+  /** Field, V/m, at the ions of the leaves among nodes of chunk c, written at their own indices in out; eps2 the softening squared. */
+  fieldChunk(eps2: number, c: number, out: FieldOut): void {
     for (let k = c * LEAF_CHUNK, e = Math.min(this.nodes, k + LEAF_CHUNK); k < e; k++) {
       if (this.nch[k] !== 0) continue;
       this.interactions(k, eps2);
