@@ -255,8 +255,9 @@ export class CoulombTree {
     }
     // Rounding in the triangle inequality: a relative margin far below any θ of use.
     const rg = Math.sqrt(rg2) * (1 + 1e-12);
-    // A cell farther than rc + r_g/θ enters the leaf's local expansion about g: every target is then
-    // within θ·R of g, the same ratio the opening test allows a source cell.
+    // A cell farther than s/θ + δ + r_g + r_g/θ enters the leaf's local expansion about g: every
+    // target is then within θ/(1 + θ)·R of g (1/3 of R at θ = 0.5), a ratio below the θ the
+    // opening test allows a source cell.
     const rgl = this.theta > 0 ? rg / this.theta : Infinity;
     let ex = 0, ey = 0, ez = 0, gxx = 0, gyy = 0, gzz = 0, gxy = 0, gxz = 0, gyz = 0;
     let hxxx = 0, hyyy = 0, hzzz = 0, hxxy = 0, hxxz = 0, hxyy = 0, hyyz = 0, hxzz = 0, hyzz = 0, hxyz = 0;
