@@ -125,7 +125,7 @@ run: { max_time: 60 us, record_every: 0 }
     const r = await runCoupled(scene, plan, { workers });
     const s = (performance.now() - t0) / 1000, cpu = process.cpuUsage(cpu0);
     const a = (r.figures.arrivals as { detected: number; arrival_rms_ratio: number }[])[0];
-    console.log(`coupled TOF, 20000 macro-ions, tree, ${workers} workers: ${plan.step.steps} steps (${plan.step.from}), ${s.toFixed(1)} s wall (goal ≤ 120 s), this thread's CPU ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s; load ${load0.toFixed(1)} at start, ${loadavg()[0].toFixed(1)} at end on ${availableParallelism()} cores; ${a.detected} detected, spread ${a.arrival_rms_ratio.toFixed(3)}× single-ion`);
+    console.log(`coupled TOF, 20000 macro-ions, tree, ${workers} workers: ${plan.step.steps} steps (${plan.step.from}), ${s.toFixed(1)} s wall (goal ≤ 120 s), CPU ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s (all threads); load ${load0.toFixed(1)} at start, ${loadavg()[0].toFixed(1)} at end on ${availableParallelism()} cores; ${a.detected} detected, spread ${a.arrival_rms_ratio.toFixed(3)}× single-ion`);
     // The starting cloud once more (prepareCoupled draws the same starts), field alone.
     const b = prepareCoupled(scene).batch, n = b.n, qs = new Float64Array(n).fill(5 * ELEMENTARY_CHARGE);
     const c: ChargeCloud = { n, x: b.x.subarray(0, n), y: b.y.subarray(0, n), z: b.z.subarray(0, n), qs };
