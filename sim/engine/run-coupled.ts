@@ -17,6 +17,7 @@ import { populationOffsets, startIon } from './start.js';
 import { cloudMoments, defaultSoftening, directSolver, treeSolver, type Ensemble, type FieldSolver } from '../spacecharge/ensemble-step.js';
 import { TrapCloudObserver } from '../spacecharge/trap-cloud.js';
 import { ParallelDirect } from '../spacecharge/parallel.js';
+import { ParallelTree } from '../spacecharge/parallel-tree.js';
 import { floquet } from '../mathieu/floquet.js';
 import { mathieuParameters } from '../mathieu/parameters.js';
 import { ELECTRONVOLT } from '../units/constants.js';
@@ -151,7 +152,7 @@ export async function runCoupled(scene: Scene, plan: CoupledPlan, opts: CoupledR
   const trap = trapObserver(scene, flight.ensemble, plan.step);
   const solver: FieldSolver = sc.method === 'direct'
     ? (opts.workers > 1 ? await ParallelDirect.create(opts.workers, total) : directSolver)
-    : treeSolver(sc.theta ?? 0.5);
+    : (opts.workers > 1 ? await ParallelTree.create(opts.workers, total, sc.theta ?? 0.5) : treeSolver(sc.theta ?? 0.5));
   let end;
   try {
     end = await flight.run({
@@ -162,7 +163,7 @@ export async function runCoupled(scene: Scene, plan: CoupledPlan, opts: CoupledR
       progress: opts.progress ? (k, n) => opts.progress!(Math.floor((total * k) / n), total) : undefined,
     });
   } finally {
-    if (solver instanceof ParallelDirect) await solver.close();
+    if (solver instanceof ParallelDirect || solver instanceof ParallelTree) await solver.close();
   }
   for (let i = 0; i < total; i++) {
     res.fate[i] = b.fate[i];

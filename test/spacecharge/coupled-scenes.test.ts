@@ -184,6 +184,17 @@ describe('TOF packets with space charge', () => {
     expect(readFileSync(join(d, 'w100-2', 'ions.arrow')).equals(readFileSync(join(d, 'w100', 'ions.arrow')))).toBe(true);
   }, 120_000);
 
+  it('with the tree: the same bytes on 1 and 3 workers (threads share the leaves, each ion summed by one)', () => {
+    const d = tempDir();
+    // 1,500 ions: enough leaves (~60) that three threads each take some.
+    const text = linear(100).replace('method: direct', 'method: tree').replace('count: 300', 'count: 1500');
+    const a = run(d, 't1', text, ['--workers', '1']), b = run(d, 't3', text, ['--workers', '3']);
+    expect(a.code, a.stderr).toBe(0);
+    expect(b.code, b.stderr).toBe(0);
+    expect(JSON.parse(a.stdout).space_charge.arrivals[0].detected).toBe(1500);
+    expect(readFileSync(join(d, 't3', 'ions.arrow')).equals(readFileSync(join(d, 't1', 'ions.arrow')))).toBe(true);
+  }, 120_000);
+
   it('records trajectories ion by ion, a point at each plane crossed', () => {
     const d = tempDir();
     const r = run(d, 'rec', tof(10, 20).replace('record_every: 0', 'record_every: 2'), ['--csv']);

@@ -1,9 +1,11 @@
-// Worker-count independence of the direct sum (DESIGN.md: same scene + seed ⇒ same bytes,
+// Worker-count independence of the direct sum and the tree (DESIGN.md: same scene + seed ⇒ same bytes,
 // whatever the number of workers). Needs dist/ (npm test builds it first).
 import { describe, it, expect } from 'vitest';
 import { ELEMENTARY_CHARGE, ionMassKg } from '../../sim/units/constants.js';
 import { directField, type FieldOut } from '../../sim/spacecharge/direct.js';
 import { ParallelDirect } from '../../sim/spacecharge/parallel.js';
+import { ParallelTree } from '../../sim/spacecharge/parallel-tree.js';
+import { CoulombTree } from '../../sim/spacecharge/tree.js';
 import { runEnsemble } from '../../sim/spacecharge/ensemble-step.js';
 import { gaussianCloud } from './clouds.js';
 
@@ -32,6 +34,40 @@ describe('parallel direct sum', () => {
         for (let i = 0; i < a.n; i++) { expect(b.x[i]).toBe(a.x[i]); expect(b.vz[i]).toBe(a.vz[i]); }
       } finally {
         await pd.close();
+      }
+    }
+  }, 60_000);
+});
+
+describe('parallel tree', () => {
+  it('gives the same bits with 1, 2 and 3 threads as the serial tree (each target summed by one thread from lists fixed by the positions)', async () => {
+    const m = ionMassKg(100, 1), q = ELEMENTARY_CHARGE;
+    const e = gaussianCloud(3001, 100e-6, 300e-6, m, q, 7);
+    const c = { n: e.n, x: e.x, y: e.y, z: e.z, qs: e.charge };
+    const ref = field(e.n), direct = field(e.n);
+    new CoulombTree({ theta: 0.5 }).field(c, 1e-9, ref);
+    directField(c, 1e-9, direct);
+    // A tree that fails to visit some leaves would leave zeros: compare with the direct sum too
+    // (1 % RMS, the bound of tree.test.ts).
+    let num = 0, den = 0;
+    for (let i = 0; i < e.n; i++) {
+      num += (ref.ex[i] - direct.ex[i]) ** 2 + (ref.ey[i] - direct.ey[i]) ** 2 + (ref.ez[i] - direct.ez[i]) ** 2;
+      den += direct.ex[i] ** 2 + direct.ey[i] ** 2 + direct.ez[i] ** 2;
+    }
+    expect(Math.sqrt(num / den)).toBeLessThan(0.01);
+    for (const threads of [1, 2, 3]) {
+      const pt = await ParallelTree.create(threads, e.n, 0.5);
+      try {
+        for (const n of [e.n, 1000]) { // a smaller cloud after a larger one: no stale entries
+          const cn = { ...c, n }, want = field(n), got = field(n);
+          new CoulombTree({ theta: 0.5 }).field(cn, 1e-9, want);
+          pt.field(cn, 1e-9, got);
+          for (let i = 0; i < n; i++) {
+            expect(got.ex[i]).toBe(want.ex[i]); expect(got.ey[i]).toBe(want.ey[i]); expect(got.ez[i]).toBe(want.ez[i]);
+          }
+        }
+      } finally {
+        await pt.close();
       }
     }
   }, 60_000);
