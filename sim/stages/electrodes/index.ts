@@ -11,6 +11,7 @@ import { labelAnchor } from './labels.js';
 import type { ElectrodesStage } from './stage.js';
 import { electrodesField } from './field.js';
 import { trackElectrodes } from './kernel.js';
+import { electrodesCoupling } from './coupling.js';
 import { registerSolution, SERIES_ORDERS, solutionKeys } from './solution.js';
 
 type Raw = Readonly<Record<string, unknown>>;
@@ -52,6 +53,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   hasRf: true,
   rf: (st) => st.rf,
   field: electrodesField,
+  coupling: electrodesCoupling,
   track: (st, c, ctx, run) => trackElectrodes(st, c, ctx, run.stepsPerCycle, run.stepNoRf),
   fieldProblem: (st) => st.problem,
   useSolution(st, sol) {
@@ -89,6 +91,6 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   assumptions: [
     'Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.',
     'Ions fly in the superposition of the unit solutions, interpolated between grid nodes by cubic Hermite polynomials with an exact gradient (or, for flight: multipole, in the fitted multipole series); values inside electrodes near their surface are continued from outside.',
-    'Ions are lost where they enter an electrode shape or reach the grid\'s box edge; no space charge through solved stages.',
+    'Ions are lost where they enter an electrode shape or reach the grid\'s box edge; with space charge the field is interpolated once per coupled step and the same shapes are the loss test.',
   ],
 };

@@ -7,6 +7,7 @@ import { dcPlusRf, lengthMm, mm2, num, rfAmplitude, storedStage } from '../share
 import { r0Plausibility } from '../shared/plausible.js';
 import { multipoleField } from './field.js';
 import { trackMultipole } from './kernel.js';
+import { multipoleCoupling } from './coupling.js';
 import type { MultipoleStage } from './stage.js';
 import { multipoleEffectivePotential } from '../../mathieu/multipole.js';
 
@@ -35,6 +36,7 @@ export const multipoleKind: StageKind<MultipoleStage> = {
   hasRf: true,
   rf: (st) => st.rf,
   field: multipoleField,
+  coupling: multipoleCoupling,
   adaptiveUnavailable: 'the multipole kernel has no adaptive form yet',
   track: (st, c, ctx, run) => trackMultipole(st, c, ctx, run.stepsPerCycle),
   exitFate: () => undefined,
