@@ -46,10 +46,14 @@ function unitOf(col: string, summary: Record<string, any>): { label: string; uni
 /** One curve of a panel: the rows sharing the values of the varied keys other than x. */
 export interface SweepSeries { label: string; rows: number[][] }
 
-/** Rows grouped by the other varied keys (one series when x is the only varied key). */
+/**
+ * Rows grouped by the other varied keys (one series when x is the only varied key). An x that is a
+ * result column (the real charge of a weight sweep) follows the first varied key, so that key
+ * draws along the curve rather than splitting it into one-point curves.
+ */
 export function sweepSeries(t: SweepTable, x: string): SweepSeries[] {
   const keys: string[] = Array.isArray(t.summary.sweep?.keys) ? t.summary.sweep.keys : [];
-  const others = keys.filter((k) => k !== x && t.columns.includes(k));
+  const others = (keys.includes(x) ? keys.filter((k) => k !== x) : keys.slice(1)).filter((k) => t.columns.includes(k));
   if (others.length === 0) return [{ label: '', rows: t.rows }];
   const idx = others.map((k) => t.columns.indexOf(k));
   const groups = new Map<string, SweepSeries>();
