@@ -11,6 +11,22 @@ import { kindOf } from '../../sim/stages/registry.js';
 import type { Stage } from '../../sim/stages/types.js';
 import { tempDir } from '../helpers/temp.js';
 
+/**
+ * The static two-tube lens of lens.test.ts and space-charge.test.ts as a YAML stage list entry:
+ * 0 V and −100 V tubes of 3 mm bore, 2 mm apart at z = 30 mm, on an axial grid of 0.1 mm.
+ */
+export const TWO_TUBE_LENS_STAGE = `  - type: electrodes
+    length: 120 mm
+    grid: { symmetry: axial, spacing: 0.1 mm, radius: 5 mm }
+    electrodes:
+      - name: tube 1
+        potential: { dc: 0 V }
+        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 0 mm, to: 29 mm } } ]
+      - name: tube 2
+        potential: { dc: -100 V }
+        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 31 mm, to: 120 mm } } ]
+`;
+
 /** Point the field cache at a fresh temporary folder (removed after the test file). */
 export function privateFieldCache(): string {
   const d = tempDir('iontrail-fieldcache-');

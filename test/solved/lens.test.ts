@@ -11,21 +11,11 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { Exit } from '../../sim/core/cursor.js';
 import type { Scene } from '../../sim/scene/types.js';
 import { ATOMIC_MASS_UNIT, ELECTRONVOLT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, fly, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, fly, privateFieldCache, solvedScene, TWO_TUBE_LENS_STAGE } from './helpers.js';
 
 const LENS = `name: Skerry two-tube lens check
 stages:
-  - type: electrodes
-    length: 120 mm
-    grid: { symmetry: axial, spacing: 0.1 mm, radius: 5 mm }
-    electrodes:
-      - name: tube 1
-        potential: { dc: 0 V }
-        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 0 mm, to: 29 mm } } ]
-      - name: tube 2
-        potential: { dc: -100 V }
-        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 31 mm, to: 120 mm } } ]
-ions:
+${TWO_TUBE_LENS_STAGE}ions:
   - { mz: 100, count: 1, energy: 10 eV }
 `;
 

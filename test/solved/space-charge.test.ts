@@ -14,7 +14,7 @@ import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { iontrail } from '../helpers/cli.js';
 import { tempDir } from '../helpers/temp.js';
-import { privateFieldCache } from './helpers.js';
+import { privateFieldCache, TWO_TUBE_LENS_STAGE } from './helpers.js';
 import { COULOMB_K } from '../../sim/spacecharge/direct.js';
 import { ELEMENTARY_CHARGE, ELECTRONVOLT } from '../../sim/units/constants.js';
 
@@ -24,17 +24,7 @@ afterAll(() => { rmSync(tmp, { recursive: true, force: true }); rmSync(cache, { 
 
 const scene = (step: string) => `name: Skerry two-tube lens, ion pair with space charge
 stages:
-  - type: electrodes
-    length: 120 mm
-    grid: { symmetry: axial, spacing: 0.1 mm, radius: 5 mm }
-    electrodes:
-      - name: tube 1
-        potential: { dc: 0 V }
-        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 0 mm, to: 29 mm } } ]
-      - name: tube 2
-        potential: { dc: -100 V }
-        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 31 mm, to: 120 mm } } ]
-space_charge: { method: direct, weight: 1, softening: 1 nm }
+${TWO_TUBE_LENS_STAGE}space_charge: { method: direct, weight: 1, softening: 1 nm }
 ions:
   - { mz: 100, count: 1, position: { z: 5 mm }, energy: 10 eV }
   - { mz: 100, count: 1, position: { z: 5.001 mm }, energy: 10 eV }
