@@ -55,7 +55,7 @@ export function nonLinearReason(scene: Scene): string | null {
     const kind = kindOf(stage);
     // The kind says which resolved keys the fast path understands and whether its field is linear.
     const keys = kind.fastPathKeys;
-    if (!keys || !kind.field(stage).linear) return `stage ${i} is a ${String(stage.type)} stage`;
+    if (!keys || !kind.field(stage).linear) return `stage ${i} is of type ${String(stage.type)}`;
     const st = stage as unknown as Record<string, unknown>;
     if (st.gas) return `gas in stage ${i}`;
     for (const k of Object.keys(st)) if (!keys.has(k) && st[k] !== undefined) return `stage ${i} sets ${k}`;

@@ -14,15 +14,17 @@ import { PlotError, ionList, pointStride, type KindOptions, type PlotKind } from
 import { figureTitle, footerText } from '../provenance.js';
 import { firstRfFrequency } from '../scene.js';
 
+// `flat`: half the span of an axis whose values are all equal (ions on the axis: x = y = 0), on the
+// scale of the quantity in an instrument, so such a panel reads ±0.1 mm and not ±1 m.
 const QUANTITIES = {
-  x: { label: 'x', unit: 'm' },
-  y: { label: 'y', unit: 'm' },
-  z: { label: 'z', unit: 'm' },
-  r: { label: 'r', unit: 'm' },
-  ke: { label: 'kinetic energy', unit: 'eV' },
-  vx: { label: 'vx', unit: 'm/s' },
-  vy: { label: 'vy', unit: 'm/s' },
-  vz: { label: 'vz', unit: 'm/s' },
+  x: { label: 'x', unit: 'm', flat: 1e-4 },
+  y: { label: 'y', unit: 'm', flat: 1e-4 },
+  z: { label: 'z', unit: 'm', flat: 1e-4 },
+  r: { label: 'r', unit: 'm', flat: 1e-4 },
+  ke: { label: 'kinetic energy', unit: 'eV', flat: 0.1 },
+  vx: { label: 'vx', unit: 'm/s', flat: 1 },
+  vy: { label: 'vy', unit: 'm/s', flat: 1 },
+  vz: { label: 'vz', unit: 'm/s', flat: 1 },
 } as const;
 type Quantity = keyof typeof QUANTITIES;
 
@@ -152,7 +154,8 @@ export const traces: PlotKind = {
     const alpha = perIon ? 1 : 0.6;
     const specs: PanelSpec[] = panels.map((q) => {
       const y = column(q, tr, massOf);
-      const [lo, hi] = extent([y]);
+      let [lo, hi] = extent([y]);
+      if (lo === hi) { lo -= QUANTITIES[q].flat; hi += QUANTITIES[q].flat; }
       return {
         x: { label: 'time', unit: 's', min: t0, max: t1, nice: false },
         y: { label: QUANTITIES[q].label, unit: QUANTITIES[q].unit, min: lo, max: hi },

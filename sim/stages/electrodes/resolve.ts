@@ -97,7 +97,7 @@ const ALLOWED: Record<GridSymmetry, string> = {
 /** One shape of the grid's kind, or an error naming the shapes that grid takes. */
 export function resolveShape(sym: GridSymmetry, s: Raw, path: Path, fail: Fail): Shape {
   const out = sym === 'planar' ? planar(s, path, fail) : sym === 'axial' ? axial(s, path, fail) : solid(s, path, fail);
-  if (out === undefined) fail([...path, s.kind], `is not a shape of a ${sym === 'none' ? '3D (symmetry: none)' : sym} grid; expected ${ALLOWED[sym]}`);
+  if (out === undefined) fail([...path, s.kind], `is not a shape of ${sym === 'none' ? 'a 3D (symmetry: none)' : sym === 'axial' ? 'an axial' : 'a planar'} grid; expected ${ALLOWED[sym]}`);
   return out;
 }
 
