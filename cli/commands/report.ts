@@ -108,7 +108,7 @@ export function sampleScene(scene: Scene): { scene: Scene; recordEvery: number }
   const h = rf ? 1 / (rf.rf.frequency * scene.run.stepsPerCycle) : scene.run.stepNoRf;
   const steps = scene.run.maxTime / h;
   const recordEvery = Math.max(1, Math.ceil(steps / SAMPLE_POINTS));
-  // Closed-form stages (drift, acceleration, reflectron) fly each stage in one step: points inside
+  // Closed-form stages (drift, acceleration, reflectron) cross each stage in one step: points inside
   // them at the same density in time, so the turn in a reflectron shows.
   const recordSpacing = scene.run.maxTime / SAMPLE_POINTS;
   return {

@@ -47,7 +47,7 @@ export function checkIntegrator(scene: Scene): void {
   if (scene.run.integrator === 'dopri5') {
     scene.stages.forEach((s, i) => {
       const why = kindOf(s).adaptiveUnavailable;
-      if (why !== undefined) throw new SceneError(`run.integrator: dopri5 cannot fly stage ${s.sceneIndex ?? i} (${why}); use rk4`);
+      if (why !== undefined) throw new SceneError(`run.integrator: dopri5 cannot integrate stage ${s.sceneIndex ?? i} (${why}); use rk4`);
     });
   }
 }

@@ -152,7 +152,7 @@ export class CoupledFlight {
         ionSteps++;
       }
       const t0 = this.t;
-      for (let i = 0; i < n; i++) if (alive[i]) this.fly(i, t0, o.h, o.rec);
+      for (let i = 0; i < n; i++) if (alive[i]) this.advance(i, t0, o.h, o.rec);
       this.t += o.h;
       this.placeAll(o.rec);
       this.accel(o, this.t);
@@ -195,7 +195,7 @@ export class CoupledFlight {
   }
 
   /** Ion i's flight over h from t0: straight, or in closed form under its uniform stage's field. */
-  private fly(i: number, t0: number, h: number, rec: TrajectoryRecorder | null): void {
+  private advance(i: number, t0: number, h: number, rec: TrajectoryRecorder | null): void {
     const b = this.b;
     let s = b.stage[i];
     let rem = h, el = 0;

@@ -5,7 +5,7 @@
 // the softening used; for a scene of one RF trap the trap designer's capacity numbers (secular
 // frequencies about the centroid and their shift from the single-ion Mathieu value, RMS cloud
 // size, ions lost); wherever ions are detected (a TOF packet, a mass scan) the arrival time and
-// spread per population against the same ions flown without space charge.
+// spread per population against the same ions tracked without space charge.
 
 import { totalmem } from 'node:os';
 import type { Scene } from '../scene/types.js';
@@ -226,7 +226,7 @@ function trapObserver(scene: Scene, e: Ensemble, step: CoupledStep) {
 
 /**
  * Arrival time and spread of the detected ions per population, with space charge and for the
- * same ions (same starts, same gas streams) flown one by one without it (track.ts): the shift
+ * same ions (same starts, same gas streams) tracked one by one without it (track.ts): the shift
  * of the mean and the growth of the RMS spread are the space-charge effect.
  */
 function arrivalFigures(scene: Scene, res: BatchResult) {

@@ -1,4 +1,4 @@
-// Before ions fly through stages whose field is solved from electrodes: each stage's unit
+// Before ions are tracked through stages whose field is solved from electrodes: each stage's unit
 // solutions from the field cache (sim/fields/cache.ts), solved now when missing (or refused under
 // --no-solve), handed to the kernels of this thread; worker threads read the same cache entry.
 // Then the boundary rule: where a solved stage meets another stage the DC potentials on the axis

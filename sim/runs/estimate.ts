@@ -49,9 +49,9 @@ export interface RunEstimate {
   cpu_time_s: number;
 }
 
-/** Whether some ion is stepped (not flown in closed form) somewhere in the scene. */
+/** Whether some ion is stepped (not advanced in closed form) somewhere in the scene. */
 function stepped(scene: Scene): boolean {
-  // Uniform-field kinds (drift, acceleration gap) fly an ion in closed form unless gas asks for
+  // Uniform-field kinds (drift, acceleration gap) advance an ion in closed form unless gas asks for
   // a fixed step (sim/stages/shared/uniform-kernel.ts); every other kind integrates.
   return scene.stages.some((st) => !kindOf(st).uniformField || st.gas !== undefined || scene.gas !== undefined);
 }

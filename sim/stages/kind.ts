@@ -128,19 +128,19 @@ export interface StageKind<S extends Stage = Stage> {
    */
   electrodeLabels(st: Readonly<Record<string, unknown>>): ElectrodeLabel[];
   /**
-   * Why ions cannot be flown through stages of this kind yet (`run`, `sweep` and `report` refuse
+   * Why ions cannot be tracked through stages of this kind yet (`run`, `sweep` and `report` refuse
    * a scene with one, in one line), or undefined when they can.
    */
   readonly trackingUnavailable?: string;
   /**
-   * Why `integrator: dopri5` cannot fly stages of this kind (the run is refused in one line rather
+   * Why `integrator: dopri5` cannot integrate stages of this kind (the run is refused in one line rather
    * than quietly stepped with RK4), or undefined when it can.
    */
   readonly adaptiveUnavailable?: string;
   /** The Laplace problem of a stage whose field is solved from its electrodes (`iontrail field`). */
   fieldProblem?(st: S): FieldProblem;
   /**
-   * Hand the solved field of `fieldProblem` to this thread's kernel before ions fly; returns what
+   * Hand the solved field of `fieldProblem` to this thread's kernel before ions are tracked; returns what
    * provenance says about the flight (stored on the stage by the caller's preparation).
    */
   useSolution?(st: S, solution: FieldSolution): void;

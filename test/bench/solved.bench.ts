@@ -5,7 +5,7 @@
 //     plain C kernel of the same arithmetic (test/bench/c/solved_tricubic_rk4.c, cc -O2) on the same
 //     grid values and ions, in this one run (goal ≥ 0.7); the final positions agree as a check that
 //     both did the same work;
-//  2. the multipole path (flight: multipole, 20 orders) of the QF-4R cross-section as a 150 mm
+//  2. the multipole path (field_path: multipole, 20 orders) of the QF-4R cross-section as a 150 mm
 //     planar rod set against the ideal quadrupole kernel on the same ions (goal ≥ 0.5).
 // The field cache goes to a temporary folder, removed at the end.
 
@@ -35,7 +35,7 @@ function starts(n: number): Start[] {
   }));
 }
 
-function flyAll(st: Stage, ions: Start[], maxTime: number): { steps: number; seconds: number; checksum: number } {
+function trackAll(st: Stage, ions: Start[], maxTime: number): { steps: number; seconds: number; checksum: number } {
   const ctx: StepContext = { batch: allocateBatch(1), maxTime, recordEvery: 0, rec: null, hist: null, gas: null, gasField: null, hardSphere: null };
   const run = { integrator: 'rk4' as const, stepsPerCycle: SPC, tolerance: 1e-10, stepNoRf: 1e-8 };
   const kind = kindOf(st);
@@ -80,10 +80,10 @@ export async function bench(): Promise<void> {
     await prepareSolvedFields(scene, 'qf4r-round-rods.yaml', { workers: 1 });
     const st = scene.stages[0] as ElectrodesStage;
     solvedFieldOf(st);
-    console.log(`QF-4R 3D field solved and prepared in ${((performance.now() - t0) / 1e3).toFixed(1)} s (${st.flight?.nodes} nodes)`);
+    console.log(`QF-4R 3D field solved and prepared in ${((performance.now() - t0) / 1e3).toFixed(1)} s (${st.field_path?.nodes} nodes)`);
     const ions = starts(120), maxTime = 60e-6;
-    flyAll(st, ions.slice(0, 20), maxTime); // warm-up: compile the kernel
-    const ts = flyAll(st, ions, maxTime);
+    trackAll(st, ions.slice(0, 20), maxTime); // warm-up: compile the kernel
+    const ts = trackAll(st, ions, maxTime);
     const input = join(dir, 'c-input.bin');
     writeCInput(input, st, ions, maxTime);
     const [cSteps, cSec, cSum] = runC(buildC('solved_tricubic_rk4'), [input]).split(' ').map(Number);
@@ -98,7 +98,7 @@ export async function bench(): Promise<void> {
 stages:
   - type: electrodes
     length: 150 mm
-    flight: multipole
+    field_path: multipole
     grid: { symmetry: planar, spacing: 0.05 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
     rf: { amplitude: ${rf.amplitude} V, frequency: ${rf.frequency} Hz }
     electrodes:
@@ -117,8 +117,8 @@ ions:
     const rods = planar.stages[0];
     const ideal: QuadrupoleStage = { type: 'quadrupole', r0: 4e-3, length: 0.15, rf: { ...rf }, dc: 138.3, zStart: 0, zEnd: 0.15 } as QuadrupoleStage;
     const many = starts(400);
-    flyAll(rods, many.slice(0, 20), 300e-6); flyAll(ideal, many.slice(0, 20), 300e-6);
-    const mp = flyAll(rods, many, 300e-6), iq = flyAll(ideal, many, 300e-6);
+    trackAll(rods, many.slice(0, 20), 300e-6); trackAll(ideal, many.slice(0, 20), 300e-6);
+    const mp = trackAll(rods, many, 300e-6), iq = trackAll(ideal, many, 300e-6);
     console.log(`multipole path, 1 thread:       ${(mp.steps / mp.seconds / 1e6).toFixed(2)} M ion-steps/s (${mp.steps} steps)`);
     console.log(`ideal quadrupole kernel:        ${(iq.steps / iq.seconds / 1e6).toFixed(2)} M ion-steps/s (${iq.steps} steps)`);
     console.log(`ratio multipole path / ideal quadrupole kernel: ${((mp.steps / mp.seconds) / (iq.steps / iq.seconds)).toFixed(2)}  (goal >= 0.5)`);

@@ -4,7 +4,7 @@
 // thread each, both timed in this one run. Two 201-point m/z sweeps:
 //   A. 480..520 (the example range): most points lie outside the window, where ions are
 //      lost within ~10 RF cycles and direct integration is cheap too;
-//   B. 497..507 across the peak: about half the points inside the window, where ions fly the
+//   B. 497..507 across the peak: about half the points inside the window, where ions travel the
 //      whole rod and the direct cost grows with the number of cycles (the matrix path's does not);
 //   C. as B with 346 mm rods (~300 RF cycles, resolution ~ n²): the same scan on a longer filter,
 //      to show how the ratio scales with the time in the field.

@@ -1,6 +1,6 @@
 // Fate rules of the engine (sim/engine/track.ts) and the quadrupole's entrance and exit plates
 // (sim/stages/quadrupole/apertures.ts) against straight-line geometry: with U = V = 0 the filter
-// is field free, so an ion flies x(t) = x0 + vx·t, z(t) = z0 + vz·t, and where it meets each plane
+// is field free, so an ion moves as x(t) = x0 + vx·t, z(t) = z0 + vz·t, and where it meets each plane
 // and at what time is closed form (common practice, no source). A uniform retarding field gives
 // the turning ion's return time 2·v0/a, a = qE/m (Newton's second law, constant force).
 

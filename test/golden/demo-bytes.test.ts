@@ -21,7 +21,7 @@ const cli = process.env.IONTRAIL_GOLDEN_CLI ?? CLI;
 const workers = record ? '2' : '1';
 
 const all = readdirSync(join(ROOT, 'scenes')).filter((f) => f.endsWith('.yaml')).sort();
-// Scenes with a stage ions cannot be flown through yet (electrode fields, solved by `iontrail
+// Scenes with a stage ions cannot be tracked through yet (electrode fields, solved by `iontrail
 // field`) have no run bytes: the kind says so, and `run` must refuse them whole.
 const untracked = all.filter((f) => trackingRefusal(parseScene(readFileSync(join(ROOT, 'scenes', f), 'utf8'), f).stages) !== undefined);
 const scenes = all.filter((f) => !untracked.includes(f));
@@ -65,8 +65,8 @@ describe('demo scenes give the recorded bytes', () => {
   }
 });
 
-// Every demo scene flies today; this stays for a stage kind that can be mapped before it can be flown.
-describe.skipIf(untracked.length === 0)('demo scenes that cannot be flown yet', () => {
+// Every demo scene is tracked today; this stays for a stage kind that can be mapped before it can be tracked.
+describe.skipIf(untracked.length === 0)('demo scenes that cannot be tracked yet', () => {
   for (const s of untracked) {
     it(`scenes/${s}: run refuses in one line, exit 2, nothing written`, () => {
       const out = join(tmp, `refused-${s.replace(/\.yaml$/, '')}`);

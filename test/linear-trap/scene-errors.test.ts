@@ -37,6 +37,6 @@ describe('one-line errors of multipole and linear-trap entries', () => {
   }
   it('integrator dopri5 on a kind without an adaptive form: refused in one line, not stepped with RK4 under its name', () => {
     const scene = parseScene('stages:\n  - { type: multipole, poles: 8, length: 100 mm, r0: 3 mm, rf: { amplitude: 100 V, frequency: 2 MHz } }\n' + ions + 'run: { integrator: dopri5 }\n', 'd5.yaml');
-    expect(() => checkIntegrator(scene)).toThrow(/^run\.integrator: dopri5 cannot fly stage 0 \(the multipole kernel has no adaptive form yet\); use rk4$/);
+    expect(() => checkIntegrator(scene)).toThrow(/^run\.integrator: dopri5 cannot integrate stage 0 \(the multipole kernel has no adaptive form yet\); use rk4$/);
   });
 });

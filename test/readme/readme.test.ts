@@ -320,7 +320,7 @@ const CHECKERS: Checker[] = [
       expect(s.ions.total).toBe(num(m[1]));
       expect(s.species[0].alive).toBe(num(m[1]));
       expect(s.provenance.scene.run.maxTime).toBeCloseTo(num(m[3]) * 1e-6, 12);
-      expect(s.provenance.scene.stages[0].flight.path).toBe('interpolated grid');
+      expect(s.provenance.scene.stages[0].field_path.path).toBe('interpolated grid');
     },
   },
   {

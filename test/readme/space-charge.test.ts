@@ -1,5 +1,5 @@
 // The README's space-charge packet (in its list of limitations) does what its text says: run with
-// its weight of 1000 the arrival spread is about 2 % wider than flown without space charge and the
+// its weight of 1000 the arrival spread is about 2 % wider than tracked without space charge and the
 // mean about 60 ps later; with weight 1 both vanish. Read from README.md, never copied here.
 
 import { describe, expect, it } from 'vitest';

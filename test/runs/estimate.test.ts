@@ -51,7 +51,7 @@ describe('run estimate against the bytes written', () => {
     const { scene } = loadSceneFile('scenes/lt1-linear-tof.yaml', { set: ['ions.0.count=300', 'ions.1.count=300', 'ions.2.count=300'] });
     const e = estimateRun(scene);
     expect(e.points_per_ion).toBe(0);
-    expect(e.ion_steps).toBe(0); // drift and gaps fly in closed form
+    expect(e.ion_steps).toBe(0); // drift and gaps advance in closed form
     const out = join(temp(), 'run');
     await runScene(scene, { out, workers: 1 });
     const ions = statSync(join(out, 'ions.arrow')).size;

@@ -45,7 +45,7 @@ export async function makeRunFolder(dir: string, opts: FixtureOptions): Promise<
   const tI = new Int32Array(N * P), t = new Float64Array(N * P);
   const x = new Float64Array(N * P), y = new Float64Array(N * P), z = new Float64Array(N * P);
   const zero = new Float64Array(N * P);
-  // Axial speed of each point (the TOF fixture flies at constant speed after its gap; others 0).
+  // Axial speed of each point (the TOF fixture moves at constant speed after its gap; others 0).
   const vzAll = new Float64Array(N * P);
   const ux = new Float64Array(P), uy = new Float64Array(P), uz = new Float64Array(P);
   const r0 = kind === 'trap' ? 10e-3 : 4e-3, z0 = 7.07e-3;

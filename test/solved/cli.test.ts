@@ -52,7 +52,7 @@ describe('iontrail run through a solved field', () => {
     expect(first.stderr).toMatch(/solving the electrode field of stage 0/);
     const s = JSON.parse(first.stdout);
     expect(s.species[0].detected).toBe(4);
-    expect(s.provenance.scene.stages[0].flight.path).toBe('interpolated grid');
+    expect(s.provenance.scene.stages[0].field_path.path).toBe('interpolated grid');
     // Now cached: --no-solve runs, and solves nothing.
     const again = iontrail(['run', f, '-o', join(dir, 'r2'), '--no-solve', '--json']);
     expect(again.code).toBe(0);
@@ -108,7 +108,7 @@ seed: 5
 stages:
   - type: electrodes
     length: 60 mm
-    flight: multipole
+    field_path: multipole
     grid: { symmetry: planar, spacing: 0.1 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
     rf: { amplitude: 832 V, frequency: 1.2 MHz }
     electrodes:

@@ -49,6 +49,6 @@ export function context(maxTime: number): StepContext {
 }
 
 /** One ion through a stage's own kernel with fixed RK4 steps. */
-export function fly(st: Stage, c: IonCursor, ctx: StepContext, stepsPerCycle: number, stepNoRf: number): number {
+export function trackIon(st: Stage, c: IonCursor, ctx: StepContext, stepsPerCycle: number, stepNoRf: number): number {
   return kindOf(st).track(st, c, ctx, { integrator: 'rk4', stepsPerCycle, tolerance: 1e-10, stepNoRf });
 }

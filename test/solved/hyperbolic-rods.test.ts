@@ -26,7 +26,7 @@ import { DEFAULT_TOLERANCE } from '../../sim/fields/solve.js';
 import { fieldProblemOf } from '../../sim/stages/registry.js';
 import type { QuadrupoleStage, Stage } from '../../sim/stages/types.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, fly, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene } from './helpers.js';
 
 const R0 = 4e-3, F = 1.2e6, U = 0, V = 400;
 const rods = (spacing: string, truncate = '12 mm') => `name: Skerry hyperbolic rod check
@@ -76,7 +76,7 @@ function path(st: Stage): Float64Array {
   const out = new Float64Array(2 * 240);
   const c = cursor(m, q, 0.5 * R0, -0.4 * R0, 0, 40, 25, 2000);
   for (let k = 0; k < 240; k++) {
-    const code = fly(st, c, context(((k + 1) / 8) / F), 40, 1e-9);
+    const code = trackIon(st, c, context(((k + 1) / 8) / F), 40, 1e-9);
     expect(code).toBe(Exit.time);
     out[2 * k] = c.x; out[2 * k + 1] = c.y;
   }

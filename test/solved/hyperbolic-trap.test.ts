@@ -22,7 +22,7 @@ import { floquet } from '../../sim/mathieu/floquet.js';
 import { trapQz } from '../../sim/mathieu/parameters.js';
 import type { TrapStage } from '../../sim/stages/types.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, fly, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene } from './helpers.js';
 
 const R0 = 7.07e-3, Z0 = 5e-3, F = 1.05e6, MZ = 200, ZC = 14e-3;
 const T = 1 / F;
@@ -91,7 +91,7 @@ describe('solved hyperbolic trap against Mathieu theory of the ideal trap', () =
     const c = cursor(m, q, 0, 0, ZC + 0.3e-3, 0, 0, 0);
     const z: number[] = [c.z - ZC];
     for (let k = 1; k <= 120; k++) {
-      expect(fly(st, c, context(k * T), 40, 1e-9)).toBe(Exit.time);
+      expect(trackIon(st, c, context(k * T), 40, 1e-9)).toBe(Exit.time);
       z.push(c.z - ZC);
     }
     const beta = betaOf(z), ideal = floquet(0, QZ).beta!;
@@ -110,14 +110,14 @@ describe('solved hyperbolic trap against Mathieu theory of the ideal trap', () =
     const st0 = (await solvedScene(dipole('{ amplitude: 0 V, frequency: 100 kHz }'))).stages[0];
     const c0 = cursor(m, q, 0, 0, ZC + 0.3e-3, 0, 0, 0);
     const z: number[] = [c0.z - ZC];
-    for (let k = 1; k <= 120; k++) { fly(st0, c0, context(k * T), 40, 1e-9); z.push(c0.z - ZC); }
+    for (let k = 1; k <= 120; k++) { trackIon(st0, c0, context(k * T), 40, 1e-9); z.push(c0.z - ZC); }
     const fz = (betaOf(z) * F) / 2;
     const largest = async (f: number) => {
       const st = (await solvedScene(dipole(`{ amplitude: 2 V, frequency: ${f} Hz }`))).stages[0];
       const c = cursor(m, q, 0, 0, ZC + 0.01e-3, 0, 0, 0);
       let big = 0;
       for (let k = 1; k <= 100; k++) {
-        expect(fly(st, c, context(k * 1e-6), 40, 1e-9)).toBe(Exit.time);
+        expect(trackIon(st, c, context(k * 1e-6), 40, 1e-9)).toBe(Exit.time);
         big = Math.max(big, Math.abs(c.z - ZC));
       }
       return big;
@@ -131,13 +131,13 @@ describe('solved hyperbolic trap against Mathieu theory of the ideal trap', () =
   it('mass-selective instability scan: the ion leaves through a cap hole at q_z within 1 % of 0.908', () => {
     const qAt = (t: number) => Q1 + ((Q2 - Q1) * t) / SCAN;
     const c = cursor(m, q, 0, 0, ZC + 0.3e-3, 0, 0, 0);
-    const code = fly(scan.stages[0], c, context(SCAN), 40, 1e-9);
+    const code = trackIon(scan.stages[0], c, context(SCAN), 40, 1e-9);
     expect([Exit.forward, Exit.backward]).toContain(code);
     const qSolved = qAt(c.t);
     // The ideal trap kernel with the same ramp (stage-local z measured from its centre at length/2).
     const ideal: TrapStage = { type: 'trap', r0: R0, z0: Z0, length: 2 * ZC, rf: { amplitude: vAtQ(Q1), frequency: F, phase: 0, ramp: { to: vAtQ(Q2), over: SCAN } }, dc: 0, aperture: 0.5e-3, zStart: 0, zEnd: 2 * ZC };
     const d = cursor(m, q, 0, 0, ZC + 0.3e-3, 0, 0, 0);
-    fly(ideal, d, context(SCAN), 40, 1e-9);
+    trackIon(ideal, d, context(SCAN), 40, 1e-9);
     const qIdeal = qAt(d.t);
     console.log(`mass scan: ejection q_z solved ${qSolved.toFixed(4)}, ideal kernel ${qIdeal.toFixed(4)}, edge 0.908`);
     expect(Math.abs(qSolved / 0.908 - 1)).toBeLessThan(0.01);

@@ -11,7 +11,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { Exit } from '../../sim/core/cursor.js';
 import type { Scene } from '../../sim/scene/types.js';
 import { ATOMIC_MASS_UNIT, ELECTRONVOLT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, fly, privateFieldCache, solvedScene, TWO_TUBE_LENS_STAGE } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene, TWO_TUBE_LENS_STAGE } from './helpers.js';
 
 const LENS = `name: Skerry two-tube lens check
 stages:
@@ -34,7 +34,7 @@ describe('two-tube lens through its solved field', () => {
     for (const r of [0, 0.5e-3, 1.2e-3]) {
       const c = cursor(m, q, r, 0, 0.5e-3, 0, 0, v0);
       // 9 µs: past the gap at 30 mm, about 40 mm short of the grounded far face.
-      expect(fly(st, c, context(9e-6), 40, 2e-9)).toBe(Exit.time);
+      expect(trackIon(st, c, context(9e-6), 40, 2e-9)).toBe(Exit.time);
       expect(c.z).toBeGreaterThan(0.06);
       expect(c.z).toBeLessThan(0.08);
       const ke = 0.5 * m * (c.vx * c.vx + c.vy * c.vy + c.vz * c.vz);
@@ -46,7 +46,7 @@ describe('two-tube lens through its solved field', () => {
   it('an ion aimed at the first tube is hit on its bore surface, r = 3 mm', () => {
     const st = scene.stages[0];
     const c = cursor(m, q, 0, 0, 2e-3, 2000, 0, 3000);
-    expect(fly(st, c, context(1e-4), 40, 2e-9)).toBe(Exit.hit);
+    expect(trackIon(st, c, context(1e-4), 40, 2e-9)).toBe(Exit.hit);
     // The entry point of the last step on the segment (sim/fields/electrode.ts entry): exact on a
     // straight segment in the x–z plane, so r is the bore radius to round-off.
     expect(Math.abs(Math.hypot(c.x, c.y) - 3e-3)).toBeLessThan(1e-12);

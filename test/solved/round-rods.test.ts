@@ -19,7 +19,7 @@ import { floquet } from '../../sim/mathieu/floquet.js';
 import { quadrupoleApex } from '../../sim/mathieu/boundaries.js';
 import { fieldProblemOf } from '../../sim/stages/registry.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, fly, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene } from './helpers.js';
 
 const R0 = 4e-3, F = 1.2e6, MZ = 500;
 const m = MZ * ATOMIC_MASS_UNIT, q = ELEMENTARY_CHARGE, OM = 2 * Math.PI * F;
@@ -54,7 +54,7 @@ let a2 = 0;
 beforeAll(async () => {
   privateFieldCache();
   scene = await solvedScene(RODS);
-  series = await solvedScene(RODS.replace('    length: 100 mm\n', '    length: 100 mm\n    flight: multipole\n'));
+  series = await solvedScene(RODS.replace('    length: 100 mm\n', '    length: 100 mm\n    field_path: multipole\n'));
   const p = fieldProblemOf(scene.stages[0])!;
   const sol = readCached(cacheRoot(), cacheKey(p, DEFAULT_TOLERANCE))!;
   const rf = { ...p, electrodes: p.electrodes.map((e) => ({ ...e, potential: { dc: e.potential.rf, rf: 0, aux: 0 } })) };
@@ -75,7 +75,7 @@ describe('round rods at R/r0 = 1.13: the Mathieu diagram scales with the solved 
     const c = cursor(m, q, 0.05 * R0, 0, 0, 0, 0, 100);
     const x: number[] = [c.x];
     for (let k = 1; k <= 150; k++) {
-      expect(fly(st, c, context(k / F), 40, 1e-9)).toBe(Exit.time);
+      expect(trackIon(st, c, context(k / F), 40, 1e-9)).toBe(Exit.time);
       x.push(c.x);
     }
     const beta = betaOf(x);
@@ -91,14 +91,14 @@ describe('the multipole path of a rod set of constant cross-section', () => {
   // The fitted series (20 orders on r_ref = 2 mm = r0/2) against the interpolated grid it was fitted
   // from: the two differ by the grid interpolation's O(h⁴) error and the series' truncation, both
   // far below 1e-4 of the excursion inside the reference circle; provenance names the path.
-  it('flies the same trajectory as the grid within 1e-4 of the largest excursion, and says so', () => {
-    expect(series.stages[0]).toMatchObject({ flight: { path: 'multipole series', orders: 20, reference_radius_m: 0.002 } });
-    expect(scene.stages[0]).toMatchObject({ flight: { path: 'interpolated grid' } });
+  it('tracks the same trajectory as the grid within 1e-4 of the largest excursion, and says so', () => {
+    expect(series.stages[0]).toMatchObject({ field_path: { path: 'multipole series', orders: 20, reference_radius_m: 0.002 } });
+    expect(scene.stages[0]).toMatchObject({ field_path: { path: 'interpolated grid' } });
     const paths = [scene, series].map((sc) => {
       const c = cursor(m, q, 0.3 * R0, -0.2 * R0, 0, 30, -20, 100);
       const out: number[] = [];
       for (let k = 1; k <= 100; k++) {
-        expect(fly(sc.stages[0], c, context(k / F), 40, 1e-9)).toBe(Exit.time);
+        expect(trackIon(sc.stages[0], c, context(k / F), 40, 1e-9)).toBe(Exit.time);
         out.push(c.x, c.y);
       }
       return out;

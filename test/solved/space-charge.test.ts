@@ -1,4 +1,4 @@
-// Space charge through a solved stage (issue 14 with issue 13's fields): two ions fly together
+// Space charge through a solved stage (issue 14 with issue 13's fields): two ions move together
 // through the static two-tube lens of lens.test.ts (0 V and −100 V tubes, 3 mm bore), each in the
 // interpolated solved field and the Coulomb field of the other. The total energy
 //   Σ (½ m v² + q Φ_lens) + z1 z2 e² / (4π ε0 |r1 − r2|)
@@ -49,7 +49,7 @@ function energyError(step: string): { error: number; coulomb: number } {
   const d = 1e-6, q = ELEMENTARY_CHARGE;
   const ke = (ions[0].end_ke_ev + ions[1].end_ke_ev) * ELECTRONVOLT;
   const want = 2 * 10 * ELECTRONVOLT + 2 * q * 100 + COULOMB_K * q * q * (1 / d - 1 / D);
-  expect(D).toBeGreaterThan(100 * d); // they have flown apart
+  expect(D).toBeGreaterThan(100 * d); // they have moved apart
   return { error: ke / want - 1, coulomb: (COULOMB_K * q * q * (1 / d - 1 / D)) / want };
 }
 

@@ -1,4 +1,4 @@
-// Two ions released at rest fly apart; energy check against Coulomb's law
+// Two ions released at rest move apart; energy check against Coulomb's law
 // U0 = z1 z2 e² / (4π ε0 d) with e and ε0 from CODATA 2018 (sim/units/constants.ts).
 import { describe, it, expect } from 'vitest';
 import { ELEMENTARY_CHARGE, VACUUM_PERMITTIVITY, ionMassKg } from '../../sim/units/constants.js';

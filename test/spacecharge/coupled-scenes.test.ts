@@ -29,7 +29,7 @@ function run(d: string, name: string, text: string, extra: string[] = []) {
 }
 
 describe('two ions at rest in a field-free drift tube (Coulomb\'s law)', () => {
-  it('fly apart with kinetic energies summing to z1 z2 e²/(4π ε0)(1/d − 1/D) within 1e-6', () => {
+  it('move apart with kinetic energies summing to z1 z2 e²/(4π ε0)(1/d − 1/D) within 1e-6', () => {
     const d = tempDir();
     // z1 = 2 (m/z 50), z2 = 1 (m/z 100), 1 mm apart on the axis, at rest. The pair time
     // τ = √(4π ε0 μ d³/(z1 z2 e²)) ≈ 0.3 ms; a step of τ/1500 keeps the Verlet energy error

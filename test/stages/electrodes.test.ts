@@ -94,7 +94,7 @@ describe('electrodes stage: scene keys to SI shapes', () => {
     expect(err(scene(PLANAR, '      - { name: a, shapes: [ { circle: { center: [8 mm, 0 mm], radius: 1 mm } } ] }\n      - { name: a, shapes: [ { circle: { center: [-8 mm, 0 mm], radius: 1 mm } } ] }'))).toMatch(/^s\.yaml:8: stages\.0\.electrodes\.1\.name: 'a' names two electrodes/);
   });
 
-  it('ions can be flown through it: no kind refuses tracking any more', () => {
+  it('ions can be tracked through it: no kind refuses tracking any more', () => {
     const s = parseScene(scene(PLANAR, '      - { name: a, shapes: [ { circle: { center: [8 mm, 0 mm], radius: 1 mm } } ] }'), 's.yaml');
     expect(trackingRefusal(s.stages)).toBeUndefined();
     const q = parseScene('stages:\n  - { type: quadrupole, length: 150 mm, r0: 4 mm, rf: { amplitude: 832 V, frequency: 1.2 MHz } }\nions:\n  - { mz: 502, count: 1 }\n', 'q.yaml');

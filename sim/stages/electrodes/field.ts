@@ -1,7 +1,7 @@
 // Field model of an electrodes stage: the superposition of its solved unit solutions summed by
 // drive (solution.ts), Φ = Φ_dc + V(t) cos θ · Φ_rf + A cos(ω_a t + φ_a) · Φ_aux, for the energy
 // check, reports and the coupled stepper. The solution is looked up on first use, so building the
-// model does not need it (the run's preparation solves it before ions fly).
+// model does not need it (the run's preparation solves it before ions are tracked).
 
 import type { FieldModel, FieldTerm } from '../../core/field-model.js';
 import type { ElectrodesStage } from './stage.js';

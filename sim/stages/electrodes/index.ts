@@ -1,5 +1,5 @@
 // Stage kind `electrodes`: a field that comes from the electrodes a designer can machine, solved
-// on a grid (sim/fields) by `iontrail field` or before a run, and flown through by kernel.ts in the
+// on a grid (sim/fields) by `iontrail field` or before a run, and tracked through by kernel.ts in the
 // superposition of its unit solutions (solution.ts, field.ts).
 
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
@@ -23,7 +23,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     electrodes: {
       fields: {
         length: LENGTH_FIELD, grid: GRID_FIELD, rf: RF_FIELD, electrodes: { kind: 'list', item: ELECTRODE_FIELD, minItems: 1 },
-        flight: { kind: 'enum', values: ['grid', 'multipole'] },
+        field_path: { kind: 'enum', values: ['grid', 'multipole'] },
         aux: {
           kind: 'object',
           fields: { amplitude: { kind: 'quantity', dim: 'voltage', nonNegative: true }, frequency: { kind: 'quantity', dim: 'frequency', positive: true }, phase: { kind: 'quantity', dim: 'angle' } },
@@ -36,8 +36,8 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
         const problem = resolveProblem(s, fail);
         const st: ElectrodesStage = { type: 'electrodes', length: s.length, problem, zStart: at.z, zEnd: at.z + s.length };
         if (s.rf) st.rf = resolveRf(s.rf);
-        if (s.flight === 'multipole') {
-          if (problem.grid.symmetry !== 'planar') fail(['flight'], `multipole flies a rod set of constant cross-section: it needs a planar grid, not symmetry ${problem.grid.symmetry} (use flight: grid)`);
+        if (s.field_path === 'multipole') {
+          if (problem.grid.symmetry !== 'planar') fail(['field_path'], `multipole evaluates a rod set of constant cross-section in its fitted series: it needs a planar grid, not symmetry ${problem.grid.symmetry} (use field_path: grid)`);
           st.path = 'multipole';
         }
         if (s.aux) st.aux = { amplitude: s.aux.amplitude, frequency: s.aux.frequency, phase: s.aux.phase ?? 0 };
@@ -60,7 +60,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     const path = st.path ?? 'grid';
     registerSolution(st.problem, sol, path);
     const nodes = sol.grid.shape[0] * sol.grid.shape[1] * sol.grid.shape[2], key = solutionKeys(st.problem).geometry;
-    st.flight = path === 'multipole'
+    st.field_path = path === 'multipole'
       ? { path: 'multipole series', cache_key: key, nodes, orders: SERIES_ORDERS, reference_radius_m: st.problem.grid.referenceRadius }
       : { path: 'interpolated grid', cache_key: key, nodes };
   },
@@ -90,7 +90,7 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   plausibility: () => [],
   assumptions: [
     'Electrode fields are solved on a finite-difference grid (Laplace equation), with the box edge grounded unless an electrode covers it.',
-    'Ions fly in the superposition of the unit solutions, interpolated between grid nodes by cubic Hermite polynomials with an exact gradient (or, for flight: multipole, in the fitted multipole series); values inside electrodes near their surface are continued from outside.',
+    'Ions are tracked in the superposition of the unit solutions, interpolated between grid nodes by cubic Hermite polynomials with an exact gradient (or, for field_path: multipole, in the fitted multipole series); values inside electrodes near their surface are continued from outside.',
     'Ions are lost where they enter an electrode shape or reach the grid\'s box edge; with space charge the field is interpolated once per coupled step and the same shapes are the loss test.',
   ],
 };

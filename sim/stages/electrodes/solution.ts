@@ -5,8 +5,8 @@
 // set of weights per point serves all three (superposition of Laplace solutions). With it: the
 // electrodes as point sets for the hit test, and a per-node mask of where that test is needed.
 //
-// A planar rod set of constant cross-section may fly in its fitted multipole series instead
-// (`flight: multipole`): each sum as Φ = Re Σ_n (c_n − i s_n) w^n, w = (x + iy)/r_ref, the
+// A planar rod set of constant cross-section may be tracked in its fitted multipole series instead
+// (`field_path: multipole`): each sum as Φ = Re Σ_n (c_n − i s_n) w^n, w = (x + iy)/r_ref, the
 // coefficients of sim/fields/multipoles.ts, whose gradient ∂Φ/∂x − i ∂Φ/∂y = f'(w)/r_ref is exact
 // (Φ is the real part of a holomorphic f: Cauchy–Riemann), evaluated with f' by Horner's rule
 // (Knuth, TAOCP vol. 2, §4.6.4). No grid lookup; valid inside the circle the electrodes leave free.
@@ -24,10 +24,10 @@ import { fitMultipoles } from '../../fields/multipoles.js';
 import type { FieldProblem, FieldSolution, SolvedGrid } from '../../fields/problem.js';
 import type { ElectrodesStage } from './stage.js';
 
-/** Solver tolerance of the solutions flown through (the default of `iontrail field`, so the cache is shared). */
+/** Solver tolerance of the solutions tracked through (the default of `iontrail field`, so the cache is shared). */
 export const FLIGHT_TOLERANCE = DEFAULT_TOLERANCE;
 
-/** Orders of the multipole series a rod set flies in (`flight: multipole`). */
+/** Orders of the multipole series a rod set is tracked in (`field_path: multipole`). */
 export const SERIES_ORDERS = 20;
 
 /** Chebyshev distance in nodes within which a node counts as near an electrode (the hit test runs there). */
@@ -198,7 +198,7 @@ export function registerSolution(problem: FieldProblem, sol: FieldSolution, path
 
 /**
  * The solved field of a stage: registered in this thread, else read from the field cache. Throws
- * when neither has it (the run's preparation solves every stage before ions fly).
+ * when neither has it (the run's preparation solves every stage before ions are tracked).
  */
 export function solvedFieldOf(st: ElectrodesStage): SolvedField {
   const f = byStage.get(st);

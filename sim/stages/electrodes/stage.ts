@@ -12,8 +12,8 @@ export interface ElectrodesStage extends StageBase {
   rf?: RfDrive;
   /** Supplementary AC (e.g. dipolar between the end caps of a trap): amplitude zero-to-peak, V. */
   aux?: { amplitude: number; frequency: number; phase: number };
-  /** `multipole`: fly in the fitted multipole series of a planar grid instead of the grid. */
+  /** `multipole`: track in the fitted multipole series of a planar grid instead of the grid. */
   path?: 'grid' | 'multipole';
-  /** How ions fly through the field (set by the run's preparation, shown in provenance). */
-  flight?: { path: 'interpolated grid' | 'multipole series'; cache_key: string; nodes: number; orders?: number; reference_radius_m?: number };
+  /** How ions are tracked through the field (set by the run's preparation, shown in provenance). */
+  field_path?: { path: 'interpolated grid' | 'multipole series'; cache_key: string; nodes: number; orders?: number; reference_radius_m?: number };
 }

@@ -1,5 +1,5 @@
 // A uniform-field stage (drift, acceleration gap, reflectron, source region) in a coupled run: its
-// axial field E_z = V/L is flown in closed form between the Coulomb kicks, so the crossing times of
+// axial field E_z = V/L is advanced in closed form between the Coulomb kicks, so the crossing times of
 // its planes are exact; a round aperture of radius R bounds it (Infinity: none), as in
 // uniform-kernel.ts.
 

@@ -1,5 +1,5 @@
 // The ideal 3D RF trap in a coupled run: its field in the kicks (field.ts), the ring and end caps
-// as electrodes; past an end cap, through its hole, the ion flies field-free to the stage's plane
+// as electrodes; past an end cap, through its hole, the ion moves field-free to the stage's plane
 // (the rule of kernel.ts). Stage-local z from the trap centre.
 
 import { Place, type StageCoupling } from '../../core/coupling.js';
