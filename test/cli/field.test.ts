@@ -12,6 +12,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { existsSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { iontrail, tempDir } from '../helpers/cli.js';
+import { coaxStage as coaxStageYaml } from '../helpers/coax.js';
 
 const dirs: string[] = [];
 const temp = () => { const d = tempDir('iontrail-field-cli-'); dirs.push(d); return d; };
@@ -21,22 +22,7 @@ const a = 2e-3, b = 4e-3;
 
 function coaxStage(innerDc: string, extra = ''): string {
   return `
-  - type: electrodes
-    length: 10 mm
-    grid: { symmetry: planar, spacing: 0.125 mm, half_width: 5 mm, reference_radius: 1.5 mm, mirror: [x, y] }
-    rf: { amplitude: 100 V, frequency: 1 MHz }
-    electrodes:
-      - name: inner
-        potential: { dc: ${innerDc}, rf: 1 }
-        shapes:
-          - circle: { center: [0 mm, 0 mm], radius: 2 mm }
-      - name: outer
-        potential: { dc: 0 V }
-        shapes:
-          - rectangle: { min: [-6 mm, -6 mm], max: [6 mm, 6 mm] }
-        holes:
-          - circle: { center: [0 mm, 0 mm], radius: 4 mm }
-${extra}`;
+${coaxStageYaml({ spacing: '0.125 mm', innerDc })}${extra}`;
 }
 
 function scene(stages: string): string {

@@ -1,6 +1,8 @@
 // Scenes of the shard, merge and cluster tests (test/shards, test/cluster), demo values of the
 // fictional Skerry instruments: one writer each, so the files differ only in what they vary.
 
+import { coaxStage } from '../helpers/coax.js';
+
 export interface FilterOptions {
   name: string;
   seed: number;
@@ -43,22 +45,7 @@ export function coaxScene(name: string): string {
   return `name: ${name}
 seed: 1
 stages:
-  - type: electrodes
-    length: 10 mm
-    grid: { symmetry: planar, spacing: 0.25 mm, half_width: 5 mm, reference_radius: 1.5 mm, mirror: [x, y] }
-    rf: { amplitude: 100 V, frequency: 1 MHz }
-    electrodes:
-      - name: inner
-        potential: { dc: 10 V, rf: 1 }
-        shapes:
-          - circle: { center: [0 mm, 0 mm], radius: 2 mm }
-      - name: outer
-        potential: { dc: 0 V }
-        shapes:
-          - rectangle: { min: [-6 mm, -6 mm], max: [6 mm, 6 mm] }
-        holes:
-          - circle: { center: [0 mm, 0 mm], radius: 4 mm }
-ions:
+${coaxStage({ spacing: '0.25 mm', innerDc: '10 V' })}ions:
   - { mz: 100, count: 1, energy: 0.05 eV }
 `;
 }
