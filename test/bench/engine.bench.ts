@@ -5,14 +5,10 @@
 // same arithmetic as our kernel in C (quadrupole_rk4_matrix.c: each RK4 step as its amplification
 // matrix), all in this one run; and ions per second against integrating each ion with odex 2.0.4.
 
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/runs/run-scene.js';
 import { odexIntegrate } from '../../sim/integrate/odex-reference.js';
 import { ionMassKg, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { buildC, runC } from './cbuild.js';
+import { engineRate } from './engine-rate.js';
 
 const SCENE = `
 name: bench quadrupole
@@ -32,19 +28,6 @@ ions:
     angle_spread: 1 deg
 run: { steps_per_cycle: 40, max_time: 300 us, record_every: 0 }
 `;
-
-async function engineRate(workers: number): Promise<{ rate: number; wall: number; steps: number; detected: number }> {
-  const dir = mkdtempSync(join(tmpdir(), 'iontrail-bench-'));
-  try {
-    const scene = parseScene(SCENE, 'bench.yaml');
-    const t0 = performance.now();
-    const s = await runScene(scene, { out: join(dir, 'run'), workers });
-    const wall = (performance.now() - t0) / 1000;
-    return { rate: s.stats.steps / wall, wall, steps: s.stats.steps, detected: s.ions.detected };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
-  }
-}
 
 function odexRate(nIons: number): number {
   const m = ionMassKg(502, 1), q = ELEMENTARY_CHARGE, r0 = 4e-3, U = 40, V = 600, omega = 2 * Math.PI * 1.2e6;
@@ -67,8 +50,8 @@ export async function bench(): Promise<void> {
   const exeM = buildC('quadrupole_rk4_matrix');
   const [mSteps, mSec] = runC(exeM, ['20000']).split(' ').map(Number);
   const mRate = mSteps / mSec;
-  const one = await engineRate(1);
-  const two = await engineRate(2);
+  const one = await engineRate(SCENE, 1);
+  const two = await engineRate(SCENE, 2);
   const odexIons = odexRate(200);
   const ionsPerS1 = 20000 / one.wall;
   console.log(`C RK4 kernel (cc -O2, 1 thread): ${(cRate / 1e6).toFixed(2)} M ion-steps/s (${cSteps} steps in ${cSec.toFixed(3)} s)`);

@@ -3,12 +3,8 @@
 // 1 worker against a plain C RK4 kernel of the same field (test/bench/c/multipole_rk4.c, cc -O2,
 // single thread), both in this one run. Goal: ratio >= 0.8.
 
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { parseScene } from '../../sim/scene/load.js';
-import { runScene } from '../../sim/runs/run-scene.js';
 import { buildC, runC } from './cbuild.js';
+import { engineRate } from './engine-rate.js';
 
 const IONS = 5000;
 const SCENE = `
@@ -21,24 +17,11 @@ ions:
 run: { steps_per_cycle: 40, max_time: 1 ms, record_every: 0 }
 `;
 
-async function engineRate(workers: number): Promise<{ rate: number; wall: number; steps: number; detected: number }> {
-  const dir = mkdtempSync(join(tmpdir(), 'iontrail-bench-'));
-  try {
-    const scene = parseScene(SCENE, 'bench.yaml');
-    const t0 = performance.now();
-    const s = await runScene(scene, { out: join(dir, 'run'), workers });
-    const wall = (performance.now() - t0) / 1000;
-    return { rate: s.stats.steps / wall, wall, steps: s.stats.steps, detected: s.ions.detected };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
-  }
-}
-
 export async function bench(): Promise<void> {
   const exe = buildC('multipole_rk4');
   const [cSteps, cSec, cOut] = runC(exe, [String(IONS)]).split(' ').map(Number);
   const cRate = cSteps / cSec;
-  const one = await engineRate(1);
+  const one = await engineRate(SCENE, 1);
   console.log(`C RK4 octupole kernel (cc -O2, 1 thread): ${(cRate / 1e6).toFixed(2)} M ion-steps/s (${cSteps} steps in ${cSec.toFixed(3)} s, ${cOut} through)`);
   console.log(`iontrail run --workers 1:                ${(one.rate / 1e6).toFixed(2)} M ion-steps/s (${one.steps} steps, ${one.wall.toFixed(3)} s, ${one.detected} detected)`);
   console.log(`ratio vs plain C RK4, 1 worker: ${(one.rate / cRate).toFixed(2)}  (goal >= 0.8)`);
