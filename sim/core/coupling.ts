@@ -17,6 +17,8 @@ export const Place = {
   free: 1,
   /** On or beyond an electrode: the ion is lost there. */
   hit: 2,
+  /** Through an electrode's opening onto a detector (a linear trap's slotted x rods): detected. */
+  detected: 3,
 } as const;
 export type PlaceCode = (typeof Place)[keyof typeof Place];
 

@@ -244,9 +244,9 @@ export class CoupledFlight {
       if (!e.alive[i]) continue;
       const s = b.stage[i];
       const p = this.couplings[s].place(b.x[i], b.y[i], b.z[i] - this.off[s]);
-      if (p === Place.hit) {
+      if (p === Place.hit || p === Place.detected) {
         rec?.push(b.index[i], this.t, b.x[i], b.y[i], b.z[i] + this.zFrame, b.vx[i], b.vy[i], b.vz[i]);
-        this.remove(i, Fate.hit, this.t);
+        this.remove(i, p === Place.hit ? Fate.hit : Fate.detected, this.t);
       } else this.free[i] = p === Place.free ? 1 : 0;
     }
   }

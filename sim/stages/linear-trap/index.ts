@@ -7,6 +7,7 @@ import type { StageKind } from '../kind.js';
 import { dcPlusRf, lengthMm, mm2, num, rfAmplitude, storedStage, voltLabel } from '../shared/describe.js';
 import { r0Plausibility } from '../shared/plausible.js';
 import { linearTrapAx, linearTrapMzPerVolt, linearTrapQx } from '../../mathieu/linear-trap.js';
+import { linearTrapCoupling } from './coupling.js';
 import { linearTrapField } from './field.js';
 import { trackLinearTrap } from './kernel.js';
 import type { LinearTrapStage } from './stage.js';
@@ -43,6 +44,7 @@ export const linearTrapKind: StageKind<LinearTrapStage> = {
   hasRf: true,
   rf: (st) => st.rf,
   field: linearTrapField,
+  coupling: linearTrapCoupling,
   adaptiveUnavailable: 'the linear-trap kernel has no adaptive form yet',
   track: (st, c, ctx, run) => trackLinearTrap(st, c, ctx, run.stepsPerCycle),
   exitFate: () => undefined,
