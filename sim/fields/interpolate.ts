@@ -50,6 +50,8 @@ export class GridInterpolant {
   private readonly mirrorY: boolean;
   private readonly mirrorZ: boolean;
   private readonly zPlane: number;
+  /** Scratch of gradientOfPair (its fold sign and sums). */
+  private readonly scratch = new Float64Array(4);
   /** Fields stored per node (interleaved); evaluate writes 4 numbers per field. */
   readonly components: number;
 
@@ -171,9 +173,92 @@ export class GridInterpolant {
       return true;
     }
     if (!this.weights(2, z)) return false;
-    if (C === 1) this.sum3(out); else this.sum3n(out);
+    if (C === 1) this.sum3(out); else if (C === 2) this.sum3two(out); else this.sum3n(out);
     for (let c = 0; c < 4 * C; c += 4) { out[c + 1] *= sx; out[c + 2] *= sy; out[c + 3] *= sz; }
     return true;
+  }
+
+  /**
+   * ∇(φ_0 + cr φ_1) at a stage-local point into g[0..2], for a pair of interleaved fields (a
+   * stage's dc and rf sums): the two node values are combined first, so one 6×6(×6) pass with
+   * three sums (∂x, ∂y and, in 3D, the value for ∂z) serves the superposition — three products
+   * a node instead of four and half the partial sums of evaluate(). The ion kernels need only this
+   * gradient. False outside the grid (g untouched). Other field counts: evaluate() and combine.
+   */
+  gradientOfPair(x: number, y: number, z: number, cr: number, g: Float64Array): boolean {
+    const sym = this.grid.symmetry;
+    const o = this.scratch;
+    if (sym === 'axial') {
+      const r = Math.sqrt(x * x + y * y);
+      let sz = 1;
+      if (this.mirrorZ) { z = this.foldZ(z, o); sz = o[3]; }
+      if (!this.weights(0, r) || !this.weights(1, z)) return false;
+      this.pair2(cr, o);
+      const ir = r > 0 ? 1 / r : 0;
+      const c = o[0] * ir;
+      g[0] = c * x; g[1] = c * y; g[2] = o[1] * sz;
+      return true;
+    }
+    let sx = 1, sy = 1, sz = 1;
+    if (this.mirrorX && x < 0) { x = -x; sx = -1; }
+    if (this.mirrorY && y < 0) { y = -y; sy = -1; }
+    if (sym === 'none' && this.mirrorZ) { z = this.foldZ(z, o); sz = o[3]; }
+    if (!this.weights(0, x) || !this.weights(1, y)) return false;
+    if (sym === 'planar') {
+      this.pair2(cr, o);
+      g[0] = sx * o[0]; g[1] = sy * o[1]; g[2] = 0;
+      return true;
+    }
+    if (!this.weights(2, z)) return false;
+    this.pair3(cr, o);
+    g[0] = sx * o[0]; g[1] = sy * o[1]; g[2] = sz * o[2];
+    return true;
+  }
+
+  /** Bicubic gradient of φ_0 + cr φ_1 (two interleaved fields) into out[0..1]. */
+  private pair2(cr: number, out: Float64Array): void {
+    const f = this.f, b0 = this.base[0], b1 = this.base[1], s1 = this.s1;
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
+    const w0 = v0[0], w1 = v0[1], w2 = v0[2], w3 = v0[3], w4 = v0[4], w5 = v0[5];
+    const e0 = d0[0], e1 = d0[1], e2 = d0[2], e3 = d0[3], e4 = d0[4], e5 = d0[5];
+    let gx = 0, gy = 0;
+    for (let j = 0; j < 6; j++) {
+      const q = 2 * ((b1 + j) * s1 + b0);
+      const n0 = f[q] + cr * f[q + 1], n1 = f[q + 2] + cr * f[q + 3], n2 = f[q + 4] + cr * f[q + 5];
+      const n3 = f[q + 6] + cr * f[q + 7], n4 = f[q + 8] + cr * f[q + 9], n5 = f[q + 10] + cr * f[q + 11];
+      const a = w0 * n0 + w1 * n1 + w2 * n2 + w3 * n3 + w4 * n4 + w5 * n5;
+      const c = e0 * n0 + e1 * n1 + e2 * n2 + e3 * n3 + e4 * n4 + e5 * n5;
+      gx += v1[j] * c; gy += d1[j] * a;
+    }
+    out[0] = gx; out[1] = gy;
+  }
+
+  /**
+   * Tricubic gradient of φ_0 + cr φ_1 (two interleaved fields) into out[0..2]: per z plane the six
+   * rows of pair2, each row a fixed stride on from the last, the x weights in locals.
+   */
+  private pair3(cr: number, out: Float64Array): void {
+    const f = this.f, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const s1 = 2 * this.s1, s2 = 2 * this.s2;
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
+    const w0 = v0[0], w1 = v0[1], w2 = v0[2], w3 = v0[3], w4 = v0[4], w5 = v0[5];
+    const e0 = d0[0], e1 = d0[1], e2 = d0[2], e3 = d0[3], e4 = d0[4], e5 = d0[5];
+    let gx = 0, gy = 0, gz = 0;
+    let p = b2 * s2 + b1 * s1 + 2 * b0;
+    for (let k = 0; k < 6; k++, p += s2) {
+      let pv = 0, px = 0, py = 0, q = p;
+      for (let j = 0; j < 6; j++, q += s1) {
+        const n0 = f[q] + cr * f[q + 1], n1 = f[q + 2] + cr * f[q + 3], n2 = f[q + 4] + cr * f[q + 5];
+        const n3 = f[q + 6] + cr * f[q + 7], n4 = f[q + 8] + cr * f[q + 9], n5 = f[q + 10] + cr * f[q + 11];
+        const a = w0 * n0 + w1 * n1 + w2 * n2 + w3 * n3 + w4 * n4 + w5 * n5;
+        const c = e0 * n0 + e1 * n1 + e2 * n2 + e3 * n3 + e4 * n4 + e5 * n5;
+        const wv = v1[j];
+        pv += wv * a; px += wv * c; py += d1[j] * a;
+      }
+      const wv = v2[k];
+      gx += wv * px; gy += wv * py; gz += d2[k] * pv;
+    }
+    out[0] = gx; out[1] = gy; out[2] = gz;
   }
 
   /** z folded into the stored half; the sign of ∂/∂z it implies goes to out[3]. */
@@ -258,6 +343,41 @@ export class GridInterpolant {
     out[0] = p0; out[1] = x0; out[2] = y0;
     out[4] = p1; out[5] = x1; out[6] = y1;
     if (three) { out[8] = p2; out[9] = x2; out[10] = y2; }
+  }
+
+  /**
+   * sum3n for exactly two fields (a stage's dc and rf sums, the common case), the x window written
+   * out with its weights in locals: the same additions in the same order as sum3n (the same bits),
+   * without a typed-array load of a weight per node or a test for a third field in the inner loop.
+   */
+  private sum3two(out: Float64Array): void {
+    const f = this.f, b0 = this.base[0], b1 = this.base[1], b2 = this.base[2];
+    const s1 = this.s1, s2 = this.s2;
+    const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1], v2 = this.wv[2], d2 = this.wd[2];
+    const w0 = v0[0], w1 = v0[1], w2 = v0[2], w3 = v0[3], w4 = v0[4], w5 = v0[5];
+    const e0 = d0[0], e1 = d0[1], e2 = d0[2], e3 = d0[3], e4 = d0[4], e5 = d0[5];
+    let p0 = 0, x0 = 0, y0 = 0, z0 = 0, p1 = 0, x1 = 0, y1 = 0, z1 = 0;
+    for (let k = 0; k < 6; k++) {
+      let pv0 = 0, px0 = 0, py0 = 0, pv1 = 0, px1 = 0, py1 = 0;
+      const plane = (b2 + k) * s2 + b0;
+      for (let j = 0; j < 6; j++) {
+        const q = 2 * (plane + (b1 + j) * s1);
+        const f0 = f[q], g0 = f[q + 1], f1 = f[q + 2], g1 = f[q + 3], f2 = f[q + 4], g2 = f[q + 5];
+        const f3 = f[q + 6], g3 = f[q + 7], f4 = f[q + 8], g4 = f[q + 9], f5 = f[q + 10], g5 = f[q + 11];
+        const a0 = w0 * f0 + w1 * f1 + w2 * f2 + w3 * f3 + w4 * f4 + w5 * f5;
+        const c0 = e0 * f0 + e1 * f1 + e2 * f2 + e3 * f3 + e4 * f4 + e5 * f5;
+        const a1 = w0 * g0 + w1 * g1 + w2 * g2 + w3 * g3 + w4 * g4 + w5 * g5;
+        const c1 = e0 * g0 + e1 * g1 + e2 * g2 + e3 * g3 + e4 * g4 + e5 * g5;
+        const wv = v1[j], wd = d1[j];
+        pv0 += wv * a0; px0 += wv * c0; py0 += wd * a0;
+        pv1 += wv * a1; px1 += wv * c1; py1 += wd * a1;
+      }
+      const wv = v2[k], wd = d2[k];
+      p0 += wv * pv0; x0 += wv * px0; y0 += wv * py0; z0 += wd * pv0;
+      p1 += wv * pv1; x1 += wv * px1; y1 += wv * py1; z1 += wd * pv1;
+    }
+    out[0] = p0; out[1] = x0; out[2] = y0; out[3] = z0;
+    out[4] = p1; out[5] = x1; out[6] = y1; out[7] = z1;
   }
 
   /** sum3 for two or three interleaved fields, one pass (as sum2n). */

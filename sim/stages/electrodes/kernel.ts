@@ -27,15 +27,10 @@ const acc = new Float64Array(3);
  * sideways (the grounded box edge).
  */
 function accel(F: SolvedField, qm: number, x: number, y: number, z: number, cr: number, ca: number): boolean {
-  const o = F.out;
   // An RK4 stage point just past an end plane takes the field of the plane (the ion leaves there).
   if (z > F.zMax) z = F.zMax; else if (z < 0) z = 0;
-  if (!F.evaluate(x, y, z, o)) return false;
-  let gx = o[1], gy = o[2], gz = o[3];
-  const r = F.oRf, a = F.oAux;
-  if (r > 0) { gx += cr * o[r + 1]; gy += cr * o[r + 2]; gz += cr * o[r + 3]; }
-  if (a > 0) { gx += ca * o[a + 1]; gy += ca * o[a + 2]; gz += ca * o[a + 3]; }
-  acc[0] = -qm * gx; acc[1] = -qm * gy; acc[2] = -qm * gz;
+  if (!F.gradient(x, y, z, cr, ca, acc)) return false;
+  acc[0] *= -qm; acc[1] *= -qm; acc[2] *= -qm;
   return true;
 }
 

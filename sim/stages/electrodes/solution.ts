@@ -30,6 +30,14 @@ export const FLIGHT_TOLERANCE = DEFAULT_TOLERANCE;
 /** Orders of the multipole series a rod set is tracked in (`field_path: multipole`). */
 export const SERIES_ORDERS = 20;
 
+/**
+ * Fitted coefficients below this share of the largest are taken as zero on the multipole path: the
+ * fit leaves the orders a rod set's symmetry forbids at its round-off floor (about 1e-14 of A2 for
+ * the QF-4R rods), far below the smallest allowed order it resolves (about 4e-10 for n = 18), so
+ * dropping them changes the field by no more than the fit's own noise.
+ */
+const SERIES_FLOOR = 1e-12;
+
 /** Chebyshev distance in nodes within which a node counts as near an electrode (the hit test runs there). */
 const NEAR = 2;
 
@@ -57,6 +65,27 @@ export class SolvedField {
   readonly series: Float64Array;
   readonly invRef: number;
   readonly components: number;
+  /**
+   * Multipole path, gradient only: f'(w) = w^(n0−1) Σ_k b_k (w^d)^k with b_k = n a_n, n = n0 + k·d,
+   * over the orders left after SERIES_FLOOR (a rod set's symmetry leaves every d-th: d = 4 for a
+   * quadrupole's n = 2, 6, 10, …), so that a point costs a few complex products instead of a Horner
+   * pass of all 20 orders per field. Per k: Re, Im of b_k for each field (dc, rf, aux).
+   */
+  private readonly deriv: Float64Array;
+  private readonly dn0: number;
+  private readonly dStep: number;
+  private readonly dTerms: number;
+  /**
+   * Square of the transverse distance from the axis within which no electrode can be: the nearest
+   * electrode node's distance less two cells (a surface lies within one cell of its nodes). The hit
+   * test ends there without a lookup: most steps of a beam are near the axis.
+   */
+  private readonly clear2: number;
+  /** Mirror planes, read per step by the hit test. */
+  private readonly mx: boolean;
+  private readonly my: boolean;
+  private readonly mz: boolean;
+  private readonly zMid: number;
 
   constructor(problem: FieldProblem, sol: FieldSolution, path: 'grid' | 'multipole' = 'grid') {
     this.problem = problem;
@@ -94,12 +123,61 @@ export class SolvedField {
         }
       });
     }
+    const d = sparseDerivative(this.series, C, SERIES_ORDERS);
+    this.deriv = d.b; this.dn0 = d.n0; this.dStep = d.step; this.dTerms = d.terms;
     this.electrodes = problem.electrodes.map((e) => new ElectrodeSet(e, g.symmetry));
     this.near = nearMask(g, sol.inside);
+    this.clear2 = clearRadius(g, sol.inside) ** 2;
     this.axial = g.symmetry === 'axial';
     this.planar = g.symmetry === 'planar';
     this.reach = (this.axial ? problem.grid.radius : problem.grid.halfWidth) ?? 0;
     this.zMax = this.planar ? Infinity : problem.grid.length;
+    this.mx = !this.axial && g.mirror.includes('x');
+    this.my = !this.axial && g.mirror.includes('y');
+    this.mz = !this.planar && g.mirror.includes('z');
+    this.zMid = problem.grid.length / 2;
+  }
+
+  /**
+   * ∇(Φ_dc + cr Φ_rf + ca Φ_aux) at a stage-local point into g[0..2] (the drives' superposition, so
+   * the kernels need one gradient per stage point); false outside the grid sideways.
+   */
+  gradient(x: number, y: number, z: number, cr: number, ca: number, g: Float64Array): boolean {
+    if (this.series.length === 0) {
+      if (this.components === 2 && this.oRf > 0) return this.interp.gradientOfPair(x, y, z, cr, g);
+      const o = this.out;
+      if (!this.interp.evaluate(x, y, z, o)) return false;
+      let gx = o[1], gy = o[2], gz = o[3];
+      const r = this.oRf, a = this.oAux;
+      if (r > 0) { gx += cr * o[r + 1]; gy += cr * o[r + 2]; gz += cr * o[r + 3]; }
+      if (a > 0) { gx += ca * o[a + 1]; gy += ca * o[a + 2]; gz += ca * o[a + 3]; }
+      g[0] = gx; g[1] = gy; g[2] = gz;
+      return true;
+    }
+    if (!(Math.abs(x) <= this.reach && Math.abs(y) <= this.reach)) return false;
+    const k = this.invRef, wr = x * k, wi = y * k;
+    // u = w^d and p = w^(n0−1) by repeated products (d, n0 ≤ 20).
+    let ur = wr, ui = wi;
+    for (let e = 1; e < this.dStep; e++) { const t = ur * wr - ui * wi; ui = ur * wi + ui * wr; ur = t; }
+    let pr = 1, pi = 0;
+    for (let e = 1; e < this.dn0; e++) { const t = pr * wr - pi * wi; pi = pr * wi + pi * wr; pr = t; }
+    const b = this.deriv, C = this.components, stride = 2 * C;
+    const rf = this.oRf > 0 ? 2 : -1, aux = this.oAux > 0 ? 2 * (C - 1) : -1;
+    let o = stride * (this.dTerms - 1);
+    let fr = b[o], fi = b[o + 1];
+    if (rf > 0) { fr += cr * b[o + rf]; fi += cr * b[o + rf + 1]; }
+    if (aux > 0) { fr += ca * b[o + aux]; fi += ca * b[o + aux + 1]; }
+    for (let t = this.dTerms - 2; t >= 0; t--) {
+      o -= stride;
+      let cr0 = b[o], ci0 = b[o + 1];
+      if (rf > 0) { cr0 += cr * b[o + rf]; ci0 += cr * b[o + rf + 1]; }
+      if (aux > 0) { cr0 += ca * b[o + aux]; ci0 += ca * b[o + aux + 1]; }
+      const tr = fr * ur - fi * ui + cr0;
+      fi = fr * ui + fi * ur + ci0; fr = tr;
+    }
+    // ∂Φ/∂x − i ∂Φ/∂y = f'(w)/r_ref.
+    g[0] = (fr * pr - fi * pi) * k; g[1] = -(fr * pi + fi * pr) * k; g[2] = 0;
+    return true;
   }
 
   /**
@@ -128,7 +206,9 @@ export class SolvedField {
 
   /** Index of the electrode containing a stage-local point (grid coordinates for its shapes), or −1. */
   electrodeAt(x: number, y: number, z: number): number {
-    const a = this.axial ? Math.sqrt(x * x + y * y) : x, b = this.axial ? z : y, c = this.planar || this.axial ? 0 : z;
+    const t2 = x * x + y * y;
+    if (t2 < this.clear2) return -1;
+    const a = this.axial ? Math.sqrt(t2) : x, b = this.axial ? z : y, c = this.planar || this.axial ? 0 : z;
     if (!this.isNear(a, b, c)) return -1;
     for (let k = 0; k < this.electrodes.length; k++) if (this.electrodes[k].inside(a, b, c)) return k;
     return -1;
@@ -137,13 +217,11 @@ export class SolvedField {
   /** The nearest stored node's mask bit (mirror images folded into the stored half). */
   private isNear(a: number, b: number, c: number): boolean {
     const g = this.grid, h = g.spacing;
-    const m = g.mirror;
-    if (!this.axial && m.includes('x')) a = Math.abs(a);
-    if (!this.axial && m.includes('y')) b = Math.abs(b);
-    const zAxis = this.axial ? 1 : 2;
-    if (m.includes('z') && !this.planar) {
-      const zc = this.problem.grid.length / 2;
-      if (zAxis === 1) b = zc + Math.abs(b - zc); else c = zc + Math.abs(c - zc);
+    if (this.mx) a = Math.abs(a);
+    if (this.my) b = Math.abs(b);
+    if (this.mz) {
+      const zc = this.zMid;
+      if (this.axial) b = zc + Math.abs(b - zc); else c = zc + Math.abs(c - zc);
     }
     const i = Math.round((a - g.origin[0]) / h), j = Math.round((b - g.origin[1]) / h);
     const k = this.planar || this.axial ? 0 : Math.round((c - g.origin[2]) / h);
@@ -163,6 +241,54 @@ export class SolvedField {
     if (this.planar) return e.entry(px, py, 0, qx, qy, 0);
     return e.entry(px, py, pz, qx, qy, qz);
   }
+}
+
+/**
+ * The derivative series of the multipole path (see SolvedField.deriv) from the fitted coefficients
+ * (per field c and order n: Re, Im of a_n at 2(c(N+1) + n)): the orders above SERIES_FLOOR of
+ * their field's largest in any field, their lowest n0 ≥ 1 and the gcd d of their spacings.
+ */
+function sparseDerivative(series: Float64Array, C: number, N: number): { b: Float64Array; n0: number; step: number; terms: number } {
+  if (series.length === 0) return { b: new Float64Array(0), n0: 1, step: 1, terms: 0 };
+  // The floor is taken per field: the dc sum is in volts, the rf and aux sums per volt of drive.
+  const max = new Float64Array(C);
+  for (let c = 0; c < C; c++) for (let n = 0; n <= N; n++) max[c] = Math.max(max[c], Math.hypot(series[2 * (c * (N + 1) + n)], series[2 * (c * (N + 1) + n) + 1]));
+  const kept: number[] = [];
+  for (let n = 1; n <= N; n++) {
+    let big = false;
+    for (let c = 0; c < C; c++) {
+      const o = 2 * (c * (N + 1) + n);
+      if (Math.hypot(series[o], series[o + 1]) > SERIES_FLOOR * max[c]) big = true;
+    }
+    if (big) kept.push(n);
+  }
+  if (kept.length === 0) return { b: new Float64Array(2 * C), n0: 1, step: 1, terms: 1 };
+  const gcd = (a: number, b: number): number => (b === 0 ? a : gcd(b, a % b));
+  const n0 = kept[0];
+  const step = kept.slice(1).reduce((g, n) => gcd(g, n - n0), 0) || 1;
+  const terms = (kept[kept.length - 1] - n0) / step + 1;
+  const b = new Float64Array(2 * C * terms);
+  for (let t = 0; t < terms; t++) {
+    const n = n0 + t * step;
+    if (!kept.includes(n)) continue;
+    for (let c = 0; c < C; c++) {
+      const o = 2 * (c * (N + 1) + n);
+      b[2 * (t * C + c)] = n * series[o]; b[2 * (t * C + c) + 1] = n * series[o + 1];
+    }
+  }
+  return { b, n0, step, terms };
+}
+
+/** See SolvedField.clear2: the electrode nodes' least distance from the axis, less two cells, m (≥ 0). */
+function clearRadius(g: SolvedGrid, inside: Int16Array): number {
+  const [n0, n1, n2] = g.shape, h = g.spacing, axial = g.symmetry === 'axial';
+  let d2 = Infinity;
+  for (let k = 0; k < n2; k++) for (let j = 0; j < n1; j++) for (let i = 0; i < n0; i++) {
+    if (inside[i + n0 * (j + n1 * k)] < 0) continue;
+    const a = g.origin[0] + i * h, b = axial ? 0 : g.origin[1] + j * h;
+    d2 = Math.min(d2, a * a + b * b);
+  }
+  return Math.max(0, Math.sqrt(d2) - 2 * h);
 }
 
 function nearMask(g: SolvedGrid, inside: Int16Array): Uint8Array {

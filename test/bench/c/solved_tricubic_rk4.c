@@ -1,7 +1,8 @@
 /* Plain C reference for test/bench/solved.bench.ts: ions through a solved 3D electrode field, the
  * same arithmetic as sim/fields/interpolate.ts (cubic Hermite per axis whose node derivatives are
  * five-point differences, a 6-tap filter per axis, 216 nodes per point, two interleaved fields:
- * the dc and the rf sums) and sim/stages/electrodes/kernel.ts (classic RK4 on h = T/n, RF phase from
+ * the dc and the rf sums, combined node by node as dc + cr·rf before the sums, as
+ * GridInterpolant.gradientOfPair does) and sim/stages/electrodes/kernel.ts (classic RK4 on h = T/n, RF phase from
  * a half-step cos/sin table, exit on the end plane by linear interpolation within the step). The
  * ions of the benchmark stay clear of the electrodes, so no inside test is written here (the
  * TypeScript kernel still pays its near-mask lookup per step). Single thread, cc -O2.
@@ -59,8 +60,9 @@ static int s1, s2;
 static double zPlane;
 static int mirX, mirY, mirZ;
 
-/* Gradients of the two fields at (x, y, z) into g[0..5]; 0 outside. */
-static int grad(double x, double y, double z, double *g) {
+/* Gradient of the superposition dc + cr·rf at (x, y, z) into g[0..2]; 0 outside. The two node
+ * values are combined first, then one pass with three sums (as GridInterpolant.gradientOfPair). */
+static int grad(double x, double y, double z, double cr, double *g) {
   double sx = 1, sy = 1, sz = 1;
   if (mirX && x < 0) { x = -x; sx = -1; }
   if (mirY && y < 0) { y = -y; sy = -1; }
@@ -68,20 +70,18 @@ static int grad(double x, double y, double z, double *g) {
   int b0, b1, b2;
   double v0[6], d0[6], v1[6], d1[6], v2[6], d2[6];
   if (!weights(&ax[0], x, &b0, v0, d0) || !weights(&ax[1], y, &b1, v1, d1) || !weights(&ax[2], z, &b2, v2, d2)) return 0;
-  double x0 = 0, y0 = 0, z0 = 0, x1 = 0, y1 = 0, z1 = 0;
+  double gx = 0, gy = 0, gz = 0;
   for (int k = 0; k < 6; k++) {
-    double pv0 = 0, px0 = 0, py0 = 0, pv1 = 0, px1 = 0, py1 = 0;
+    double pv = 0, px = 0, py = 0;
     for (int j = 0; j < 6; j++) {
       const double *q = F + 2 * ((b2 + k) * s2 + (b1 + j) * s1 + b0);
-      double a0 = 0, e0 = 0, a1 = 0, e1 = 0;
-      for (int i = 0; i < 6; i++, q += 2) { a0 += v0[i] * q[0]; e0 += d0[i] * q[0]; a1 += v0[i] * q[1]; e1 += d0[i] * q[1]; }
-      pv0 += v1[j] * a0; px0 += v1[j] * e0; py0 += d1[j] * a0;
-      pv1 += v1[j] * a1; px1 += v1[j] * e1; py1 += d1[j] * a1;
+      double a = 0, e = 0;
+      for (int i = 0; i < 6; i++, q += 2) { double nv = q[0] + cr * q[1]; a += v0[i] * nv; e += d0[i] * nv; }
+      pv += v1[j] * a; px += v1[j] * e; py += d1[j] * a;
     }
-    x0 += v2[k] * px0; y0 += v2[k] * py0; z0 += d2[k] * pv0;
-    x1 += v2[k] * px1; y1 += v2[k] * py1; z1 += d2[k] * pv1;
+    gx += v2[k] * px; gy += v2[k] * py; gz += d2[k] * pv;
   }
-  g[0] = sx * x0; g[1] = sy * y0; g[2] = sz * z0; g[3] = sx * x1; g[4] = sy * y1; g[5] = sz * z1;
+  g[0] = sx * gx; g[1] = sy * gy; g[2] = sz * gz;
   return 1;
 }
 
@@ -129,12 +129,12 @@ int main(int argc, char **argv) {
     double psi = omega * tau, cp = cos(psi), sp = sin(psi);
     long full = (long)floor(maxTime / h);
     int j = 0;
-    double g[6];
+    double g[3];
     for (long n = 0; n < full; n++) {
       double r0 = V * (cosT[j] * cp - sinT[j] * sp), r1 = V * (cosT[j + 1] * cp - sinT[j + 1] * sp), r2 = V * (cosT[j + 2] * cp - sinT[j + 2] * sp);
       double hh = 0.5 * h, h6 = h / 6;
       double zz;
-#define ACC(X, Y, Z, R, AX, AY, AZ) zz = (Z) > L ? L : ((Z) < 0 ? 0 : (Z)); if (!grad(X, Y, zz, g)) goto lost; AX = -qm * (g[0] + (R) * g[3]); AY = -qm * (g[1] + (R) * g[4]); AZ = -qm * (g[2] + (R) * g[5]);
+#define ACC(X, Y, Z, R, AX, AY, AZ) zz = (Z) > L ? L : ((Z) < 0 ? 0 : (Z)); if (!grad(X, Y, zz, R, g)) goto lost; AX = -qm * g[0]; AY = -qm * g[1]; AZ = -qm * g[2];
       double k1x, k1y, k1z, k2x, k2y, k2z, k3x, k3y, k3z, k4x, k4y, k4z;
       ACC(x, y, z, r0, k1x, k1y, k1z);
       double x2 = x + hh * vx, y2 = y + hh * vy, z2 = z + hh * vz, u2 = vx + hh * k1x, w2 = vy + hh * k1y, s2v = vz + hh * k1z;
