@@ -10,6 +10,10 @@
 //     kernel's field is linear, so its RK4 step is a precomputed 2×2 map per axis (8 products,
 //     sim/stages/quadrupole/kernel.ts); the series path evaluates a nonlinear field four times a
 //     step, so the two differ by more than the arithmetic of the same method.
+//  3. the issue's sweep: 101 m/z points × 2,000 ions through a 150 mm round-rod filter at 1.2 MHz
+//     (the QF-4R cross-section as a planar rod set, the QF-4 peak-scan source, 2 workers) with
+//     `iontrail sweep` as a user types it, on the multipole path (goal ≤ 2 min), and the grid
+//     path on a tenth of the ions (scaled ×10, said so).
 // The field cache goes to a temporary folder, removed at the end.
 
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -25,6 +29,8 @@ import { allocateBatch } from '../../sim/core/batch.js';
 import type { IonCursor, StepContext } from '../../sim/core/cursor.js';
 import { ATOMIC_MASS_UNIT, ELECTRONVOLT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { buildC, repoRoot, runC } from './cbuild.js';
+import { execFileSync } from 'node:child_process';
+import { loadavg } from 'node:os';
 
 const m = 502 * ATOMIC_MASS_UNIT, q = ELEMENTARY_CHARGE;
 const SPC = 40;
@@ -69,6 +75,28 @@ function writeCInput(path: string, st: ElectrodesStage, ions: Start[], maxTime: 
   ions.forEach((s, i) => ionData.set([s.x, s.y, s.z, s.vx, s.vy, s.vz, s.tau], 7 * i));
   writeFileSync(path, Buffer.concat([Buffer.from(hd.buffer), Buffer.from(ionData.buffer), Buffer.from(values.buffer, values.byteOffset, values.byteLength)]));
 }
+
+/** The sweep of part 3: the QF-4R rods (R/r0 = 1.13) as a planar set with the QF-4 peak-scan source. */
+const ROUND_ROD_SWEEP = `name: bench round-rod peak scan (Skerry QF-4R cross-section)
+seed: 42
+stages:
+  - type: electrodes
+    length: 150 mm
+    field_path: multipole
+    grid: { symmetry: planar, spacing: 0.05 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
+    rf: { amplitude: 832 V, frequency: 1.2 MHz, phase: 0 deg }
+    electrodes:
+      - name: rods x
+        potential: { dc: 138.528 V, rf: 1 }
+        shapes: [ { circle: { center: [8.52 mm, 0 mm], radius: 4.52 mm } }, { circle: { center: [-8.52 mm, 0 mm], radius: 4.52 mm } } ]
+      - name: rods y
+        potential: { dc: -138.528 V, rf: -1 }
+        shapes: [ { circle: { center: [0 mm, 8.52 mm], radius: 4.52 mm } }, { circle: { center: [0 mm, -8.52 mm], radius: 4.52 mm } } ]
+detector: { radius: 4 mm }
+ions:
+  - { mz: 502, count: 2000, position: { x: 0 mm, y: 0 mm, z: 0 mm, spread: 0.1 mm }, energy: 5 eV, energy_spread: 0.2 eV, angle_spread: 1 deg, direction: axial, rf_phase: uniform }
+run: { steps_per_cycle: 40, max_time: 300 us, record_every: 0 }
+`;
 
 export async function bench(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), 'iontrail-bench-solved-'));
@@ -125,6 +153,26 @@ ions:
     console.log(`multipole path, 1 thread:       ${(mp.steps / mp.seconds / 1e6).toFixed(2)} M ion-steps/s (${mp.steps} steps)`);
     console.log(`ideal quadrupole kernel:        ${(iq.steps / iq.seconds / 1e6).toFixed(2)} M ion-steps/s (${iq.steps} steps)`);
     console.log(`ratio multipole path / ideal quadrupole kernel: ${((mp.steps / mp.seconds) / (iq.steps / iq.seconds)).toFixed(2)}  (goal >= 0.5; the ideal kernel is RK4 as a transfer matrix of its linear field)`);
+
+    // 3. The round-rod sweep through the command line (its own process, both workers).
+    const sweepScene = join(dir, 'qf4r-sweep.yaml');
+    writeFileSync(sweepScene, ROUND_ROD_SWEEP);
+    const cli = join(repoRoot(), 'cli/iontrail.js');
+    const sweep = (path: 'multipole' | 'grid', ions: number) => {
+      const file = join(dir, `${path}.yaml`);
+      writeFileSync(file, ROUND_ROD_SWEEP.replace('field_path: multipole', `field_path: ${path}`));
+      execFileSync(process.execPath, [cli, 'field', file, '-o', join(dir, `${path}-field`), '--force'], { env: process.env }); // solved outside the timing
+      const load = loadavg()[0];
+      const t = performance.now();
+      const outText = execFileSync(process.execPath, [cli, 'sweep', file, '--vary', 'mz=496..508:101', '--set', `ions.0.count=${ions}`, '-o', join(dir, `${path}-sweep`), '--workers', '2'], { env: process.env, encoding: 'utf8' });
+      const wall = (performance.now() - t) / 1e3;
+      const peak = outText.split('\n').find((l) => l.includes('peak m/z'))?.trim() ?? '';
+      return { wall, peak, load };
+    };
+    const mpSweep = sweep('multipole', 2000);
+    console.log(`round-rod sweep, 101 m/z × 2000 ions, 150 mm at 1.2 MHz, multipole path, 2 workers: ${mpSweep.wall.toFixed(1)} s wall (goal ≤ 120 s; load ${mpSweep.load.toFixed(1)} at start); ${mpSweep.peak}`);
+    const grid = sweep('grid', 200);
+    console.log(`  the same on the grid path with 200 ions a point: ${grid.wall.toFixed(1)} s, so about ${(10 * grid.wall).toFixed(0)} s for 2000 (scaled); ${grid.peak}`);
   } finally {
     if (saved === undefined) delete process.env.XDG_CACHE_HOME; else process.env.XDG_CACHE_HOME = saved;
     rmSync(dir, { recursive: true, force: true });
