@@ -13,6 +13,7 @@
 // by node (`components` > 1): the weights depend on the point only, so one evaluation serves all.
 
 import type { SolvedGrid } from './problem.js';
+import { Pair3Simd } from './simd/pair3.js';
 
 /** Five-point derivative stencils ×12h: central, and the one-sided rows for nodes 0 and 1. */
 const CENTRAL = [1, -8, 0, 8, -1];
@@ -41,8 +42,10 @@ export class GridInterpolant {
   private readonly s2: number;
   /** Scratch: per axis the base node, value weights and derivative weights (per unit length). */
   private readonly base = new Int32Array(3);
-  private readonly wv = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
-  private readonly wd = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
+  private readonly wv: Float64Array[] = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
+  private readonly wd: Float64Array[] = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
+  /** 3D pairs: the SIMD form of pair3 (made on first use; null where unavailable), whose memory holds the weights. */
+  private simd: Pair3Simd | null | undefined;
   /** Scratch: node derivative stencil weights of the cell's two nodes. */
   private readonly sa = new Float64Array(6);
   private readonly sb = new Float64Array(6);
@@ -55,8 +58,10 @@ export class GridInterpolant {
   /** Fields stored per node (interleaved); evaluate writes 4 numbers per field. */
   readonly components: number;
 
-  constructor(grid: SolvedGrid, values: ArrayLike<number>, components = 1) {
+  /** simd false: pair3 stays scalar (for the check that both forms give the same bits). */
+  constructor(grid: SolvedGrid, values: ArrayLike<number>, components = 1, simd = true) {
     this.grid = grid;
+    if (!simd) this.simd = null;
     this.f = values instanceof Float64Array ? values : Float64Array.from(values);
     if (!(components >= 1 && components <= 3)) throw new Error(`1 to 3 interleaved fields, got ${components}`);
     this.components = components;
@@ -202,17 +207,32 @@ export class GridInterpolant {
     let sx = 1, sy = 1, sz = 1;
     if (this.mirrorX && x < 0) { x = -x; sx = -1; }
     if (this.mirrorY && y < 0) { y = -y; sy = -1; }
-    if (sym === 'none' && this.mirrorZ) { z = this.foldZ(z, o); sz = o[3]; }
-    if (!this.weights(0, x) || !this.weights(1, y)) return false;
     if (sym === 'planar') {
+      if (!this.weights(0, x) || !this.weights(1, y)) return false;
       this.pair2(cr, o);
       g[0] = sx * o[0]; g[1] = sy * o[1]; g[2] = 0;
       return true;
     }
-    if (!this.weights(2, z)) return false;
+    if (sym === 'none' && this.mirrorZ) { z = this.foldZ(z, o); sz = o[3]; }
+    if (this.simd === undefined) this.useSimd();
+    if (!this.weights(0, x) || !this.weights(1, y) || !this.weights(2, z)) return false;
+    const k = this.simd;
+    if (k) {
+      k.gradient(this.base[0], this.base[1], this.base[2], this.s1, this.s2, cr);
+      const r = k.result;
+      g[0] = sx * r[0]; g[1] = sy * r[1]; g[2] = sz * r[2];
+      return true;
+    }
     this.pair3(cr, o);
     g[0] = sx * o[0]; g[1] = sy * o[1]; g[2] = sz * o[2];
     return true;
+  }
+
+  /** Moves the weights into a SIMD instance's memory, where pair3's SIMD form reads them. */
+  private useSimd(): void {
+    const [n0, n1, n2] = this.grid.shape;
+    this.simd = this.components === 2 && this.grid.symmetry === 'none' ? Pair3Simd.create(this.f, n0, n1, n2) : null;
+    if (this.simd) for (let a = 0; a < 3; a++) { this.wv[a] = this.simd.wv[a]; this.wd[a] = this.simd.wd[a]; }
   }
 
   /** Bicubic gradient of φ_0 + cr φ_1 (two interleaved fields) into out[0..1]. */
@@ -250,8 +270,9 @@ export class GridInterpolant {
       for (let j = 0; j < 6; j++, q += s1) {
         const n0 = f[q] + cr * f[q + 1], n1 = f[q + 2] + cr * f[q + 3], n2 = f[q + 4] + cr * f[q + 5];
         const n3 = f[q + 6] + cr * f[q + 7], n4 = f[q + 8] + cr * f[q + 9], n5 = f[q + 10] + cr * f[q + 11];
-        const a = w0 * n0 + w1 * n1 + w2 * n2 + w3 * n3 + w4 * n4 + w5 * n5;
-        const c = e0 * n0 + e1 * n1 + e2 * n2 + e3 * n3 + e4 * n4 + e5 * n5;
+        // Even and odd taps summed apart, as the lanes of the SIMD form (the same bits).
+        const a = (w0 * n0 + w2 * n2 + w4 * n4) + (w1 * n1 + w3 * n3 + w5 * n5);
+        const c = (e0 * n0 + e2 * n2 + e4 * n4) + (e1 * n1 + e3 * n3 + e5 * n5);
         const wv = v1[j];
         pv += wv * a; px += wv * c; py += d1[j] * a;
       }

@@ -1,8 +1,8 @@
 /* Plain C reference for test/bench/solved.bench.ts: ions through a solved 3D electrode field, the
  * same arithmetic as sim/fields/interpolate.ts (cubic Hermite per axis whose node derivatives are
  * five-point differences, a 6-tap filter per axis, 216 nodes per point, two interleaved fields:
- * the dc and the rf sums, combined node by node as dc + cr·rf before the sums, as
- * GridInterpolant.gradientOfPair does) and sim/stages/electrodes/kernel.ts (classic RK4 on h = T/n, RF phase from
+ * the dc and the rf sums, combined node by node as dc + cr·rf before the sums, the even and odd
+ * x taps summed apart, as GridInterpolant.gradientOfPair and its SIMD form pair3.wat do) and sim/stages/electrodes/kernel.ts (classic RK4 on h = T/n, RF phase from
  * a half-step cos/sin table, exit on the end plane by linear interpolation within the step). The
  * ions of the benchmark stay clear of the electrodes, so no inside test is written here (the
  * TypeScript kernel still pays its near-mask lookup per step). Single thread, cc -O2.
@@ -75,8 +75,11 @@ static int grad(double x, double y, double z, double cr, double *g) {
     double pv = 0, px = 0, py = 0;
     for (int j = 0; j < 6; j++) {
       const double *q = F + 2 * ((b2 + k) * s2 + (b1 + j) * s1 + b0);
-      double a = 0, e = 0;
-      for (int i = 0; i < 6; i++, q += 2) { double nv = q[0] + cr * q[1]; a += v0[i] * nv; e += d0[i] * nv; }
+      /* Even and odd taps summed apart, as the lanes of sim/fields/simd/pair3.wat. */
+      double n[6];
+      for (int i = 0; i < 6; i++) n[i] = q[2 * i] + cr * q[2 * i + 1];
+      double a = (v0[0] * n[0] + v0[2] * n[2] + v0[4] * n[4]) + (v0[1] * n[1] + v0[3] * n[3] + v0[5] * n[5]);
+      double e = (d0[0] * n[0] + d0[2] * n[2] + d0[4] * n[4]) + (d0[1] * n[1] + d0[3] * n[3] + d0[5] * n[5]);
       pv += v1[j] * a; px += v1[j] * e; py += d1[j] * a;
     }
     gx += v2[k] * px; gy += v2[k] * py; gz += d2[k] * pv;
