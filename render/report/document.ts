@@ -6,7 +6,7 @@ import type { ReportResults, FigureEntry } from '../../sim/report/results.js';
 import type { OperatingPointRow } from '../../sim/report/operating-points.js';
 import { formatSI } from '../../sim/units/quantity.js';
 import { TOF_RESOLUTION_DEFINITION } from '../../sim/analysis/arrival.js';
-import { SCENE_KIND_TEXT, type Verdict, type KeyNumber, type TargetCheck } from '../../sim/report/verdict.js';
+import { sceneKindText, type Verdict, type KeyNumber, type TargetCheck } from '../../sim/report/verdict.js';
 import type { InputRow } from '../../sim/scene/inputs.js';
 
 export type Block =
@@ -292,7 +292,7 @@ export function reportDocument(r: ReportResults): ReportDoc {
   });
   return {
     title: r.scene_name,
-    subtitle: `Design review: ${SCENE_KIND_TEXT[r.scene_kind] ?? r.scene_kind} · iontrail ${p.tool_version} · seed ${p.seed}`,
+    subtitle: `Design review: ${sceneKindText(r.scene_kind, r.scan as Record<string, unknown> | null)} · iontrail ${p.tool_version} · seed ${p.seed}`,
     sections,
   };
 }

@@ -59,11 +59,18 @@ export interface VerdictInput {
 export const SCENE_KIND_TEXT: Record<SceneKind, string> = {
   quadrupole: 'quadrupole mass filter',
   trap: 'RF ion trap (storage)',
-  'trap-scan': 'RF ion trap, mass-selective instability scan',
+  'trap-scan': 'RF ion trap, mass scan',
   'tof-linear': 'linear time-of-flight analyzer',
   'tof-reflectron': 'reflectron time-of-flight analyzer',
   other: 'ion-optical scene',
 };
+
+/** The scene kind in words, with the way a trap scan ejects (results.json scan.mode). */
+export function sceneKindText(kind: SceneKind, scan: Record<string, unknown> | null): string {
+  if (kind !== 'trap-scan') return SCENE_KIND_TEXT[kind] ?? kind;
+  const how = scan?.mode === 'resonance-ejection' ? 'resonance ejection' : scan?.mode === 'instability' ? 'mass-selective instability' : null;
+  return how ? `${SCENE_KIND_TEXT[kind]} by ${how}` : SCENE_KIND_TEXT[kind];
+}
 
 const numOrNull = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
 const list = (v: unknown): Record<string, unknown>[] => (Array.isArray(v) ? (v as Record<string, unknown>[]) : []);
@@ -195,5 +202,5 @@ export function verdict(targets: Targets | undefined, r: VerdictInput): Verdict 
   const status: Verdict['status'] = checks.length === 0 ? 'no targets'
     : checks.some((c) => c.status === 'fail') ? 'fail'
       : checks.some((c) => c.status === 'pass') ? 'pass' : 'not evaluated';
-  return { status, purpose: `${SCENE_KIND_TEXT[r.scene_kind]}: ${r.scene_name}`, key_numbers: keyNumbers(r), targets: checks };
+  return { status, purpose: `${sceneKindText(r.scene_kind, r.scan)}: ${r.scene_name}`, key_numbers: keyNumbers(r), targets: checks };
 }

@@ -11,6 +11,7 @@ import { iontrail, ROOT, tempDir } from '../helpers/cli.js';
 import { readTrajectories } from '../../sim/runfolder/index.js';
 import { buildFigure } from '../../render/plot/index.js';
 import { TARGET_KEYS } from '../../sim/scene/targets.js';
+import { sceneKindText } from '../../sim/report/verdict.js';
 
 let root = '';
 beforeAll(() => { root = tempDir('iontrail-review-'); });
@@ -42,7 +43,9 @@ describe('trap mass scan with targets', () => {
 
   it('gives the verdict in results.json from the run\'s own numbers', () => {
     const v = res.verdict;
-    expect(v.purpose).toMatch(/^RF ion trap, mass-selective instability scan: Skerry T-7/);
+    expect(v.purpose).toMatch(/^RF ion trap, mass scan by mass-selective instability: Skerry T-7/);
+    // A scan with supplementary AC (the LQ-2 demo) is named for resonance ejection instead.
+    expect(sceneKindText('trap-scan', { mode: 'resonance-ejection' })).toBe('RF ion trap, mass scan by resonance ejection');
     const by = Object.fromEntries(v.targets.map((t: any) => [t.key, t]));
     // The worst species' resolution is the smallest of the scan's per-species figures (summary.json).
     const summary = JSON.parse(readFileSync(join(dir, 'run', 'summary.json'), 'utf8'));
