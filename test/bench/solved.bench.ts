@@ -29,6 +29,7 @@ import { allocateBatch } from '../../sim/core/batch.js';
 import type { IonCursor, StepContext } from '../../sim/core/cursor.js';
 import { ATOMIC_MASS_UNIT, ELECTRONVOLT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
 import { buildC, repoRoot, runC } from './cbuild.js';
+import { roundRodStage } from '../helpers/round-rods.js';
 import { execFileSync } from 'node:child_process';
 import { loadavg } from 'node:os';
 
@@ -80,19 +81,7 @@ function writeCInput(path: string, st: ElectrodesStage, ions: Start[], maxTime: 
 const ROUND_ROD_SWEEP = `name: bench round-rod peak scan (Skerry QF-4R cross-section)
 seed: 42
 stages:
-  - type: electrodes
-    length: 150 mm
-    field_path: multipole
-    grid: { symmetry: planar, spacing: 0.05 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
-    rf: { amplitude: 832 V, frequency: 1.2 MHz, phase: 0 deg }
-    electrodes:
-      - name: rods x
-        potential: { dc: 138.528 V, rf: 1 }
-        shapes: [ { circle: { center: [8.52 mm, 0 mm], radius: 4.52 mm } }, { circle: { center: [-8.52 mm, 0 mm], radius: 4.52 mm } } ]
-      - name: rods y
-        potential: { dc: -138.528 V, rf: -1 }
-        shapes: [ { circle: { center: [0 mm, 8.52 mm], radius: 4.52 mm } }, { circle: { center: [0 mm, -8.52 mm], radius: 4.52 mm } } ]
-detector: { radius: 4 mm }
+${roundRodStage({ length: '150 mm', spacing: '0.05 mm', dc: '138.528 V', rf: '{ amplitude: 832 V, frequency: 1.2 MHz, phase: 0 deg }' })}detector: { radius: 4 mm }
 ions:
   - { mz: 502, count: 2000, position: { x: 0 mm, y: 0 mm, z: 0 mm, spread: 0.1 mm }, energy: 5 eV, energy_spread: 0.2 eV, angle_spread: 1 deg, direction: axial, rf_phase: uniform }
 run: { steps_per_cycle: 40, max_time: 300 us, record_every: 0 }
@@ -127,19 +116,7 @@ export async function bench(): Promise<void> {
     const rf = st.rf!;
     const planar = parseScene(`name: bench multipole path
 stages:
-  - type: electrodes
-    length: 150 mm
-    field_path: multipole
-    grid: { symmetry: planar, spacing: 0.05 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
-    rf: { amplitude: ${rf.amplitude} V, frequency: ${rf.frequency} Hz }
-    electrodes:
-      - name: rods x
-        potential: { dc: 138.3 V, rf: 1 }
-        shapes: [ { circle: { center: [8.52 mm, 0 mm], radius: 4.52 mm } }, { circle: { center: [-8.52 mm, 0 mm], radius: 4.52 mm } } ]
-      - name: rods y
-        potential: { dc: -138.3 V, rf: -1 }
-        shapes: [ { circle: { center: [0 mm, 8.52 mm], radius: 4.52 mm } }, { circle: { center: [0 mm, -8.52 mm], radius: 4.52 mm } } ]
-ions:
+${roundRodStage({ length: '150 mm', spacing: '0.05 mm', dc: '138.3 V', rf: `{ amplitude: ${rf.amplitude} V, frequency: ${rf.frequency} Hz }` })}ions:
   - { mz: 502, count: 1 }
 `, 'bench.yaml');
     t0 = performance.now();

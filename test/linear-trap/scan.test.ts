@@ -15,21 +15,9 @@ import { parseScene } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { floquet } from '../../sim/mathieu/floquet.js';
 import { tempDir } from '../helpers/temp.js';
+import { linearTrapScanScene } from './scan-scene.js';
 
-const scene = (aux: string) => `
-seed: 5
-stages:
-  - type: linear-trap
-    r0: 4 mm
-    length: 40 mm
-    rf: { amplitude: 150 V, frequency: 1 MHz, ramp: { to: 330 V, over: 1 ms } }
-    end_dc: 10 V
-    kappa: 0.05
-${aux}
-ions:
-  - { mz: 200, count: 40, position: { z: 20 mm, spread: 0.2 mm, spread_z: 0.5 mm }, energy: 0.01 eV, direction: isotropic }
-run: { steps_per_cycle: 40, max_time: 1 ms, record_every: 0 }
-`;
+const scene = (aux: string) => linearTrapScanScene(aux);
 
 type Species = { ejected: number; ejection_qx_mean: number; ejection_qx_expected: number; apparent_mz: number };
 async function scan(aux: string) {

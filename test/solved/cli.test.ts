@@ -5,6 +5,7 @@
 // input: one line, exit 2, nothing written.
 
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { roundRodStage } from '../helpers/round-rods.js';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { iontrail, tempDir } from '../helpers/cli.js';
@@ -106,19 +107,7 @@ run: { max_time: 20 us, step_without_rf: 2 ns }
     const f = write('rods.yaml', `name: Skerry rod set sweep check
 seed: 5
 stages:
-  - type: electrodes
-    length: 60 mm
-    field_path: multipole
-    grid: { symmetry: planar, spacing: 0.1 mm, half_width: 14 mm, reference_radius: 2 mm, mirror: [x, y] }
-    rf: { amplitude: 832 V, frequency: 1.2 MHz }
-    electrodes:
-      - name: rods x
-        potential: { dc: 138.3 V, rf: 1 }
-        shapes: [ { circle: { center: [8.52 mm, 0 mm], radius: 4.52 mm } }, { circle: { center: [-8.52 mm, 0 mm], radius: 4.52 mm } } ]
-      - name: rods y
-        potential: { dc: -138.3 V, rf: -1 }
-        shapes: [ { circle: { center: [0 mm, 8.52 mm], radius: 4.52 mm } }, { circle: { center: [0 mm, -8.52 mm], radius: 4.52 mm } } ]
-ions:
+${roundRodStage({ length: '60 mm', spacing: '0.1 mm', dc: '138.3 V', rf: '{ amplitude: 832 V, frequency: 1.2 MHz }' })}ions:
   - { mz: 502, count: 30, energy: 5 eV, position: { spread: 0.1 mm }, angle_spread: 1 deg }
 `);
     const csv = (w: string) => {

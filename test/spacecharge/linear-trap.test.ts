@@ -17,23 +17,10 @@ import { join } from 'node:path';
 import { parseScene } from '../../sim/scene/load.js';
 import { runScene } from '../../sim/runs/run-scene.js';
 import { tempDir } from '../helpers/temp.js';
+import { linearTrapScanScene } from '../linear-trap/scan-scene.js';
 import { floquet } from '../../sim/mathieu/floquet.js';
 
-const scene = (weight: number) => `
-seed: 5
-stages:
-  - type: linear-trap
-    r0: 4 mm
-    length: 40 mm
-    rf: { amplitude: 150 V, frequency: 1 MHz, ramp: { to: 330 V, over: 1 ms } }
-    end_dc: 10 V
-    kappa: 0.05
-    aux: { amplitude: 4 V, frequency: 250 kHz }
-space_charge: { method: direct, weight: ${weight} }
-ions:
-  - { mz: 200, count: 40, position: { z: 20 mm, spread: 0.2 mm, spread_z: 0.5 mm }, energy: 0.01 eV, direction: isotropic }
-run: { steps_per_cycle: 40, max_time: 1 ms, record_every: 0 }
-`;
+const scene = (weight: number) => linearTrapScanScene('    aux: { amplitude: 4 V, frequency: 250 kHz }', `space_charge: { method: direct, weight: ${weight} }`);
 
 type Species = { ejected: number; ejection_qx_mean: number; ejection_qx_expected: number; apparent_mz: number; fwhm_mz: number };
 async function scan(weight: number) {
