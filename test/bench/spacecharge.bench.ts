@@ -50,20 +50,27 @@ function bestTime(f: () => void, secs: number): number {
 export async function bench(): Promise<void> {
   const N = 2000, eps = 1e-9, pairs = (N * (N - 1)) / 2;
   const exe = buildC('spacecharge');
-  const [cRateS, cSumS] = runC(exe, [String(N), '2']).split(/\s+/);
-  const cRate = Number(cRateS), cSum = Number(cSumS);
-
   const c = cloud(N), o = out(N);
   for (let k = 0; k < 20; k++) directField(c, eps, o); // warm-up (JIT)
-  const tJs = bestTime(() => directField(c, eps, o), 2);
-  const jsRate = pairs / tJs;
+  // C and JS timed in turn, three rounds, the best of each kept: on a shared machine a round in
+  // which the other core is busy slows whichever side it falls on, and the best is the least
+  // disturbed (the C program itself keeps its best call over the second it runs).
+  let cRate = 0, cSum = 0, jsRate = 0;
+  const rounds: string[] = [];
+  for (let r = 0; r < 3; r++) {
+    const [cRateS, cSumS] = runC(exe, [String(N), '1']).split(/\s+/);
+    cRate = Math.max(cRate, Number(cRateS)); cSum = Number(cSumS);
+    const js = pairs / bestTime(() => directField(c, eps, o), 1);
+    jsRate = Math.max(jsRate, js);
+    rounds.push(`${(js / Number(cRateS)).toFixed(2)}`);
+  }
   // The C sum is in units of charge/m² (no k); compare checksums to show the same physics.
   const k = 1 / (4 * Math.PI * VACUUM_PERMITTIVITY);
   let s = 0;
   for (let i = 0; i < N; i++) s += Math.abs(o.ex[i]) + Math.abs(o.ey[i]) + Math.abs(o.ez[i]);
   const sumDiff = Math.abs(s / k - cSum) / cSum;
 
-  console.log(`direct sum, N = ${N} (single thread): JS ${(jsRate / 1e6).toFixed(1)} M pairs/s, C -O2 ${(cRate / 1e6).toFixed(1)} M pairs/s, ratio ${(jsRate / cRate).toFixed(2)} (goal ≥ 0.70)`);
+  console.log(`direct sum, N = ${N} (single thread): JS ${(jsRate / 1e6).toFixed(1)} M pairs/s, C -O2 ${(cRate / 1e6).toFixed(1)} M pairs/s, ratio ${(jsRate / cRate).toFixed(2)} (goal ≥ 0.70; best of 3 rounds each, the rounds' own ratios ${rounds.join(', ')}; load ${loadavg()[0].toFixed(1)})`);
   console.log(`  checksum agreement JS vs C: ${sumDiff.toExponential(1)} relative`);
 
   for (const n of [2000, 8000]) {
