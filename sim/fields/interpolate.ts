@@ -27,6 +27,8 @@ interface Axis {
   /** Per cell i (0..n−2): the window's base node, and the derivative stencils of nodes i and i+1 over it (stencil()). */
   cellBase: Int32Array;
   cellStencil: Float64Array;
+  /** 1/h (the same bits as dividing each time). */
+  inv: number;
   /** Even symmetry about the low end (a mirror plane there, or the axis r = 0 of an axial grid). */
   reflectLow: boolean;
   /** Even symmetry about the high end (a mirror plane at z = length/2 when the lower half is stored). */
@@ -42,9 +44,10 @@ export class GridInterpolant {
   private readonly s2: number;
   /** Scratch: per axis the base node, value weights and derivative weights (per unit length). */
   private readonly base = new Int32Array(3);
-  private readonly wv: Float64Array[] = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
-  private readonly wd: Float64Array[] = [new Float64Array(6), new Float64Array(6), new Float64Array(6)];
-  /** 3D pairs: the SIMD form of pair3 (made on first use; null where unavailable), whose memory holds the weights. */
+  private W: Float64Array = new Float64Array(36);
+  private readonly wv: Float64Array[] = [0, 1, 2].map((a) => this.W.subarray(12 * a, 12 * a + 6));
+  private readonly wd: Float64Array[] = [0, 1, 2].map((a) => this.W.subarray(12 * a + 6, 12 * a + 12));
+  /** Pairs: the SIMD form of pair2 and pair3 (made on first use; null where unavailable), whose memory holds the weights. */
   private simd: Pair3Simd | null | undefined;
   /** Scratch: node derivative stencil weights of the cell's two nodes. */
   private readonly sa = new Float64Array(6);
@@ -78,7 +81,7 @@ export class GridInterpolant {
     // Mirror at z: the stored half ends at the plane; the lower half starts at z = 0.
     const lowerHalf = Math.abs(grid.origin[zAxis]) < h / 2;
     this.zPlane = lowerHalf ? grid.origin[zAxis] + (zn - 1) * h : grid.origin[zAxis];
-    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, reflectLow: low, reflectHigh: high, cellBase: new Int32Array(0), cellStencil: new Float64Array(0) });
+    const axis = (i: number, low: boolean, high: boolean): Axis => ({ n: grid.shape[i], origin: grid.origin[i], h, inv: 1 / h, reflectLow: low, reflectHigh: high, cellBase: new Int32Array(0), cellStencil: new Float64Array(0) });
     if (sym === 'axial') {
       this.axes = [axis(0, true, false), axis(1, this.mirrorZ && !lowerHalf, this.mirrorZ && lowerHalf), axis(2, false, false)];
     } else {
@@ -145,15 +148,18 @@ export class GridInterpolant {
     const t2 = t * t, t3 = t2 * t;
     const h00 = 2 * t3 - 3 * t2 + 1, h10 = t3 - 2 * t2 + t, h01 = -2 * t3 + 3 * t2, h11 = t3 - t2;
     const d00 = 6 * t2 - 6 * t, d10 = 3 * t2 - 4 * t + 1, d01 = -6 * t2 + 6 * t, d11 = 3 * t2 - 2 * t;
-    const wv = this.wv[ai], wd = this.wd[ai];
-    const inv = 1 / a.h;
-    for (let k = 0; k < 6; k++) {
-      const sa = st[o + k], sb = st[o + 6 + k];
-      wv[k] = h10 * sa + h11 * sb;
-      wd[k] = (d10 * sa + d11 * sb) * inv;
-    }
-    wv[i - base] += h00; wv[i + 1 - base] += h01;
-    wd[i - base] += d00 * inv; wd[i + 1 - base] += d01 * inv;
+    // All weights in one array W (axis ai: values at 12ai, derivatives at 12ai + 6), the same
+    // memory as wv[ai] and wd[ai]: one monomorphic store target per call.
+    const W = this.W, v = 12 * ai, d = v + 6;
+    const inv = a.inv;
+    const s0 = st[o], s1 = st[o + 1], s2 = st[o + 2], s3 = st[o + 3], s4 = st[o + 4], s5 = st[o + 5];
+    const r0 = st[o + 6], r1 = st[o + 7], r2 = st[o + 8], r3 = st[o + 9], r4 = st[o + 10], r5 = st[o + 11];
+    W[v] = h10 * s0 + h11 * r0; W[v + 1] = h10 * s1 + h11 * r1; W[v + 2] = h10 * s2 + h11 * r2;
+    W[v + 3] = h10 * s3 + h11 * r3; W[v + 4] = h10 * s4 + h11 * r4; W[v + 5] = h10 * s5 + h11 * r5;
+    W[d] = (d10 * s0 + d11 * r0) * inv; W[d + 1] = (d10 * s1 + d11 * r1) * inv; W[d + 2] = (d10 * s2 + d11 * r2) * inv;
+    W[d + 3] = (d10 * s3 + d11 * r3) * inv; W[d + 4] = (d10 * s4 + d11 * r4) * inv; W[d + 5] = (d10 * s5 + d11 * r5) * inv;
+    W[v + i - base] += h00; W[v + i + 1 - base] += h01;
+    W[d + i - base] += d00 * inv; W[d + i + 1 - base] += d01 * inv;
     return true;
   }
 
@@ -197,6 +203,7 @@ export class GridInterpolant {
       const r = Math.sqrt(x * x + y * y);
       let sz = 1;
       if (this.mirrorZ) { z = this.foldZ(z, o); sz = o[3]; }
+      if (this.simd === undefined) this.useSimd();
       if (!this.weights(0, r) || !this.weights(1, z)) return false;
       this.pair2(cr, o);
       const ir = r > 0 ? 1 / r : 0;
@@ -208,6 +215,7 @@ export class GridInterpolant {
     if (this.mirrorX && x < 0) { x = -x; sx = -1; }
     if (this.mirrorY && y < 0) { y = -y; sy = -1; }
     if (sym === 'planar') {
+      if (this.simd === undefined) this.useSimd();
       if (!this.weights(0, x) || !this.weights(1, y)) return false;
       this.pair2(cr, o);
       g[0] = sx * o[0]; g[1] = sy * o[1]; g[2] = 0;
@@ -231,12 +239,21 @@ export class GridInterpolant {
   /** Moves the weights into a SIMD instance's memory, where pair3's SIMD form reads them. */
   private useSimd(): void {
     const [n0, n1, n2] = this.grid.shape;
-    this.simd = this.components === 2 && this.grid.symmetry === 'none' ? Pair3Simd.create(this.f, n0, n1, n2) : null;
-    if (this.simd) for (let a = 0; a < 3; a++) { this.wv[a] = this.simd.wv[a]; this.wd[a] = this.simd.wd[a]; }
+    this.simd = this.components === 2 ? Pair3Simd.create(this.f, n0, n1, n2) : null;
+    if (this.simd) {
+      this.W = this.simd.weights;
+      for (let a = 0; a < 3; a++) { this.wv[a] = this.W.subarray(12 * a, 12 * a + 6); this.wd[a] = this.W.subarray(12 * a + 6, 12 * a + 12); }
+    }
   }
 
   /** Bicubic gradient of φ_0 + cr φ_1 (two interleaved fields) into out[0..1]. */
   private pair2(cr: number, out: Float64Array): void {
+    const k = this.simd;
+    if (k) {
+      k.gradient2(this.base[0], this.base[1], this.s1, cr);
+      out[0] = k.result[0]; out[1] = k.result[1];
+      return;
+    }
     const f = this.f, b0 = this.base[0], b1 = this.base[1], s1 = this.s1;
     const v0 = this.wv[0], d0 = this.wd[0], v1 = this.wv[1], d1 = this.wd[1];
     const w0 = v0[0], w1 = v0[1], w2 = v0[2], w3 = v0[3], w4 = v0[4], w5 = v0[5];
@@ -246,8 +263,9 @@ export class GridInterpolant {
       const q = 2 * ((b1 + j) * s1 + b0);
       const n0 = f[q] + cr * f[q + 1], n1 = f[q + 2] + cr * f[q + 3], n2 = f[q + 4] + cr * f[q + 5];
       const n3 = f[q + 6] + cr * f[q + 7], n4 = f[q + 8] + cr * f[q + 9], n5 = f[q + 10] + cr * f[q + 11];
-      const a = w0 * n0 + w1 * n1 + w2 * n2 + w3 * n3 + w4 * n4 + w5 * n5;
-      const c = e0 * n0 + e1 * n1 + e2 * n2 + e3 * n3 + e4 * n4 + e5 * n5;
+      // Even and odd taps summed apart, as the lanes of the SIMD form (the same bits).
+      const a = (w0 * n0 + w2 * n2 + w4 * n4) + (w1 * n1 + w3 * n3 + w5 * n5);
+      const c = (e0 * n0 + e2 * n2 + e4 * n4) + (e1 * n1 + e3 * n3 + e5 * n5);
       gx += v1[j] * c; gy += d1[j] * a;
     }
     out[0] = gx; out[1] = gy;

@@ -1,7 +1,8 @@
 // The SIMD form of the tricubic gradient (sim/fields/simd/pair3.wat, run through WebAssembly):
 // - its committed binary is what wabt 1.0.39 (the WebAssembly Binary Toolkit) assembles from the
 //   .wat beside it, so the readable source and the bytes that run cannot drift apart;
-// - it gives the bits of the scalar form on the same grid and points (same order of additions);
+// - it gives the bits of the scalar form on the same grid and points (same order of additions),
+//   on 3D grids (tricubic) and on planar and axial grids (bicubic);
 // - the gradient of the superposition φ_dc + cr·φ_rf of two tricubic polynomials is exact
 //   (cubic Hermite with fourth-order node derivatives reproduces degree ≤ 3: Fornberg, Math.
 //   Comp. 51 (1988), table 1), with mirror planes folded.
@@ -77,6 +78,46 @@ describe('SIMD tricubic gradient', () => {
       expect([...a]).toEqual([...b]);
       const want = [2 * x + cr * 2 * x * y * y, 2 * y * z + cr * 2 * x * x * y, y * y - cr * 3 * z * z];
       for (let c = 0; c < 3; c++) expect(Math.abs(a[c] - want[c])).toBeLessThan(1e-9);
+    }
+  });
+
+  it('bicubic form (planar and axial grids): the scalar bits, exact for cubics', () => {
+    const planar: SolvedGrid = { symmetry: 'planar', origin: [-1, -0.5, 0], spacing: 0.1, shape: [21, 13, 1], mirror: [] };
+    const axial: SolvedGrid = { symmetry: 'axial', origin: [0, -1, 0], spacing: 0.1, shape: [12, 21, 1], mirror: [] };
+    // Planar: φ = x³ − 3xy² + y, ψ = x²y; axial (r, z), even in r (the axis is a symmetry end of
+    // the interpolant): φ = r² + z³, ψ = r²z.
+    const fill = (g: SolvedGrid, f: (a: number, b: number) => [number, number]) => {
+      const [n0, n1] = g.shape, v = new Float64Array(2 * n0 * n1);
+      for (let j = 0; j < n1; j++) for (let i = 0; i < n0; i++) {
+        const [p, q] = f(g.origin[0] + i * g.spacing, g.origin[1] + j * g.spacing);
+        v[2 * (i + n0 * j)] = p; v[2 * (i + n0 * j) + 1] = q;
+      }
+      return v;
+    };
+    const vp = fill(planar, (x, y) => [x ** 3 - 3 * x * y * y + y, x * x * y]);
+    const va = fill(axial, (r, z) => [r * r + z ** 3, r * r * z]);
+    const a = new Float64Array(3), b = new Float64Array(3);
+    const rnd = lcg(11);
+    for (const [grid, v] of [[planar, vp], [axial, va]] as const) {
+      const fast = new GridInterpolant(grid, v, 2), plain = new GridInterpolant(grid, v, 2, false);
+      for (let n = 0; n < 200; n++) {
+        const cr = 4 * rnd() - 2;
+        let x: number, y: number, z: number, want: number[];
+        if (grid.symmetry === 'planar') {
+          x = -1 + 2 * rnd(); y = -0.5 + 1.2 * rnd(); z = 0;
+          want = [3 * x * x - 3 * y * y + cr * 2 * x * y, -6 * x * y + 1 + cr * x * x, 0];
+        } else {
+          // A point at radius r < 1.1 and azimuth θ; ∂/∂x = (x/r) ∂/∂r.
+          const r = 1.05 * rnd(), th = 2 * Math.PI * rnd();
+          x = r * Math.cos(th); y = r * Math.sin(th); z = -1 + 2 * rnd();
+          const dr = 2 * r + cr * 2 * r * z, dz = 3 * z * z + cr * r * r;
+          want = [dr * Math.cos(th), dr * Math.sin(th), dz];
+        }
+        expect(fast.gradientOfPair(x, y, z, cr, a)).toBe(true);
+        plain.gradientOfPair(x, y, z, cr, b);
+        expect([...a]).toEqual([...b]);
+        for (let c = 0; c < 3; c++) expect(Math.abs(a[c] - want[c])).toBeLessThan(1e-9);
+      }
     }
   });
 });

@@ -1,4 +1,4 @@
-// The tricubic gradient of a pair of fields in WebAssembly SIMD (pair3.wat): one compiled module
+// The tricubic (and bicubic) gradient of a pair of fields in WebAssembly SIMD (pair3.wat): one compiled module
 // per process, one instance per interpolant with its own memory holding the two fields as planes.
 // The weights live in the instance's memory too, so the interpolant writes them there directly.
 
@@ -22,19 +22,19 @@ function module(): WebAssembly.Module | null {
 const HEADER = 512;
 
 export class Pair3Simd {
-  /** Per axis the value and derivative weights (views on the instance's memory). */
-  readonly wv: Float64Array[];
-  readonly wd: Float64Array[];
+  /** The weights, per axis a the values at 12a and the derivatives at 12a + 6 (a view on the instance's memory). */
+  readonly weights: Float64Array;
   /** ∂x, ∂y, ∂z of the last gradient(). */
   readonly result: Float64Array;
   private readonly run: (base: number, cr: number) => void;
+  private readonly run2: (base: number, cr: number) => void;
 
   private constructor(inst: WebAssembly.Instance, memory: WebAssembly.Memory) {
     const buf = memory.buffer;
-    this.wv = [0, 1, 2].map((a) => new Float64Array(buf, 96 * a, 6));
-    this.wd = [0, 1, 2].map((a) => new Float64Array(buf, 96 * a + 48, 6));
+    this.weights = new Float64Array(buf, 0, 36);
     this.result = new Float64Array(buf, 288, 3);
     this.run = inst.exports.gradient as (base: number, cr: number) => void;
+    this.run2 = inst.exports.gradient2 as (base: number, cr: number) => void;
   }
 
   /**
@@ -46,16 +46,20 @@ export class Pair3Simd {
     const nodes = n0 * n1 * n2;
     const bytes = HEADER + 16 * nodes;
     if (mod === null || bytes > 2 ** 32 - 2 ** 16) return null;
-    // The module exports its own memory of one page: grown to size before any view is made (a
-    // grow detaches the views of the old buffer).
-    const inst = new WebAssembly.Instance(mod, {});
-    const mem = inst.exports.memory as WebAssembly.Memory;
-    const need = Math.ceil(bytes / 65536) - mem.buffer.byteLength / 65536;
-    if (need > 0) mem.grow(need);
+    // Made at its full size and never grown: a grow detaches the old buffer, and once any buffer
+    // has been detached V8 checks every typed-array access of the process for it (its
+    // array-buffer-detaching protector), which slows every kernel.
+    const mem = new WebAssembly.Memory({ initial: Math.ceil(bytes / 65536) });
+    const inst = new WebAssembly.Instance(mod, { env: { memory: mem } });
     const dc = new Float64Array(mem.buffer, HEADER, nodes), rf = new Float64Array(mem.buffer, HEADER + 8 * nodes, nodes);
     for (let n = 0; n < nodes; n++) { dc[n] = f[2 * n]; rf[n] = f[2 * n + 1]; }
     (inst.exports.layout as (s1: number, s2: number, rf: number) => void)(8 * n0, 8 * n0 * n1, 8 * nodes);
     return new Pair3Simd(inst, mem);
+  }
+
+  /** The bicubic form (planar and axial grids): the two derivatives along the grid's axes into result[0..1]. */
+  gradient2(b0: number, b1: number, s1: number, cr: number): void {
+    this.run2(HEADER + 8 * (b1 * s1 + b0), cr);
   }
 
   /** ∇(φ_dc + cr φ_rf) over the window at node (b0, b1, b2), with the weights already written, into result. */

@@ -1,5 +1,5 @@
-;; Tricubic gradient of φ_dc + cr·φ_rf on a 3D grid, the inner sums of
-;; GridInterpolant.gradientOfPair (sim/fields/interpolate.ts) in WebAssembly with 128-bit SIMD:
+;; Tricubic (3D grids) and bicubic (planar and axial grids) gradient of φ_dc + cr·φ_rf, the sums
+;; of GridInterpolant.gradientOfPair (sim/fields/interpolate.ts) in WebAssembly with 128-bit SIMD:
 ;; two neighbouring x nodes per f64x2 lane pair. The 6-tap x window splits into the even taps
 ;; (0, 2, 4) in lane 0 and the odd taps (1, 3, 5) in lane 1, added at the end of each row, so that a
 ;; row costs three packed products for the combination and six for the two sums instead of
@@ -9,10 +9,12 @@
 ;;
 ;; Memory (bytes): 0..287 the weights written by the caller, per axis a (x, y, z) the value
 ;; weights at 96a and the derivative weights at 96a + 48, six doubles each; 288..311 the result
-;; (∂x, ∂y, ∂z); from 512 the dc plane (one double per node, x fastest), then the rf plane at
+;; (∂x, ∂y, ∂z; bicubic: ∂ along the first and second axis); from 512 the dc plane (one double per node, x fastest), then the rf plane at
 ;; $rf bytes after it. $s1 and $s2: byte strides of a y row and a z plane.
 (module
-  (memory (export "memory") 1)
+  ;; The memory comes from the caller, made at its full size: growing one would detach its
+  ;; buffer, and a detached buffer anywhere makes V8 check every typed-array access for it.
+  (import "env" "memory" (memory 1))
   (global $s1 (mut i32) (i32.const 0))
   (global $s2 (mut i32) (i32.const 0))
   (global $rf (mut i32) (i32.const 0))
@@ -72,4 +74,40 @@
       (br_if $planes (i32.lt_u (local.tee $k (i32.add (local.get $k) (i32.const 1))) (i32.const 6))))
     (f64.store (i32.const 288) (local.get $gx))
     (f64.store (i32.const 296) (local.get $gy))
-    (f64.store (i32.const 304) (local.get $gz))))
+    (f64.store (i32.const 304) (local.get $gz)))
+  ;; The bicubic form: one plane of six rows, the second axis's weights at 96 + 8j and 144 + 8j.
+  (func (export "gradient2") (param $base i32) (param $cr f64)
+    (local $j i32) (local $p i32)
+    (local $c v128) (local $n0 v128) (local $n1 v128) (local $n2 v128)
+    (local $w0 v128) (local $w1 v128) (local $w2 v128) (local $e0 v128) (local $e1 v128) (local $e2 v128)
+    (local $av v128) (local $cv v128) (local $a f64) (local $d f64) (local $gx f64) (local $gy f64)
+    (local.set $c (f64x2.splat (local.get $cr)))
+    (local.set $w0 (v128.load (i32.const 0)))
+    (local.set $w1 (v128.load (i32.const 16)))
+    (local.set $w2 (v128.load (i32.const 32)))
+    (local.set $e0 (v128.load (i32.const 48)))
+    (local.set $e1 (v128.load (i32.const 64)))
+    (local.set $e2 (v128.load (i32.const 80)))
+    (local.set $p (local.get $base))
+    (local.set $j (i32.const 0))
+    (loop $rows
+      (local.set $n0 (f64x2.add (v128.load (local.get $p))
+        (f64x2.mul (local.get $c) (v128.load (i32.add (local.get $p) (global.get $rf))))))
+      (local.set $n1 (f64x2.add (v128.load offset=16 (local.get $p))
+        (f64x2.mul (local.get $c) (v128.load offset=16 (i32.add (local.get $p) (global.get $rf))))))
+      (local.set $n2 (f64x2.add (v128.load offset=32 (local.get $p))
+        (f64x2.mul (local.get $c) (v128.load offset=32 (i32.add (local.get $p) (global.get $rf))))))
+      (local.set $av (f64x2.add (f64x2.add (f64x2.mul (local.get $w0) (local.get $n0))
+        (f64x2.mul (local.get $w1) (local.get $n1))) (f64x2.mul (local.get $w2) (local.get $n2))))
+      (local.set $cv (f64x2.add (f64x2.add (f64x2.mul (local.get $e0) (local.get $n0))
+        (f64x2.mul (local.get $e1) (local.get $n1))) (f64x2.mul (local.get $e2) (local.get $n2))))
+      (local.set $a (f64.add (f64x2.extract_lane 0 (local.get $av)) (f64x2.extract_lane 1 (local.get $av))))
+      (local.set $d (f64.add (f64x2.extract_lane 0 (local.get $cv)) (f64x2.extract_lane 1 (local.get $cv))))
+      (local.set $gx (f64.add (local.get $gx)
+        (f64.mul (f64.load offset=96 (i32.shl (local.get $j) (i32.const 3))) (local.get $d))))
+      (local.set $gy (f64.add (local.get $gy)
+        (f64.mul (f64.load offset=144 (i32.shl (local.get $j) (i32.const 3))) (local.get $a))))
+      (local.set $p (i32.add (local.get $p) (global.get $s1)))
+      (br_if $rows (i32.lt_u (local.tee $j (i32.add (local.get $j) (i32.const 1))) (i32.const 6))))
+    (f64.store (i32.const 288) (local.get $gx))
+    (f64.store (i32.const 296) (local.get $gy))))
