@@ -47,7 +47,6 @@ export async function prepareSolvedFields(scene: Scene, file: string, opts: Solv
     if (problem === undefined) continue;
     any = true;
     const at = `${file}: stages.${st.sceneIndex ?? i}`;
-    if (scene.run.integrator === 'dopri5') throw new SceneError(`${file}: run.integrator: dopri5 is not available through a solved electrode field (stage ${st.sceneIndex ?? i}); use rk4`);
     const key = cacheKey(problem, DEFAULT_TOLERANCE);
     let sol: FieldSolution | undefined = readCached(root, key);
     if (sol === undefined) {

@@ -2,6 +2,7 @@
 // on a grid (sim/fields) by `iontrail field` or before a run, and tracked through by kernel.ts in the
 // superposition of its unit solutions (solution.ts, field.ts).
 
+import { trackElectrodesAdaptive } from './adaptive.js';
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
 import { dcPlusRf, lengthMm, mm2, num, rfAmplitude } from '../shared/describe.js';
@@ -54,7 +55,9 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   rf: (st) => st.rf,
   field: electrodesField,
   coupling: electrodesCoupling,
-  track: (st, c, ctx, run) => trackElectrodes(st, c, ctx, run.stepsPerCycle, run.stepNoRf),
+  track: (st, c, ctx, run) => (run.integrator === 'dopri5'
+    ? trackElectrodesAdaptive(st, c, ctx, run.tolerance)
+    : trackElectrodes(st, c, ctx, run.stepsPerCycle, run.stepNoRf)),
   fieldProblem: (st) => st.problem,
   useSolution(st, sol) {
     const path = st.path ?? 'grid';

@@ -28,6 +28,12 @@ export interface AdaptiveStage {
   zEnd: number;
   /** After each step: the exit code when the state crossed an electrode or end cap, else 0. */
   test(s: Float64Array): ExitCode | 0;
+  /**
+   * Optional, after test() gave `code` for the step tPrev → t: place the ion where the step met
+   * the electrode or plane, writing the state into s from the step's dense output (sol.dense) and
+   * returning its time. Without it the ion is stopped at the end of that step.
+   */
+  land?(code: ExitCode, tPrev: number, t: number, s: Float64Array, sol: Dopri5): number;
 }
 
 const y = new Float64Array(6);
@@ -58,7 +64,11 @@ export function trackAdaptive(a: AdaptiveStage, c: IonCursor, ctx: StepContext, 
       rec.push(c.ion, t, s[0], s[1], s[2] + zc, s[3], s[4], s[5]);
     }
     const hit = a.test(s);
-    if (hit !== 0) { code = hit; return false; }
+    if (hit !== 0) {
+      code = hit;
+      if (a.land) tLast = a.land(hit, tPrev, t, s, sol);
+      return false;
+    }
     return true;
   });
   // Stopped by the observer: at the end of the step that crossed an electrode or end cap.

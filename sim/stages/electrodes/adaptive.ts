@@ -1,0 +1,70 @@
+// A solved electrodes stage for the adaptive driver (shared/adaptive.ts): the equations of
+// kernel.ts, ẍ = −(q/m) ∇(Φ_dc + V(t) cos(Ω(t + τ) + φ) Φ_rf + A cos(ω_a t + φ_a) Φ_aux), with the
+// drives evaluated directly (Dormand–Prince steps are not commensurate with the RF period), the
+// gradient of the same interpolant or series (SolvedField.gradient), and the rules of kernel.ts:
+// hit where the ion enters an electrode or leaves the grid sideways, out through the end planes.
+// Where a step ends inside an electrode or past a plane, the ion is placed on the chord's crossing,
+// as the RK4 kernel does, at the time and state of the step's dense output there.
+
+import { Exit, storeCursor, type ExitCode, type IonCursor, type StepContext } from '../../core/cursor.js';
+import type { Dopri5 } from '../../integrate/dopri5.js';
+import { trackAdaptive, type AdaptiveStage } from '../shared/adaptive.js';
+import type { ElectrodesStage } from './stage.js';
+import { solvedFieldOf } from './solution.js';
+
+export function adaptiveElectrodes(st: ElectrodesStage, c: IonCursor, ctx: StepContext): AdaptiveStage {
+  const F = solvedFieldOf(st);
+  const rf = st.rf, withRf = rf !== undefined && F.oRf > 0;
+  const omega = withRf ? 2 * Math.PI * rf.frequency : 0, ph = withRf ? omega * c.tau + rf.phase : 0;
+  const V0 = withRf ? rf.amplitude : 0, ramp = withRf ? rf.ramp : undefined;
+  const rate = ramp ? (ramp.to - V0) / ramp.over : 0;
+  const aux = F.oAux > 0 ? st.aux : undefined;
+  const A = aux ? aux.amplitude : 0, wA = aux ? 2 * Math.PI * aux.frequency : 0, phA = aux ? aux.phase : 0;
+  const qm = c.q / c.m, L = st.length, zMax = F.zMax;
+  const g = new Float64Array(3);
+  // Chord ends of the last step (stage-local), for the landing.
+  let e = -1;
+  const p = new Float64Array(3);
+  const drive = (t: number) => (withRf ? (ramp ? (t >= ramp.over ? ramp.to : V0 + rate * t) : V0) * Math.cos(omega * t + ph) : 0);
+  return {
+    f: (t, s, d) => {
+      d[0] = s[3]; d[1] = s[4]; d[2] = s[5];
+      // A stage point past an end plane takes the field of the plane, as in kernel.ts.
+      const z = s[2] > zMax ? zMax : s[2] < 0 ? 0 : s[2];
+      if (F.gradient(s[0], s[1], z, drive(t), aux ? A * Math.cos(wA * t + phA) : 0, g)) {
+        d[3] = -qm * g[0]; d[4] = -qm * g[1]; d[5] = -qm * g[2];
+      } else { d[3] = 0; d[4] = 0; d[5] = 0; } // outside the grid: test() ends the flight there
+    },
+    zc: st.zStart,
+    scale: F.reach > 0 ? F.reach : L,
+    period: withRf ? 1 / rf.frequency : Math.max(L / Math.max(Math.abs(c.vz), 1), 1e-9),
+    tEnd: ctx.maxTime, exitsAtTEnd: false, throughCap: false,
+    zStart: st.zStart, zEnd: st.zEnd,
+    test: (s) => {
+      e = F.electrodeAt(s[0], s[1], s[2]);
+      if (e >= 0) return Exit.hit;
+      const z = s[2] > zMax ? zMax : s[2] < 0 ? 0 : s[2];
+      if (!F.gradient(s[0], s[1], z, 0, 0, g)) { e = -1; return Exit.hit; }
+      if (s[2] >= L) return Exit.forward;
+      if (s[2] < 0) return Exit.backward;
+      return 0;
+    },
+    land(code: ExitCode, tPrev: number, t: number, s: Float64Array, sol: Dopri5): number {
+      for (let i = 0; i < 3; i++) p[i] = sol.dense(i, tPrev);
+      let f = 1;
+      if (code === Exit.hit && e >= 0) f = F.entryFraction(e, p[0], p[1], p[2], s[0], s[1], s[2]);
+      else if (code === Exit.forward || code === Exit.backward) f = ((code === Exit.forward ? L : 0) - p[2]) / (s[2] - p[2]);
+      else return t; // the grid's side: stopped at the end of the step, as the RK4 kernel's step start
+      const tk = tPrev + f * (t - tPrev);
+      for (let i = 0; i < 6; i++) s[i] = sol.dense(i, tk);
+      if (code === Exit.forward) s[2] = L; else if (code === Exit.backward) s[2] = 0;
+      return tk;
+    },
+  };
+}
+
+/** The adaptive flight through the stage; an ion that starts inside an electrode is lost at once (kernel.ts). */
+export function trackElectrodesAdaptive(st: ElectrodesStage, c: IonCursor, ctx: StepContext, tolerance: number): ExitCode {
+  if (solvedFieldOf(st).electrodeAt(c.x, c.y, c.z - st.zStart) >= 0) { storeCursor(c, c.t, c.x, c.y, c.z, c.vx, c.vy, c.vz, 0); return Exit.hit; }
+  return trackAdaptive(adaptiveElectrodes(st, c, ctx), c, ctx, tolerance);
+}
