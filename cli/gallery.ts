@@ -76,4 +76,14 @@ await iontrail('plot', join(RUNS, 'cg8-quadrupole'), '--kind', 'sweep', '--y', '
 // The linear trap's spectrum is the review bundle's figure.
 await iontrail('report', join('scenes', 'lq2-linear-trap.yaml'), '-o', join(RUNS, 'lq2-review'), '--force');
 copyFileSync(join(RUNS, 'lq2-review', 'fig-spectrum.png'), fig('spectrum-linear-trap.png'));
+// The solved demo scenes in 3D, their electrodes drawn from the shapes of the scene file.
+await run('qf4r-round-rods.yaml', 'qf4r', '--set', 'ions.0.count=40');
+await iontrail('render', join(RUNS, 'qf4r'), '-o', fig('scene3d-round-rods.png'));
+await run('t7t-truncated-trap.yaml', 't7t', '--set', 'ions.0.count=20');
+await iontrail('render', join(RUNS, 't7t'), '-o', fig('scene3d-truncated-trap.png'));
+// The solved demo scenes in 3D, their electrodes drawn from the shapes of the scene file.
+await run('qf4r-round-rods.yaml', 'qf4r', '--set', 'ions.0.count=40');
+await iontrail('render', join(RUNS, 'qf4r'), '-o', fig('scene3d-round-rods.png'));
+await run('t7t-truncated-trap.yaml', 't7t', '--set', 'ions.0.count=20');
+await iontrail('render', join(RUNS, 't7t'), '-o', fig('scene3d-truncated-trap.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

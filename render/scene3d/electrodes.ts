@@ -11,7 +11,7 @@ import { mergeGeometries } from 'three/examples/jsm/utils/BufferGeometryUtils.js
 import { ELECTRODE_COLORS, type Rgb } from './palette.js';
 import type { PlacedStage } from './runInput.js';
 import { kindNamed } from '../../sim/stages/registry.js';
-import type { OutlinePart } from '../../sim/stages/outline.js';
+import type { OutlinePart, SolidPart } from '../../sim/stages/outline.js';
 
 export const MM = 1000;
 export type RodShape = 'hyperbolic' | 'cylindrical';
@@ -345,6 +345,7 @@ const SHAPES: Record<OutlinePart['shape'], ShapeBuilder> = {
   'hyperbolic-trap': (s, opts) => trap(s, opts),
   tube: (s, _o, i, z0, z1, tubeR) => tubeOutline(s.aperture ? s.aperture * MM : tubeR, z0, z1, ELECTRODE_COLORS.outline, `drift tube ${i}`),
   'ring-stack': (s, _o, i, _z0, _z1, tubeR) => reflectron(s, s.aperture ? s.aperture * MM : tubeR, i),
+  solids: (s, opts, i, _z0, _z1, _t, part) => solids(s, opts, i, part.solids ?? []),
   'grid-gap': (s, _o, i, z0, z1, tubeR) => {
       const a = s.aperture ? s.aperture * MM : tubeR;
       const grp = new THREE.Group();
@@ -354,3 +355,53 @@ const SHAPES: Record<OutlinePart['shape'], ShapeBuilder> = {
       return grp;
   },
 };
+
+/**
+ * The electrodes of a solved stage from their own shapes (sim/stages/electrodes/solids.ts), mm,
+ * coloured by the sign of their volts. Revolved solids lose the 90° wedge facing the viewer (as
+ * the ideal trap's electrodes do) and a rod-like cylinder or prism within 50° of the viewer is
+ * drawn as its outline, so the ions inside stay in view.
+ */
+function solids(stage: PlacedStage, opts: ElectrodeOptions, i: number, parts: readonly SolidPart[]): THREE.Group {
+  const g = new THREE.Group();
+  g.name = `electrodes of stage ${i}`;
+  const zs = stage.zStart * MM;
+  const mats = [material(ELECTRODE_COLORS.rodNegative, 'electrode, negative volts'), material(ELECTRODE_COLORS.outline, 'electrode, 0 V'), material(ELECTRODE_COLORS.rodPositive, 'electrode, positive volts')];
+  const cut = opts.cutAzimuth !== undefined;
+  const near = (x: number, y: number) => cut && Math.hypot(x, y) > 0 && angleBetween(Math.atan2(y, x), opts.cutAzimuth!) < (50 * Math.PI) / 180;
+  const problem = (stage.stored?.problem ?? {}) as { electrodes?: { name?: unknown }[] };
+  const names = (problem.electrodes ?? []).map((e) => String(e.name));
+  parts.forEach((p, k) => {
+    let geo: THREE.BufferGeometry;
+    let open = false;
+    if (p.kind === 'prism') {
+      const shape = new THREE.Shape(p.outline.map(([x, y]) => new THREE.Vector2(x * MM, y * MM)));
+      for (const h of p.holes) shape.holes.push(new THREE.Path(h.map(([x, y]) => new THREE.Vector2(x * MM, y * MM))));
+      geo = new THREE.ExtrudeGeometry(shape, { depth: (p.to - p.from) * MM, bevelEnabled: false, curveSegments: 1 });
+      geo.translate(0, 0, zs + p.from * MM);
+      const cx = p.outline.reduce((a, q) => a + q[0], 0) / p.outline.length, cy = p.outline.reduce((a, q) => a + q[1], 0) / p.outline.length;
+      open = p.holes.length === 0 && near(cx, cy);
+    } else if (p.kind === 'lathe') {
+      const gap = cut ? Math.PI / 2 : 0;
+      geo = lathe(p.profile.map(([r, z]) => new THREE.Vector2(r * MM, z * MM)), cut ? opts.cutAzimuth! + gap / 2 : 0, 2 * Math.PI - gap);
+      geo.translate(p.center[0] * MM, p.center[1] * MM, zs);
+    } else if (p.kind === 'box') {
+      geo = new THREE.BoxGeometry((p.max[0] - p.min[0]) * MM, (p.max[1] - p.min[1]) * MM, (p.max[2] - p.min[2]) * MM);
+      geo.translate(((p.min[0] + p.max[0]) / 2) * MM, ((p.min[1] + p.max[1]) / 2) * MM, zs + ((p.min[2] + p.max[2]) / 2) * MM);
+    } else if (p.kind === 'cylinder') {
+      geo = new THREE.CylinderGeometry(p.radius * MM, p.radius * MM, (p.to - p.from) * MM, 48, 1, false);
+      // CylinderGeometry runs along +y: turned onto the axis, centred on its extent.
+      geo.applyQuaternion(new THREE.Quaternion().setFromUnitVectors(new THREE.Vector3(0, 1, 0), new THREE.Vector3(...p.axis).normalize()));
+      const mid = (p.from + p.to) / 2;
+      geo.translate((p.base[0] + mid * p.axis[0]) * MM, (p.base[1] + mid * p.axis[1]) * MM, zs + (p.base[2] + mid * p.axis[2]) * MM);
+      open = Math.abs(p.axis[2]) > 0.99 && near(p.base[0], p.base[1]);
+    } else {
+      geo = new THREE.SphereGeometry(p.radius * MM, 32, 16);
+      geo.translate(p.center[0] * MM, p.center[1] * MM, zs + p.center[2] * MM);
+    }
+    const obj = open ? rodOutline(geo) : new THREE.Mesh(geo, mats[p.sign + 1]);
+    obj.name = `${names[p.electrode] ?? `electrode ${p.electrode}`} ${k}${open ? ' (outline)' : ''}`;
+    g.add(obj);
+  });
+  return g;
+}

@@ -8,7 +8,7 @@ export interface OutlinePart {
    * tube: a tube outline of the stage's aperture; ring-stack: guard rings with an entrance grid
    * (and a back plate when closed); grid-gap: entrance and exit grids.
    */
-  shape: 'rod-set' | 'hyperbolic-trap' | 'tube' | 'ring-stack' | 'grid-gap';
+  shape: 'rod-set' | 'hyperbolic-trap' | 'tube' | 'ring-stack' | 'grid-gap' | 'solids';
   /**
    * Radius the electrodes reach from the axis as a multiple of the stage's r0 (sizes the tubes
    * drawn for stages without an aperture).
@@ -16,7 +16,23 @@ export interface OutlinePart {
   reachR0?: number;
   /** rod-set: number of rods, 2n (default 4; more draws the round rods of a multipole guide). */
   rods?: number;
+  /** solids: the electrodes' own shapes as solids to draw (an electrodes stage). */
+  solids?: readonly SolidPart[];
 }
+
+/**
+ * One solid of an electrode as the renderer draws it, stage-local SI (z from the stage entrance);
+ * `electrode` indexes the stage's electrodes, `sign` is the sign of its dc + rf volts (colour).
+ * prism: a closed (x, y) outline with optional hole outlines, over z from..to; lathe: a closed
+ * (r, z) profile revolved about the line x, y = center; box, cylinder (base point, unit axis,
+ * extent from..to along it) and ball as they are.
+ */
+export type SolidPart = { electrode: number; sign: -1 | 0 | 1 } & (
+  | { kind: 'prism'; outline: readonly (readonly [number, number])[]; holes: readonly (readonly (readonly [number, number])[])[]; from: number; to: number }
+  | { kind: 'lathe'; profile: readonly (readonly [number, number])[]; center: readonly [number, number] }
+  | { kind: 'box'; min: readonly [number, number, number]; max: readonly [number, number, number] }
+  | { kind: 'cylinder'; base: readonly [number, number, number]; axis: readonly [number, number, number]; radius: number; from: number; to: number }
+  | { kind: 'ball'; center: readonly [number, number, number]; radius: number });
 
 /** A point a label's leader line may end at, on one electrode of the stage. */
 export interface LabelAnchor {

@@ -2,6 +2,7 @@
 // on a grid (sim/fields) by `iontrail field` or before a run, and tracked through by kernel.ts in the
 // superposition of its unit solutions (solution.ts, field.ts).
 
+import { electrodeSolids } from './solids.js';
 import { trackElectrodesAdaptive } from './adaptive.js';
 import { LENGTH_FIELD, RF_FIELD, resolveRf } from '../../scene/fields.js';
 import type { StageKind } from '../kind.js';
@@ -77,8 +78,9 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
     const n = p.electrodes?.length ?? 0;
     return `electrodes ${lengthMm(s)} mm, ${String(g.symmetry === 'none' ? '3D' : g.symmetry)} grid ${mm2(g.spacing)} mm, ${n} electrode${n === 1 ? '' : 's'}`;
   },
-  // The 3D view has no builder for arbitrary shapes yet: a tube marks the stage's extent.
-  outline: () => [{ shape: 'tube' }],
+  // The 3D view draws the electrodes' own shapes (solids.ts), read from the stage as stored (the
+  // renderer's placed stage carries it as `stored`).
+  outline: (s) => [{ shape: 'solids', solids: electrodeSolids(((s.stored ?? s) as Readonly<Record<string, unknown>>)) }],
   electrodeLabels(s) {
     const p = problemOf(s);
     const sym = String(p.grid?.symmetry ?? 'planar');

@@ -37,5 +37,6 @@ export const rfAmplitude = (s: Raw): number => num((s.rf as Raw | undefined)?.am
 /** "138 V + 832 V RF", "832 V RF", "138 V" or "0 V": the DC and RF (zero-to-peak) on an electrode. */
 export function dcPlusRf(dc: number, rf: number): string {
   if (rf === 0) return voltLabel(dc);
-  return dc === 0 ? `${voltLabel(rf)} RF` : `${voltLabel(dc)} + ${voltLabel(rf)} RF`;
+  // An RF drive in antiphase reads "− 832 V RF", not "+ −832 V RF".
+  return dc === 0 ? `${voltLabel(rf)} RF` : rf < 0 ? `${voltLabel(dc)} − ${voltLabel(-rf)} RF` : `${voltLabel(dc)} + ${voltLabel(rf)} RF`;
 }
