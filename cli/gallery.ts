@@ -76,4 +76,9 @@ await iontrail('plot', join(RUNS, 'cg8-quadrupole'), '--kind', 'sweep', '--y', '
 // The linear trap's spectrum is the review bundle's figure.
 await iontrail('report', join('scenes', 'lq2-linear-trap.yaml'), '-o', join(RUNS, 'lq2-review'), '--force');
 copyFileSync(join(RUNS, 'lq2-review', 'fig-spectrum.png'), fig('spectrum-linear-trap.png'));
+// prefilter.png: the QF-4P peak at high resolution with and without its RF-only prefilter.
+for (const v of ['prefilter', 'no-prefilter']) {
+  await iontrail('sweep', join('scenes', `qf4p-${v}.yaml`), '--vary', 'mz=499..502.5:15', '-o', join(RUNS, `qf4p-${v}`), '--force');
+}
+await iontrail('plot', join(RUNS, 'qf4p-prefilter'), join(RUNS, 'qf4p-no-prefilter'), '--kind', 'sweep', '--y', 'transmission', '-o', fig('prefilter.png'));
 process.stdout.write(`figures in ${FIGS}\n`);
