@@ -85,7 +85,11 @@ export function joinSweeps(ts: SweepTable[]): { table: SweepTable; series: (x: s
   }
   if ((t.summary.sweep?.keys ?? []).length > 1) throw new PlotError(`${t.dir}: a sweep of two keys; compare one-key sweeps`);
   const names = ts.map((o) => String(o.summary.scene_name ?? o.dir));
-  const table: SweepTable = { ...t, rows: ts.flatMap((o) => o.rows), summary: { ...t.summary, scene_name: names.join(' vs ') } };
+  const files = ts.map((o) => String(o.summary.provenance?.scene_file ?? '?')).join(', ');
+  const table: SweepTable = {
+    ...t, rows: ts.flatMap((o) => o.rows),
+    summary: { ...t.summary, scene_name: names.join(' vs '), folders: ts.length, provenance: { ...t.summary.provenance, scene_file: files } },
+  };
   return { table, series: () => ts.map((o, j) => ({ label: names[j], rows: o.rows })) };
 }
 
@@ -155,7 +159,7 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string, serie
     });
   return {
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
-    subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
+    subtitle: `${t.summary.folders ? `${t.summary.folders} sweeps, ` : ''}${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
     legend, panels, rows: panels.length, cols: 1, sharedX: true,
     // Version, seed and scene only (no start time, no folder name): a merged sweep's figure has the
     // unsharded sweep's bytes.
