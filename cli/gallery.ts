@@ -81,9 +81,9 @@ await run('qf4r-round-rods.yaml', 'qf4r', '--set', 'ions.0.count=40');
 await iontrail('render', join(RUNS, 'qf4r'), '-o', fig('scene3d-round-rods.png'));
 await run('t7t-truncated-trap.yaml', 't7t', '--set', 'ions.0.count=20');
 await iontrail('render', join(RUNS, 't7t'), '-o', fig('scene3d-truncated-trap.png'));
-// The solved demo scenes in 3D, their electrodes drawn from the shapes of the scene file.
-await run('qf4r-round-rods.yaml', 'qf4r', '--set', 'ions.0.count=40');
-await iontrail('render', join(RUNS, 'qf4r'), '-o', fig('scene3d-round-rods.png'));
-await run('t7t-truncated-trap.yaml', 't7t', '--set', 'ions.0.count=20');
-await iontrail('render', join(RUNS, 't7t'), '-o', fig('scene3d-truncated-trap.png'));
+// prefilter.png: the QF-4P peak at high resolution with and without its RF-only prefilter.
+for (const v of ['prefilter', 'no-prefilter']) {
+  await iontrail('sweep', join('scenes', `qf4p-${v}.yaml`), '--vary', 'mz=499..502.5:15', '-o', join(RUNS, `qf4p-${v}`), '--force');
+}
+await iontrail('plot', join(RUNS, 'qf4p-prefilter'), join(RUNS, 'qf4p-no-prefilter'), '--kind', 'sweep', '--y', 'transmission', '-o', fig('prefilter.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

@@ -21,7 +21,8 @@ function help(): string {
     for (const [f, h] of Object.entries(k.flags)) lines.push(`      --${f.padEnd(10)} ${h}`);
     for (const [f, h] of Object.entries(k.switches ?? {})) lines.push(`      --${f.padEnd(10)} ${h}`);
   }
-  lines.push('  sweep      columns of a sweep folder (iontrail sweep) against the first varied key');
+  lines.push('  sweep      columns of a sweep folder (iontrail sweep) against the first varied key;');
+  lines.push('             several folders of one-key sweeps of the same key: one curve per folder');
   lines.push('      --y         columns of sweep.csv, comma separated (default transmission)');
   lines.push('      --x         column for the horizontal axis (default the first varied key)');
   return lines.join('\n') + '\n';
@@ -37,10 +38,10 @@ function pixels(text: string | undefined, name: string): number | undefined {
 /** --kind sweep: columns of a sweep folder's sweep.csv against the first varied key. */
 async function plotSweepFolder(argv: string[]): Promise<number> {
   const args = parseArgs(argv, { values: [...COMMON_VALUES, 'y', 'x'], aliases: { o: 'out' } }, 'plot');
-  if (args.positional.length !== 1) throw new UsageError('plot: expected one SWEEP_DIR');
+  if (args.positional.length < 1) throw new UsageError('plot: expected a SWEEP_DIR (several one-key sweeps of the same key draw one curve each)');
   const out = requireFlag(args, 'out', 'plot', 'figure.png');
   const ys = (flag(args, 'y') ?? 'transmission').split(',').map((s) => s.trim()).filter((s) => s !== '');
-  const r = await plotSweep(args.positional[0], out, ys, flag(args, 'x'), pixels(flag(args, 'width'), 'width'), pixels(flag(args, 'height'), 'height'));
+  const r = await plotSweep(args.positional, out, ys, flag(args, 'x'), pixels(flag(args, 'width'), 'width'), pixels(flag(args, 'height'), 'height'));
   process.stderr.write(`plot: wrote ${out} (${r.bytes} bytes)\n`);
   return 0;
 }

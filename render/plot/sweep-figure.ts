@@ -73,12 +73,32 @@ export function sweepSeries(t: SweepTable, x: string): SweepSeries[] {
   return [...groups.values()];
 }
 
-export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): FigureSpec {
+/**
+ * Several one-key sweep folders of the same key (two designs side by side, e.g. a filter with and
+ * without its prefilter) as one table whose curves are the folders, labelled by their scene names.
+ */
+export function joinSweeps(ts: SweepTable[]): { table: SweepTable; series: (x: string) => SweepSeries[] } {
+  const t = ts[0];
+  for (const o of ts.slice(1)) {
+    if (o.columns.join(',') !== t.columns.join(',')) throw new PlotError(`${o.dir}: its sweep.csv columns differ from those of ${t.dir}; compare sweeps of the same key`);
+    if ((o.summary.sweep?.keys ?? []).length > 1) throw new PlotError(`${o.dir}: a sweep of two keys; compare one-key sweeps`);
+  }
+  if ((t.summary.sweep?.keys ?? []).length > 1) throw new PlotError(`${t.dir}: a sweep of two keys; compare one-key sweeps`);
+  const names = ts.map((o) => String(o.summary.scene_name ?? o.dir));
+  const files = ts.map((o) => String(o.summary.provenance?.scene_file ?? '?')).join(', ');
+  const table: SweepTable = {
+    ...t, rows: ts.flatMap((o) => o.rows),
+    summary: { ...t.summary, scene_name: names.join(' vs '), folders: ts.length, provenance: { ...t.summary.provenance, scene_file: files } },
+  };
+  return { table, series: () => ts.map((o, j) => ({ label: names[j], rows: o.rows })) };
+}
+
+export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string, seriesOf: (x: string) => SweepSeries[] = (x) => sweepSeries(t, x)): FigureSpec {
   const x = xCol ?? t.columns[0];
   const xi = t.columns.indexOf(x);
   if (xi < 0) throw new PlotError(`--x '${x}' is not a column of sweep.csv (columns: ${t.columns.join(', ')})`);
   const ys = yCols.length > 0 ? yCols : ['transmission'];
-  const series = sweepSeries(t, x);
+  const series = seriesOf(x);
   const grouped = series.length > 1;
   const panels = ys.map((col, k) => {
     const yi = t.columns.indexOf(col);
@@ -139,7 +159,7 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
     });
   return {
     title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
-    subtitle: `${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
+    subtitle: `${t.summary.folders ? `${t.summary.folders} sweeps, ` : ''}${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
     legend, panels, rows: panels.length, cols: 1, sharedX: true,
     // Version, seed and scene only (no start time, no folder name): a merged sweep's figure has the
     // unsharded sweep's bytes.
@@ -147,11 +167,12 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string): Figu
   };
 }
 
-export async function plotSweep(dir: string, out: string, yCols: string[], xCol?: string, width = 1100, height?: number): Promise<{ bytes: number }> {
+export async function plotSweep(dir: string | string[], out: string, yCols: string[], xCol?: string, width = 1100, height?: number): Promise<{ bytes: number }> {
   const format = imageFormat(out);
   checkOutputFolder(out);
-  const t = readSweepFolder(dir);
-  const spec = sweepFigure(t, yCols, xCol);
+  const dirs = typeof dir === 'string' ? [dir] : dir;
+  const joined = dirs.length > 1 ? joinSweeps(dirs.map(readSweepFolder)) : undefined;
+  const spec = joined ? sweepFigure(joined.table, yCols, xCol, joined.series) : sweepFigure(readSweepFolder(dirs[0]), yCols, xCol);
   const h = height ?? 180 + 260 * spec.panels.length;
   const data = await renderFigure(spec, { width, height: h, format });
   writeFileAtomic(out, data);

@@ -4,11 +4,11 @@
 // curves. Common practice of plotting, no source.
 
 import { describe, expect, it } from 'vitest';
-import { sweepSeries } from '../../render/plot/sweep-figure.js';
+import { joinSweeps, sweepSeries } from '../../render/plot/sweep-figure.js';
 import type { SweepTable } from '../../render/plot/sweep-figure.js';
 
-const table = (keys: string[], columns: string[], rows: number[][]): SweepTable =>
-  ({ dir: 'sweep', columns, rows, summary: { sweep: { keys } } }) as unknown as SweepTable;
+const table = (keys: string[], columns: string[], rows: number[][], name?: string): SweepTable =>
+  ({ dir: 'sweep', columns, rows, summary: { sweep: { keys }, scene_name: name } }) as unknown as SweepTable;
 
 describe('sweep curves', () => {
   it('a weight sweep plotted against its real charges is one curve of every point', () => {
@@ -29,5 +29,18 @@ describe('sweep curves', () => {
   it('two varied keys against a result column: the curves still split by the second key', () => {
     const t = table(['mz', 'dc'], ['mz', 'dc', 'fwhm', 'transmission'], [[500, 1, 0.5, 0.1], [501, 1, 0.6, 0.2], [500, 2, 0.7, 0.3], [501, 2, 0.8, 0.4]]);
     expect(sweepSeries(t, 'fwhm').map((g) => g.rows.length)).toEqual([2, 2]);
+  });
+
+  it('several one-key sweep folders of one key: one curve per folder, named by its scene', () => {
+    const a = table(['mz'], ['mz', 'transmission'], [[500, 0.1], [501, 0.2]], 'with prefilter');
+    const b = table(['mz'], ['mz', 'transmission'], [[500, 0.01], [501, 0.02], [502, 0]], 'without prefilter');
+    const s = joinSweeps([a, b]).series('mz');
+    expect(s.map((g) => [g.label, g.rows.length])).toEqual([['with prefilter', 2], ['without prefilter', 3]]);
+  });
+
+  it('folders of different keys, or of two keys, are refused rather than drawn on one axis', () => {
+    const a = table(['mz'], ['mz', 'transmission'], [[500, 0.1]]);
+    expect(() => joinSweeps([a, table(['stages.0.dc'], ['stages.0.dc', 'transmission'], [[1, 0.1]])])).toThrow(/columns differ/);
+    expect(() => joinSweeps([a, table(['mz', 'dc'], ['mz', 'transmission'], [[500, 0.1]])])).toThrow(/two keys/);
   });
 });

@@ -324,6 +324,48 @@ const CHECKERS: Checker[] = [
     },
   },
   {
+    // The full 1000 ions (about 4 s through the solved entrance region). The claim "about N %" holds
+    // within ±4 points: four binomial standard errors at 10 % of 1000 (0.95 %), so a changed seed or
+    // fate rule does not flip it, while a prefilter that stopped working (1-2 %) fails it.
+    name: 'run through the QF-4P prefilter: about the claimed fraction of the m/z named detected',
+    matches: (e) => e.args[0] === 'run' && e.args.some((a) => a.endsWith('qf4p-prefilter.yaml')),
+    check: (e) => {
+      process.env.XDG_CACHE_HOME = join(tmp, 'field-cache');
+      runExample(e);
+      const m = /about (\d+) % of (\d+) ions of m\/z ([\d.]+) detected/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const s = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      expect(s.ions.total).toBe(num(m[2]));
+      expect(s.species[0].mz).toBe(num(m[3]));
+      expect(Math.abs((100 * s.ions.detected) / s.ions.total - num(m[1]))).toBeLessThan(4);
+      expect(s.provenance.scene.stages[0].field_path.path).toBe('interpolated grid');
+    },
+  },
+  {
+    // That an RF-only prefilter ahead of the main rods raises the transmission at high resolution:
+    // W. M. Brubaker, Adv. Mass Spectrom. 4, 293 (1968) (volume and page from memory); common
+    // practice since. The two counts are independent binomials, so the difference must exceed three
+    // standard errors of a difference, √(p₁(1−p₁)/n₁ + p₂(1−p₂)/n₂), to count as more than the
+    // counting error (a 3σ rule: 0.13 % one-sided chance of passing by luck). "About N %" as above,
+    // within ±2 points at 1-2 % of 1000 (0.4 % standard error: five of them).
+    name: 'run without the QF-4P prefilter: about the claimed fraction, below the prefilter run by more than 3 standard errors',
+    matches: (e) => e.args[0] === 'run' && e.args.some((a) => a.endsWith('qf4p-no-prefilter.yaml')),
+    check: (e) => {
+      process.env.XDG_CACHE_HOME = join(tmp, 'field-cache');
+      const withPre = EXAMPLES.find((x) => x.args[0] === 'run' && x.args.some((a) => a.endsWith('qf4p-prefilter.yaml')))!;
+      const preFile = join(outOf(withPre), 'summary.json');
+      if (!existsSync(preFile)) runExample(withPre);
+      runExample(e);
+      const m = /about (\d+) %/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const a = json(readFileSync(preFile, 'utf8')).ions, b = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8')).ions;
+      const p1 = a.detected / a.total, p2 = b.detected / b.total;
+      expect(Math.abs(100 * p2 - num(m[1]))).toBeLessThan(2);
+      const se = Math.sqrt((p1 * (1 - p1)) / a.total + (p2 * (1 - p2)) / b.total);
+      expect(p1 - p2).toBeGreaterThan(3 * se);
+    },
+  },
+  {
     // The full count: the matrix path decides 121 × 2000 ions in about a second.
     name: 'sweep over m/z: a bounded peak at m/z 502 inside the Mathieu window, R10 below R50',
     matches: (e) => e.args[0] === 'sweep' && !e.args.includes('--shard') && e.args.filter((a) => a === '--vary').length === 1,
