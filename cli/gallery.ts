@@ -76,4 +76,9 @@ await iontrail('plot', join(RUNS, 'cg8-quadrupole'), '--kind', 'sweep', '--y', '
 // The linear trap's spectrum is the review bundle's figure.
 await iontrail('report', join('scenes', 'lq2-linear-trap.yaml'), '-o', join(RUNS, 'lq2-review'), '--force');
 copyFileSync(join(RUNS, 'lq2-review', 'fig-spectrum.png'), fig('spectrum-linear-trap.png'));
+// trap-stretch.png: the T-7T mass scan against the end-cap shift (solved fields, seven solves).
+await iontrail('sweep', join('scenes', 't7t-mass-scan.yaml'), '--vary', 'stages.0.electrodes.1.shapes.0.hyperboloid.shift=0mm..0.6mm:7',
+  '--set', 'ions.1.count=120', '--collect', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz,scan.species.1.ejected',
+  '-o', join(RUNS, 't7t-stretch'), '--force');
+await iontrail('plot', join(RUNS, 't7t-stretch'), '--kind', 'sweep', '--y', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz', '-o', fig('trap-stretch.png'));
 process.stdout.write(`figures in ${FIGS}\n`);
