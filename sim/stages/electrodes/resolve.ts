@@ -146,7 +146,7 @@ export function resolveProblem(s: Raw, fail: Fail): FieldProblem {
       name: e.name,
       potential: { dc: pot.dc ?? 0, rf: pot.rf ?? 0, aux: pot.aux ?? 0 },
       // A cap of `side: both` is the pair of caps about its centre (one key moves both: a stretch).
-      shapes: (e.shapes as Raw[]).flatMap((sh, j) => (sh.kind === 'hyperboloid' && sh.side === 'both'
+      shapes: (e.shapes as Raw[]).flatMap((sh, j) => (sh.kind === 'hyperboloid' && sh.side === 'both' && sh.sheet === 'cap'
         ? (['entrance', 'exit'] as const).map((side) => resolveShape(grid.symmetry, { ...sh, side }, ['electrodes', i, 'shapes', j], fail))
         : [resolveShape(grid.symmetry, sh, ['electrodes', i, 'shapes', j], fail)])),
       holes: ((e.holes ?? []) as Raw[]).map((sh, j) => resolveShape(grid.symmetry, sh, ['electrodes', i, 'holes', j], fail)),
