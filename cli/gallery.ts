@@ -86,4 +86,9 @@ for (const v of ['prefilter', 'no-prefilter']) {
   await iontrail('sweep', join('scenes', `qf4p-${v}.yaml`), '--vary', 'mz=499..502.5:15', '-o', join(RUNS, `qf4p-${v}`), '--force');
 }
 await iontrail('plot', join(RUNS, 'qf4p-prefilter'), join(RUNS, 'qf4p-no-prefilter'), '--kind', 'sweep', '--y', 'transmission', '-o', fig('prefilter.png'));
+// trap-stretch.png: the T-7T mass scan against the end-cap shift (solved fields, seven solves).
+await iontrail('sweep', join('scenes', 't7t-mass-scan.yaml'), '--vary', 'stages.0.electrodes.1.shapes.0.hyperboloid.shift=0mm..0.6mm:7',
+  '--set', 'ions.1.count=120', '--collect', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz,scan.species.1.ejected',
+  '-o', join(RUNS, 't7t-stretch'), '--force');
+await iontrail('plot', join(RUNS, 't7t-stretch'), '--kind', 'sweep', '--y', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz', '-o', fig('trap-stretch.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

@@ -19,7 +19,7 @@ export const describe = 'run the built-in demo (Skerry filter, trap and TOF scen
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../../..').replace(/\/dist$/, '');
 
 /** Demo scenes in the order they run, with the check lines that go with them. */
-export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml', 'qf4r-round-rods.yaml', 't7t-truncated-trap.yaml'];
+export const DEMO_SCENES = ['qf4-compact-filter.yaml', 't7-trap-cooling.yaml', 't7-mass-scan.yaml', 'lt1-linear-tof.yaml', 'rt1-reflectron-tof.yaml', 'qf4r-round-rods.yaml', 't7t-truncated-trap.yaml', 'c7-cylindrical-trap.yaml'];
 
 const CHECKS: string[][] = [
   ['--analyzer', 'quadrupole', '--r0', '4mm', '--freq', '1.2MHz', '--rf', '832V', '--dc', '138.3V', '--mz', '502', '--rf-max', '5kV'],

@@ -366,9 +366,44 @@ const CHECKERS: Checker[] = [
     },
   },
   {
+    // A solved cylindrical trap's scan (its own field cache): the ejection q_z of the solved
+    // field's quadrupole term and the m/z per volt as claimed, within the claim's last digit.
+    name: 'run of a solved trap scan: ejection q_z and m/z per volt as claimed',
+    matches: (e) => e.args[0] === 'run' && e.args.some((a) => a.includes('c7-cylindrical')),
+    check: (e) => {
+      process.env.XDG_CACHE_HOME = join(tmp, 'field-cache');
+      runExample(e, ['--workers', '1']);
+      const m = /m\/z (\d+) leaves at q_z about ([\d.]+) of its solved field, ([\d.]+) Th per volt/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const s = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      const sp = s.scan.species.find((x: { mz: number }) => x.mz === num(m[1]));
+      expect(sp.ejected).toBeGreaterThan(0);
+      expect(Math.abs(sp.ejection_qz_mean - num(m[2]))).toBeLessThan(0.01);
+      expect(Math.abs(s.scan.mz_per_volt - num(m[3]))).toBeLessThan(0.005);
+    },
+  },
+  {
+    // The stretch sweep as written (4 solves, 4 × 120 ions): the ejection q_z falls from the
+    // first point to the last, each end within 0.003 of the claimed value (the ensemble's
+    // spread between seeds is about 0.001).
+    name: 'sweep of the cap stretch: the ejection q_z falls as claimed',
+    matches: (e) => e.args[0] === 'sweep' && e.args.some((a) => a.includes('hyperboloid.shift=')),
+    check: (e) => {
+      process.env.XDG_CACHE_HOME = join(tmp, 'field-cache');
+      runExample(e, ['--workers', '1']);
+      const m = /ejection q_z falls from about ([\d.]+) to about ([\d.]+)/.exec(e.claim)!;
+      expect(m, e.claim).not.toBeNull();
+      const s = json(readFileSync(join(outOf(e), 'summary.json'), 'utf8'));
+      const q = s.collected.points.map((p: Record<string, number>) => p['scan.species.1.ejection_qz_mean']);
+      expect(Math.abs(q[0] - num(m[1]))).toBeLessThan(0.003);
+      expect(Math.abs(q[q.length - 1] - num(m[2]))).toBeLessThan(0.003);
+      expect(q[0] - q[q.length - 1]).toBeGreaterThan(0.004);
+    },
+  },
+  {
     // The full count: the matrix path decides 121 × 2000 ions in about a second.
     name: 'sweep over m/z: a bounded peak at m/z 502 inside the Mathieu window, R10 below R50',
-    matches: (e) => e.args[0] === 'sweep' && !e.args.includes('--shard') && e.args.filter((a) => a === '--vary').length === 1,
+    matches: (e) => e.args[0] === 'sweep' && !e.args.includes('--shard') && e.args.filter((a) => a === '--vary').length === 1 && e.args.some((a) => a.startsWith('mz=')),
     check: (e) => {
       runExample(e);
       const s = json(readFileSync(join(tmp, e.args[e.args.indexOf('-o') + 1], 'summary.json'), 'utf8'));

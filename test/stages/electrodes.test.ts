@@ -64,6 +64,24 @@ describe('electrodes stage: scene keys to SI shapes', () => {
     expect(p.electrodes[1].potential).toEqual({ dc: -5, rf: 0, aux: 0 });
   });
 
+  it('a cap of side: both is the pair of caps about its centre; shift moves each out by its value, the shape kept', () => {
+    // The pair: the entrance cap (side −1) then the exit cap (+1), each about centre ∓ shift, so
+    // the apexes lie at centre ∓ (vertex + shift) (the inside test of problem.ts is about a cap's own centre).
+    const p = problem(scene(AXIAL, `      - name: end caps
+        shapes:
+          - hyperboloid: { sheet: cap, vertex: 5 mm, center: 10 mm, truncate: 9 mm, side: both, shift: 0.5 mm, hole: 0.5 mm }`));
+    const caps = p.electrodes[0].shapes as unknown as { center: number; side: number; vertex: number }[];
+    expect(caps).toHaveLength(2);
+    expect(caps.map((c) => c.side)).toEqual([-1, 1]);
+    expect(caps[0].center).toBeCloseTo(0.0095, 15);
+    expect(caps[1].center).toBeCloseTo(0.0105, 15);
+    expect(caps.map((c) => c.vertex)).toEqual([0.005, 0.005]);
+    const one = (shape: string) => err(scene(AXIAL, `      - name: a\n        shapes:\n          - ${shape}`));
+    expect(one('hyperboloid: { sheet: ring, vertex: 7 mm, center: 10 mm, truncate: 9 mm, shift: 1 mm }')).toMatch(/^s\.yaml:9: stages\.0\.electrodes\.0\.shapes\.0\.hyperboloid\.shift: moves a cap out from the centre; a ring has none/);
+    expect(one('hyperboloid: { sheet: cap, vertex: 5 mm, center: 10 mm, truncate: 9 mm, side: both, shift: 1 }')).toMatch(/hyperboloid\.shift: expects a length such as .* \(no unit\)/);
+    expect(one('hyperboloid: { sheet: ring, vertex: 7 mm, center: 10 mm, truncate: 9 mm, side: both }')).toMatch(/hyperboloid\.side: both is for a cap sheet/);
+  });
+
   it('3D shapes: cylinder (axis normalised), box, sphere, extrude, revolve; holes', () => {
     const p = problem(scene(SOLID, `      - name: plate
         shapes:

@@ -15,6 +15,7 @@ import { electrodesField } from './field.js';
 import { trackElectrodes } from './kernel.js';
 import { electrodesCoupling } from './coupling.js';
 import { registerSolution, SERIES_ORDERS, solutionKeys } from './solution.js';
+import { electrodesScan } from './scan.js';
 
 type Raw = Readonly<Record<string, unknown>>;
 const problemOf = (s: Raw | undefined) => (s?.problem ?? {}) as { grid?: Raw; electrodes?: readonly Raw[] };
@@ -70,6 +71,8 @@ export const electrodesKind: StageKind<ElectrodesStage> = {
   },
   exitFate: () => undefined,
   exitAperture: () => undefined,
+  // A solved trap scans along z, its a_z and q_z from the field at its centre (scan.ts).
+  massScan: electrodesScan,
   uniformField: false,
   gasPieces: false,
   describe(s) {

@@ -54,9 +54,15 @@ function axial(s: Raw, path: Path, fail: Fail): AxialShape | undefined {
     }
     case 'hyperboloid': {
       const ring = s.sheet === 'ring';
-      if (!ring && s.side === undefined) fail([...p, 'side'], 'is required for a cap: entrance or exit');
+      if (!ring && s.side === undefined) fail([...p, 'side'], 'is required for a cap: entrance, exit or both');
+      if (s.side === 'both' && (ring || path.includes('revolve'))) fail([...p, 'side'], ring ? 'both is for a cap sheet; a ring has no side' : 'both is for a cap on an axial grid; give a revolve shape per cap (entrance, exit)');
       if (ring && !(s.truncate > s.vertex)) fail([...p, 'truncate'], `must exceed the vertex radius (${(s.vertex * 1e3).toPrecision(4)} mm)`);
-      return { kind: 'hyperboloid', sheet: s.sheet, vertex: s.vertex, center: s.center, truncate: s.truncate, side: s.side === 'entrance' ? -1 : 1, hole: s.hole ?? 0 };
+      if (ring && s.shift !== undefined) fail([...p, 'shift'], 'moves a cap out from the centre; a ring has none (give it on the cap sheet)');
+      const side = s.side === 'entrance' ? -1 : 1;
+      // A shifted cap keeps its hyperboloid about its own centre, moved out by the shift: apex at
+      // center ± (vertex + shift). (A larger vertex instead stays a level set of r² − 2z², a pure
+      // quadrupole of another z0, so it stretches nothing.)
+      return { kind: 'hyperboloid', sheet: s.sheet, vertex: s.vertex, center: s.center + (ring ? 0 : side * (s.shift ?? 0)), truncate: s.truncate, side, hole: s.hole ?? 0 };
     }
   }
   return undefined;
@@ -139,7 +145,10 @@ export function resolveProblem(s: Raw, fail: Fail): FieldProblem {
     return {
       name: e.name,
       potential: { dc: pot.dc ?? 0, rf: pot.rf ?? 0, aux: pot.aux ?? 0 },
-      shapes: (e.shapes as Raw[]).map((sh, j) => resolveShape(grid.symmetry, sh, ['electrodes', i, 'shapes', j], fail)),
+      // A cap of `side: both` is the pair of caps about its centre (one key moves both: a stretch).
+      shapes: (e.shapes as Raw[]).flatMap((sh, j) => (sh.kind === 'hyperboloid' && sh.side === 'both' && sh.sheet === 'cap'
+        ? (['entrance', 'exit'] as const).map((side) => resolveShape(grid.symmetry, { ...sh, side }, ['electrodes', i, 'shapes', j], fail))
+        : [resolveShape(grid.symmetry, sh, ['electrodes', i, 'shapes', j], fail)])),
       holes: ((e.holes ?? []) as Raw[]).map((sh, j) => resolveShape(grid.symmetry, sh, ['electrodes', i, 'holes', j], fail)),
     };
   });

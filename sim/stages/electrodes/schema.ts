@@ -31,7 +31,9 @@ export const AXIAL_SHAPES: Record<string, Variant> = {
   hyperboloid: {
     fields: {
       sheet: { kind: 'enum', values: ['ring', 'cap'] }, vertex: POS, center: LEN, truncate: POS,
-      side: { kind: 'enum', values: ['entrance', 'exit'] }, hole: NONNEG,
+      side: { kind: 'enum', values: ['entrance', 'exit', 'both'] }, hole: NONNEG,
+      // A cap moved out along z by `shift` from the centre, its shape kept: the trade's stretched cap spacing.
+      shift: NONNEG,
     },
     required: ['sheet', 'vertex', 'center', 'truncate'],
   },
