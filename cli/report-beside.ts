@@ -37,7 +37,7 @@ export interface BesideRequest {
 
 async function sweepOf(file: string, text: string, r: BesideRequest) {
   const plan = planSweep({ sceneText: text, sceneFile: file, set: r.set, seed: r.seed, vary: [r.vary], method: 'auto', workers: r.workers });
-  if (plan.axes.length !== 1 || plan.axes[0].key !== 'mz') throw new UsageError(`report: --vary goes with --beside and must vary mz (e.g. mz=496..508:41), got '${r.vary}'`);
+  if (plan.axes.length !== 1 || plan.axes[0].key !== 'mz') throw new UsageError(`--vary with --beside varies m/z only (e.g. mz=496..508:41), got '${r.vary}'`);
   await prepareTracking(file, plan.base, { noSolve: r.noSolve, workers: r.workers });
   return reduceSweep(plan, await runPointRange(plan, 0, plan.tasks.length));
 }
@@ -100,7 +100,7 @@ export async function besideReport(r: BesideRequest): Promise<{ result: BesideRe
   try {
     sweeps = [await sweepOf(r.scene.file, r.scene.text, r), await sweepOf(r.other, otherText, r)];
   } catch (e) {
-    if (e instanceof SweepError) throw new UsageError(`report --beside: ${e.message}`);
+    if (e instanceof SweepError) throw new UsageError(`--beside: ${e.message}`);
     throw e;
   }
   const mz = sweeps[0].points.map((p) => p.values[0]);

@@ -268,7 +268,10 @@ export async function run(argv: string[]): Promise<number> {
   checkBundleTarget(out, force);
   const besideFile = flag(a, 'beside'), vary = flag(a, 'vary');
   if ((besideFile === undefined) !== (vary === undefined)) throw new UsageError('report: --beside OTHER.yaml and --vary mz=A..B:N go together');
+  if (vary !== undefined && !vary.startsWith('mz=')) throw new UsageError(`report: --vary with --beside varies m/z (e.g. mz=496..508:41), got '${vary}'`);
   const set = a.values.get('set') ?? [];
+  // The scene beside is read (and its --set checked) before any run, so a bad file stops at once.
+  if (besideFile !== undefined) loadSceneFile(besideFile, { set, seed });
   const { scene, text } = loadSceneFile(file, { set, seed });
   await prepareTracking(file, scene, { noSolve: a.switches.has('no-solve'), workers });
   const r = await writeReportBundle(scene, {
