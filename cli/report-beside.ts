@@ -93,7 +93,7 @@ async function equipotentialFigures(scenes: { scene: Scene; file: string }[]): P
   return figs;
 }
 
-export async function besideReport(r: BesideRequest): Promise<{ result: BesideResult; figures: ReportFigure[]; warnings: string[] }> {
+export async function besideReport(r: BesideRequest): Promise<{ result: BesideResult; figures: ReportFigure[]; warnings: string[]; other: Scene }> {
   const { scene: otherScene, text: otherText } = loadSceneFile(r.other, { set: r.set, seed: r.seed });
   await prepareTracking(r.other, otherScene, { noSolve: r.noSolve, workers: r.workers });
   let sweeps;
@@ -119,5 +119,5 @@ export async function besideReport(r: BesideRequest): Promise<{ result: BesideRe
     figures.push({ id: 'peaks-beside', file: 'fig-peaks-beside.png', title: 'Peak beside the other filter', caption: `Transmission against m/z of ${rows[0].scene_name} and ${rows[1].scene_name}, swept over the same ${mz.length} m/z points (${r.vary}); dashed lines at the peak centres.`, png: await renderFigure(spec, { width: W, height: H, format: 'png' }), width: W, height: H });
   }
   figures.push(...await equipotentialFigures([{ scene: scenes[0], file: r.scene.file }, { scene: scenes[1], file: r.other }]));
-  return { result, figures, warnings: [...new Set([...sweeps[0].warnings, ...sweeps[1].warnings])] };
+  return { result, figures, warnings: [...new Set([...sweeps[0].warnings, ...sweeps[1].warnings])], other: scenes[1] };
 }

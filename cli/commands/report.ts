@@ -30,6 +30,7 @@ import { reportDocument } from '../../render/report/document.js';
 import { reportHtml } from '../../render/report/html.js';
 import { reportMarkdown } from '../../render/report/markdown.js';
 import { besideReport } from '../report-beside.js';
+import { assumptions } from '../../sim/report/assumptions.js';
 
 export const describe = 'run a scene and write a design-review bundle (report.html, report.md, figures, results.json, run folder)';
 
@@ -228,6 +229,8 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     if (beside) {
       results.beside = beside.result;
       for (const w of beside.warnings) if (!results.warnings.includes(w)) results.warnings.push(w);
+      // The scene beside brings its own model (e.g. ideal hyperbolic fields beside solved round rods).
+      for (const l of assumptions(beside.other, sceneTraits(beside.other))) if (!results.assumptions.includes(l)) results.assumptions.push(`${beside.other.name} (beside): ${l}`);
     }
     const doc = reportDocument(results);
     writeFileSync(join(tmp, 'results.json'), formatResults(results));
