@@ -6,7 +6,8 @@
 
 import { firstRf } from '../../sim/stages/registry.js';
 import { isQuadrupole } from '../../sim/stages/guards.js';
-import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { parseVary, SweepError } from '../../sim/sweeps/vary.js';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { parseArgs, flag, type FlagSpec } from '../args.js';
@@ -274,7 +275,16 @@ export async function run(argv: string[]): Promise<number> {
   if (vary !== undefined && !vary.startsWith('mz=')) throw new UsageError(`report: --vary with --beside varies m/z (e.g. mz=496..508:41), got '${vary}'`);
   const set = a.values.get('set') ?? [];
   // The scene beside is read (and its --set checked) before any run, so a bad file stops at once.
-  if (besideFile !== undefined) loadSceneFile(besideFile, { set, seed });
+  if (besideFile !== undefined && vary !== undefined) {
+    const other = loadSceneFile(besideFile, { set, seed });
+    // The m/z points checked against both scenes now, not after the scene's own run.
+    try {
+      for (const [f, t] of [[file, readFileSync(file, 'utf8')], [besideFile, other.text]]) parseVary(vary, t, f);
+    } catch (e) {
+      if (e instanceof SweepError) throw new UsageError(`--beside: ${e.message}`);
+      throw e;
+    }
+  }
   const { scene, text } = loadSceneFile(file, { set, seed });
   await prepareTracking(file, scene, { noSolve: a.switches.has('no-solve'), workers });
   const r = await writeReportBundle(scene, {
