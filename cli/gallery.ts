@@ -34,11 +34,7 @@ for (const [scene, name] of [['qf4r-round-rods.yaml', 'qf4r'], ['t7t-truncated-t
   }
 }
 if (only === 'fields') {
-  // Round rods beside hyperbolic rods (peak-round-vs-hyperbolic.png): the report's overlay of both peaks.
-await iontrail('report', join('scenes', 'qf4r-peak-scan.yaml'), '--beside', join('scenes', 'qf4-peak-scan.yaml'), '--vary', 'mz=496..508:41',
-  '--set', 'ions.0.count=200', '-o', join(RUNS, 'qf4r-beside'), '--force');
-copyFileSync(join(RUNS, 'qf4r-beside', 'fig-peaks-beside.png'), fig('peak-round-vs-hyperbolic.png'));
-process.stdout.write(`figures in ${FIGS}\n`);
+  process.stdout.write(`figures in ${FIGS}\n`);
   process.exit(0);
 }
 const run = (scene: string, name: string, ...extra: string[]) =>
