@@ -91,4 +91,8 @@ await iontrail('sweep', join('scenes', 't7t-mass-scan.yaml'), '--vary', 'stages.
   '--set', 'ions.1.count=120', '--collect', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz,scan.species.1.ejected',
   '-o', join(RUNS, 't7t-stretch'), '--force');
 await iontrail('plot', join(RUNS, 't7t-stretch'), '--kind', 'sweep', '--y', 'scan.species.1.ejection_qz_mean,scan.species.1.apparent_mz', '-o', fig('trap-stretch.png'));
+// Round rods beside hyperbolic rods (peak-round-vs-hyperbolic.png): the report's overlay of both peaks.
+await iontrail('report', join('scenes', 'qf4r-peak-scan.yaml'), '--beside', join('scenes', 'qf4-peak-scan.yaml'), '--vary', 'mz=496..508:41',
+  '--set', 'ions.0.count=200', '-o', join(RUNS, 'qf4r-beside'), '--force');
+copyFileSync(join(RUNS, 'qf4r-beside', 'fig-peaks-beside.png'), fig('peak-round-vs-hyperbolic.png'));
 process.stdout.write(`figures in ${FIGS}\n`);

@@ -6,7 +6,8 @@
 
 import { firstRf } from '../../sim/stages/registry.js';
 import { isQuadrupole } from '../../sim/stages/guards.js';
-import { existsSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { parseVary, SweepError } from '../../sim/sweeps/vary.js';
 import { dirname, join, resolve } from 'node:path';
 import { folderBeside, swapFolderIntoPlace } from '../../sim/core/atomic.js';
 import { parseArgs, flag, type FlagSpec } from '../args.js';
@@ -29,10 +30,12 @@ import type { SweepCurve } from '../../render/report/figures/peak.js';
 import { reportDocument } from '../../render/report/document.js';
 import { reportHtml } from '../../render/report/html.js';
 import { reportMarkdown } from '../../render/report/markdown.js';
+import { besideReport } from '../report-beside.js';
+import { assumptions } from '../../sim/report/assumptions.js';
 
 export const describe = 'run a scene and write a design-review bundle (report.html, report.md, figures, results.json, run folder)';
 
-const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--no-solve] [--force]';
+const USAGE = 'usage: iontrail report SCENE.yaml -o DIR [--beside OTHER.yaml --vary mz=A..B:N] [--seed N] [--workers N] [--set key=value]... [--max-output SIZE] [--no-solve] [--force]';
 
 const HELP = `${USAGE}
 
@@ -44,6 +47,11 @@ Runs the scene (and, for a quadrupole filter, an m/z sweep over its Mathieu wind
   trajectory-sample/  a few recorded ions per species when the scene records no trajectories
 
   -o, --out DIR      bundle folder; its parent must exist
+  --beside OTHER     also sweep OTHER.yaml (e.g. the hyperbolic filter beside a round-rod one) over the
+                     same m/z points: both peaks in one table and one figure, the multipole table and the
+                     equipotential figure of every electrodes stage of either scene
+  --vary mz=A..B:N   the m/z points of --beside (N evenly spaced values from A to B); --set and --seed
+                     apply to both scenes
   --seed N           replace the scene's seed
   --workers N        worker threads (default: all cores)
   --set key=value    override a scene value, e.g. --set stages.0.dc=42V (repeatable)
@@ -78,6 +86,8 @@ export interface BundleOptions {
   sceneText?: string;
   set?: string[];
   seed?: number;
+  /** --beside OTHER --vary mz=...: sweep both scenes over the same points (cli/report-beside.ts). */
+  beside?: { other: string; vary: string; noSolve: boolean };
 }
 
 export interface BundleResult {
@@ -197,6 +207,10 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
     let curve: SweepCurve | null = null;
     if (traits.kind === 'quadrupole') ({ result: sweep, curve } = await quadrupoleSweep(scene, opts));
     step();
+    const beside = opts.beside && opts.sceneText !== undefined && opts.sceneFile !== null
+      ? await besideReport({ scene: { file: opts.sceneFile, text: opts.sceneText }, other: opts.beside.other, vary: opts.beside.vary, set: opts.set ?? [], seed: opts.seed, workers: opts.workers, noSolve: opts.beside.noSolve })
+      : null;
+    step();
 
     const figures = await makeFigures({
       runDir: join(tmp, RUN_FOLDER), sampleDir: sample ? join(tmp, SAMPLE_FOLDER) : null, sampleName: sample ? `${SAMPLE_FOLDER}/` : undefined,
@@ -204,6 +218,7 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
       folderNames: new Map([[join(tmp, RUN_FOLDER), RUN_FOLDER], [join(tmp, SAMPLE_FOLDER), SAMPLE_FOLDER]]),
     });
     step();
+    if (beside) figures.push(...beside.figures);
     for (const f of figures) writeFileSync(join(tmp, f.file), f.png);
     const results = buildResults({
       scene, summary, sweep, sample, runFolder: RUN_FOLDER,
@@ -212,6 +227,12 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
       inputs: opts.sceneText !== undefined ? reportInputRows(scene, opts.sceneText, opts.sceneFile ?? 'scene', opts.set) : null,
       wallTimeS: (performance.now() - t0) / 1000,
     });
+    if (beside) {
+      results.beside = beside.result;
+      for (const w of beside.warnings) if (!results.warnings.includes(w)) results.warnings.push(w);
+      // The scene beside brings its own model (e.g. ideal hyperbolic fields beside solved round rods).
+      for (const l of assumptions(beside.other, sceneTraits(beside.other))) if (!results.assumptions.includes(l)) results.assumptions.push(`${beside.other.name} (beside): ${l}`);
+    }
     const doc = reportDocument(results);
     writeFileSync(join(tmp, 'results.json'), formatResults(results));
     writeFileSync(join(tmp, 'report.md'), reportMarkdown(doc));
@@ -231,7 +252,7 @@ export async function writeReportBundle(scene: Scene, opts: BundleOptions): Prom
 
 /** The flags `iontrail report` accepts (the help text describes each). */
 export const FLAGS: FlagSpec = {
-  values: ['out', 'seed', 'workers', 'set', 'max-output'],
+  values: ['out', 'seed', 'workers', 'set', 'max-output', 'beside', 'vary'],
   switches: ['force', 'help', 'no-solve'],
   repeatable: ['set'],
   aliases: { o: 'out', h: 'help' },
@@ -249,13 +270,28 @@ export async function run(argv: string[]): Promise<number> {
   const force = a.switches.has('force');
   const limit = maxOutput(a);
   checkBundleTarget(out, force);
+  const besideFile = flag(a, 'beside'), vary = flag(a, 'vary');
+  if ((besideFile === undefined) !== (vary === undefined)) throw new UsageError('report: --beside OTHER.yaml and --vary mz=A..B:N go together');
+  if (vary !== undefined && !vary.startsWith('mz=')) throw new UsageError(`report: --vary with --beside varies m/z (e.g. mz=496..508:41), got '${vary}'`);
   const set = a.values.get('set') ?? [];
+  // The scene beside is read (and its --set checked) before any run, so a bad file stops at once.
+  if (besideFile !== undefined && vary !== undefined) {
+    const other = loadSceneFile(besideFile, { set, seed });
+    // The m/z points checked against both scenes now, not after the scene's own run.
+    try {
+      for (const [f, t] of [[file, readFileSync(file, 'utf8')], [besideFile, other.text]]) parseVary(vary, t, f);
+    } catch (e) {
+      if (e instanceof SweepError) throw new UsageError(`--beside: ${e.message}`);
+      throw e;
+    }
+  }
   const { scene, text } = loadSceneFile(file, { set, seed });
   await prepareTracking(file, scene, { noSolve: a.switches.has('no-solve'), workers });
   const r = await writeReportBundle(scene, {
     out, force, workers, sceneFile: file, commandLine: ['iontrail', 'report', ...argv].join(' '),
     progressLabel: 'report', handleSigint: true, sceneText: text, set, seed,
     maxOutput: limit, onEstimate: printEstimate(),
+    beside: besideFile !== undefined && vary !== undefined ? { other: besideFile, vary, noSolve: a.switches.has('no-solve') } : undefined,
   });
   if (!r.complete) {
     process.stderr.write(`iontrail report: interrupted; nothing written to ${out}\n`);

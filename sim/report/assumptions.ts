@@ -18,7 +18,10 @@ export function assumptions(scene: Scene, t: SceneTraits): string[] {
   // Each kind's own field assumptions, RF kinds first, in registry order (sim/stages/registry.ts).
   const present = STAGE_KINDS.filter((k) => scene.stages.some((s) => s.type === k.type));
   if (t.rf) {
-    out.push('Ideal quadrupolar fields: exact hyperbolic electrodes of infinite extent; no rod-shape (round-rod) higher multipoles, no machining or alignment errors.');
+    // Solved electrodes stages have their real shapes (their own assumptions say how they are solved).
+    if (present.some((k) => k.hasRf && k.fieldProblem === undefined)) {
+      out.push('Ideal quadrupolar fields: exact hyperbolic electrodes of infinite extent; no rod-shape (round-rod) higher multipoles, no machining or alignment errors.');
+    }
     for (const k of present) if (k.hasRf) out.push(...k.assumptions);
     out.push('RF is a pure cosine at one frequency; no supply ripple, amplitude noise or detuning.');
   }

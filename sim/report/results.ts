@@ -12,6 +12,7 @@ import { verdict, type Verdict } from './verdict.js';
 import type { InputRow } from '../scene/inputs.js';
 import { FATE_NAMES } from '../core/batch.js';
 import { TARGETS, TARGET_KEYS } from '../scene/targets.js';
+import type { BesideResult } from './beside.js';
 
 export const RESULTS_FORMAT = 'iontrail-report-results';
 export const RESULTS_VERSION = 2;
@@ -74,6 +75,8 @@ export interface ReportResults {
   /** Space-charge figures of a coupled run (summary.json space_charge): stored charges, secular shifts (fractions). */
   space_charge: Record<string, unknown> | null;
   sweep: SweepResult | null;
+  /** `report --beside OTHER`: both scenes' m/z sweeps and the multipole tables (sim/report/beside.ts). */
+  beside?: BesideResult;
   figures: FigureEntry[];
   assumptions: string[];
   safety_cautions: string[];
