@@ -27,6 +27,29 @@ export const TWO_TUBE_LENS_STAGE = `  - type: electrodes
         shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 31 mm, to: 120 mm } } ]
 `;
 
+/**
+ * A one-stage scene of a solved trap: a hyperbolic ring (r0 = 7.07 mm) about z = `center` on an
+ * axial grid with a mirror plane at mid-length, driven by the stage RF, and the end caps given as
+ * YAML shape entries (`caps`, a flow list's items), for one ion of m/z `mz`.
+ */
+export function solvedTrapScene(o: { name: string; length: string; radius: string; center: string; truncate: string; rf: string; caps: string; mz: number }): string {
+  return `name: ${o.name}
+stages:
+  - type: electrodes
+    length: ${o.length}
+    grid: { symmetry: axial, spacing: 0.1 mm, radius: ${o.radius}, mirror: [z] }
+    rf: ${o.rf}
+    electrodes:
+      - name: ring
+        potential: { rf: 1 }
+        shapes: [ { hyperboloid: { sheet: ring, vertex: 7.07 mm, center: ${o.center}, truncate: ${o.truncate} } } ]
+      - name: end caps
+        shapes: [ ${o.caps} ]
+ions:
+  - { mz: ${o.mz}, count: 1 }
+`;
+}
+
 /** Point the field cache at a fresh temporary folder (removed after the test file). */
 export function privateFieldCache(): string {
   const d = tempDir('iontrail-fieldcache-');

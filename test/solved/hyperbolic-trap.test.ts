@@ -22,29 +22,16 @@ import { floquet } from '../../sim/mathieu/floquet.js';
 import { trapQz } from '../../sim/mathieu/parameters.js';
 import type { TrapStage } from '../../sim/stages/types.js';
 import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.js';
-import { context, cursor, trackIon, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene, solvedTrapScene } from './helpers.js';
 
 const R0 = 7.07e-3, Z0 = 5e-3, F = 1.05e6, MZ = 200, ZC = 14e-3;
 const T = 1 / F;
 const vAtQ = (q: number) => q / trapQz(R0, Z0, F, 1, MZ);
 
-const trap = (rf: string) => `name: Skerry hyperbolic trap check
-stages:
-  - type: electrodes
-    length: 28 mm
-    grid: { symmetry: axial, spacing: 0.1 mm, radius: 18 mm, mirror: [z] }
-    rf: ${rf}
-    electrodes:
-      - name: ring
-        potential: { rf: 1 }
-        shapes: [ { hyperboloid: { sheet: ring, vertex: 7.07 mm, center: 14 mm, truncate: 14.14 mm } } ]
-      - name: end caps
-        shapes:
-          - hyperboloid: { sheet: cap, vertex: 5 mm, center: 14 mm, truncate: 14.14 mm, side: entrance, hole: 0.5 mm }
-          - hyperboloid: { sheet: cap, vertex: 5 mm, center: 14 mm, truncate: 14.14 mm, side: exit, hole: 0.5 mm }
-ions:
-  - { mz: ${MZ}, count: 1 }
-`;
+const trap = (rf: string) => solvedTrapScene({
+  name: 'Skerry hyperbolic trap check', length: '28 mm', radius: '18 mm', center: '14 mm', truncate: '14.14 mm', rf, mz: MZ,
+  caps: ['entrance', 'exit'].map((side) => `{ hyperboloid: { sheet: cap, vertex: 5 mm, center: 14 mm, truncate: 14.14 mm, side: ${side}, hole: 0.5 mm } }`).join(', '),
+});
 
 const m = MZ * ATOMIC_MASS_UNIT, q = ELEMENTARY_CHARGE;
 const QZ = 0.4, Q1 = 0.86, Q2 = 0.96, SCAN = 3000 * T;

@@ -26,7 +26,7 @@ import { ATOMIC_MASS_UNIT, ELEMENTARY_CHARGE } from '../../sim/units/constants.j
 import { cacheRoot, readCached } from '../../sim/fields/cache.js';
 import { axisLegendre } from '../../sim/fields/axis-series.js';
 import { solutionKeys } from '../../sim/stages/electrodes/solution.js';
-import { context, cursor, trackIon, privateFieldCache, solvedScene } from './helpers.js';
+import { context, cursor, trackIon, privateFieldCache, solvedScene, solvedTrapScene } from './helpers.js';
 
 const F = 1.05e6, T = 1 / F, MZ = 200, START = 0.3e-3;
 const m = MZ * ATOMIC_MASS_UNIT, q = ELEMENTARY_CHARGE;
@@ -34,21 +34,10 @@ const Q1 = 0.86, Q2 = 0.98, SCAN = 3000 * T;
 const RF = '{ amplitude: 1000 V, frequency: 1.05 MHz, ramp: { to: 1100 V, over: 1 ms } }';
 
 /** T-7T electrodes (caps z0 = 5 mm about z = 12 mm) with the caps moved out by `shift` or of another vertex. */
-const truncated = (cap: string) => `name: Skerry T-7T check
-stages:
-  - type: electrodes
-    length: 24 mm
-    grid: { symmetry: axial, spacing: 0.1 mm, radius: 16 mm, mirror: [z] }
-    rf: ${RF}
-    electrodes:
-      - name: ring
-        potential: { rf: 1 }
-        shapes: [ { hyperboloid: { sheet: ring, vertex: 7.07 mm, center: 12 mm, truncate: 12 mm } } ]
-      - name: end caps
-        shapes: [ { hyperboloid: { sheet: cap, ${cap}, center: 12 mm, truncate: 12 mm, side: both, hole: 0.5 mm } } ]
-ions:
-  - { mz: ${MZ}, count: 1 }
-`;
+const truncated = (cap: string) => solvedTrapScene({
+  name: 'Skerry T-7T check', length: '24 mm', radius: '16 mm', center: '12 mm', truncate: '12 mm', rf: RF, mz: MZ,
+  caps: `{ hyperboloid: { sheet: cap, ${cap}, center: 12 mm, truncate: 12 mm, side: both, hole: 0.5 mm } }`,
+});
 
 const cylindrical = `name: Skerry C-7 check
 stages:
