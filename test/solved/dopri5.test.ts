@@ -5,7 +5,10 @@
 //   why Φ there is V₂), and an ion aimed at the first tube is stopped on its bore, r = 3 mm;
 // - an RF trajectory through the QF-4R round rods (planar, on the grid and in the multipole
 //   series) against odex 2.0.4 (the reference ODE solver dependency, an independent extrapolation
-//   code) on the same equations, and against the fixed-step RK4 kernel.
+//   code) on the same equations, and against the fixed-step RK4 kernel;
+// - a grounded drift tube and a 0.5 mm aperture plate, all at 0 V: the field is zero, so the ion
+//   flies straight (Newton's first law) and must be hit on the plate's face as the RK4 kernel's
+//   short steps hit it, although error control alone lets the steps grow past the plate.
 
 import { beforeAll, describe, expect, it } from 'vitest';
 import { Exit } from '../../sim/core/cursor.js';
@@ -23,7 +26,18 @@ import { roundRodStage } from '../helpers/round-rods.js';
 const TOL = 1e-10;
 const adaptive = (st: Stage, c: IonCursor, ctx: StepContext) => kindOf(st).track(st, c, ctx, { integrator: 'dopri5', stepsPerCycle: 40, tolerance: TOL, stepNoRf: 1e-8 });
 const q = ELEMENTARY_CHARGE;
-let lens: Scene, grid: Scene, series: Scene;
+let lens: Scene, grid: Scene, series: Scene, plate: Scene;
+const DRIFT_AND_PLATE = `  - type: electrodes
+    length: 80 mm
+    grid: { symmetry: axial, spacing: 0.1 mm, radius: 5 mm }
+    electrodes:
+      - name: drift tube
+        potential: { dc: 0 V }
+        shapes: [ { tube: { inner_radius: 3 mm, outer_radius: 4 mm, from: 0 mm, to: 50 mm } } ]
+      - name: aperture plate
+        potential: { dc: 0 V }
+        shapes: [ { tube: { inner_radius: 1 mm, outer_radius: 4 mm, from: 60 mm, to: 60.5 mm } } ]
+`;
 
 beforeAll(async () => {
   privateFieldCache();
@@ -31,6 +45,7 @@ beforeAll(async () => {
   const rods = (path: 'grid' | 'multipole') => `name: Skerry QF-4R rods, adaptive check\nstages:\n${roundRodStage({ length: '150 mm', spacing: '0.1 mm', dc: '138.3 V', rf: '{ amplitude: 832 V, frequency: 1.2 MHz }', path })}ions:\n  - { mz: 502, count: 1 }\n`;
   grid = await solvedScene(rods('grid'), 'grid.yaml');
   series = await solvedScene(rods('multipole'), 'series.yaml');
+  plate = await solvedScene(`name: Skerry drift tube and aperture plate check\nstages:\n${DRIFT_AND_PLATE}ions:\n  - { mz: 100, count: 1, energy: 10 eV }\n`, 'plate.yaml');
 }, 120_000);
 
 describe('dopri5 through solved fields', () => {
@@ -78,6 +93,24 @@ describe('dopri5 through solved fields', () => {
         expect(Math.abs(r[k] - want)).toBeLessThan(1e-9);
       }
       expect(Math.abs(a.vx - ref[3])).toBeLessThan(1e-2);
+    }
+  });
+
+  it('a thin grounded plate across a field-free drift is hit on its face, as with RK4', () => {
+    const m = 100 * ATOMIC_MASS_UNIT, st = plate.stages[0];
+    for (const r of [1.5e-3, 2.5e-3]) {
+      const a = cursor(m, q, r, 0, 5e-3, 0, 0, 4000);
+      expect(adaptive(st, a, context(1e-3))).toBe(Exit.hit);
+      const b = cursor(m, q, r, 0, 5e-3, 0, 0, 4000);
+      expect(trackIon(st, b, context(1e-3), 40, 1e-8)).toBe(Exit.hit);
+      // Zero field: a straight line at 4000 m/s from z = 5 mm meets the face z = 60 mm at
+      // t = 13.75 µs; the landing on a straight chord is exact to round-off (1e-12 m, 1e-15 s
+      // leave room for the sums of the dense output). Few steps prove error control let them grow.
+      console.log(`plate at r = ${r * 1e3} mm: dopri5 hit at z = ${a.z} m, t = ${a.t} s in ${a.steps} steps (RK4: ${b.steps} steps)`);
+      expect(Math.abs(a.z - 60e-3)).toBeLessThan(1e-12);
+      expect(Math.abs(a.x - r)).toBeLessThan(1e-12);
+      expect(Math.abs(a.t - 55e-3 / 4000)).toBeLessThan(1e-15);
+      expect(Math.abs(b.z - 60e-3)).toBeLessThan(1e-12);
     }
   });
 });
