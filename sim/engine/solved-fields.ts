@@ -97,10 +97,13 @@ function startsInside(scene: Scene): string[] {
  * make (its start energy, mean + 3 spreads, plus what it gains falling along the stage's axis in
  * the dc field, sampled at 200 points; bounded RF motion adds little for a stable ion) against the
  * spacing. The interpolated field then changes more within a step than RK4 follows. The multipole
- * path reads no grid, so it is not checked.
+ * path reads no grid, so it is not checked; nor is integrator: dopri5, which takes neither step:
+ * its error control sizes the steps, and a step longer than a cell is looked along for electrodes
+ * (sim/stages/electrodes/adaptive.ts).
  */
 function coarseSteps(scene: Scene): string[] {
   const w: string[] = [];
+  if (scene.run.integrator === 'dopri5') return w;
   const fields = stageFields(scene);
   scene.stages.forEach((st, i) => {
     const p = fieldProblemOf(st);

@@ -26,8 +26,11 @@ export interface AdaptiveStage {
   throughCap: boolean;
   zStart: number;
   zEnd: number;
-  /** After each step: the exit code when the state crossed an electrode or end cap, else 0. */
-  test(s: Float64Array): ExitCode | 0;
+  /**
+   * After each step tPrev → t: the exit code when the state crossed an electrode or end cap, else 0
+   * (solver.dense is valid during the call, for a kind that looks along the step).
+   */
+  test(s: Float64Array, tPrev: number, t: number, solver: Dopri5): ExitCode | 0;
   /**
    * Optional, after test() gave `code` for the step tPrev → t: place the ion where the step met
    * the electrode or plane, writing the state into s from the step's dense output (sol.dense) and
@@ -63,7 +66,7 @@ export function trackAdaptive(a: AdaptiveStage, c: IonCursor, ctx: StepContext, 
       c.sinceRecord = 0;
       rec.push(c.ion, t, s[0], s[1], s[2] + zc, s[3], s[4], s[5]);
     }
-    const hit = a.test(s);
+    const hit = a.test(s, tPrev, t, sol);
     if (hit !== 0) {
       code = hit;
       if (a.land) tLast = a.land(hit, tPrev, t, s, sol);
