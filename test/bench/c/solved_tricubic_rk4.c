@@ -3,7 +3,7 @@
  * five-point differences, a 6-tap filter per axis, 216 nodes per point, two interleaved fields:
  * the dc and the rf sums, combined node by node as dc + cr·rf before the sums, the even and odd
  * x taps summed apart, as GridInterpolant.gradientOfPair and its SIMD form pair3.wat do) and sim/stages/electrodes/kernel.ts (classic RK4 on h = T/n, RF phase from
- * a half-step cos/sin table, exit on the end plane by linear interpolation within the step). The
+ * a half-step cos/sin table, exit on the end plane along the step's cubic Hermite path). The
  * ions of the benchmark stay clear of the electrodes, so no inside test is written here (the
  * TypeScript kernel still pays its near-mask lookup per step). Single thread, cc -O2.
  * usage: solved_tricubic_rk4 FILE  (written by the benchmark)  → prints "ion_steps seconds checksum" */
@@ -146,12 +146,27 @@ int main(int argc, char **argv) {
       ACC(x3, y3, z3, r1, k3x, k3y, k3z);
       double x4 = x + h * u3, y4 = y + h * w3, z4 = z + h * s3, u4 = vx + h * k3x, w4 = vy + h * k3y, s4 = vz + h * k3z;
       ACC(x4, y4, z4, r2, k4x, k4y, k4z);
-      double px = x, py = y, pz = z;
+      double px = x, py = y, pz = z, pvx = vx, pvy = vy, pvz = vz;
       x += h6 * (vx + 2 * u2 + 2 * u3 + u4); y += h6 * (vy + 2 * w2 + 2 * w3 + w4); z += h6 * (vz + 2 * s2v + 2 * s3 + s4);
       vx += h6 * (k1x + 2 * k2x + 2 * k3x + k4x); vy += h6 * (k1y + 2 * k2y + 2 * k3y + k4y); vz += h6 * (k1z + 2 * k2z + 2 * k3z + k4z);
       steps++;
       j += 2; if (j == 2 * spc) j = 0;
-      if (z >= L) { double f = (L - pz) / (z - pz); x = px + f * (x - px); y = py + f * (y - py); z = L; break; }
+      if (z >= L) {
+        /* Onto the exit plane along the step's cubic Hermite path, its crossing by Newton's method from the chord's (as kernel.ts). */
+        double f = (L - pz) / (z - pz);
+        for (int it = 0; it < 4; it++) {
+          double f2 = f * f, f3 = f2 * f;
+          double zf = (2 * f3 - 3 * f2 + 1) * pz + (f3 - 2 * f2 + f) * h * pvz + (-2 * f3 + 3 * f2) * z + (f3 - f2) * h * vz;
+          double dz = (6 * f2 - 6 * f) * pz + (3 * f2 - 4 * f + 1) * h * pvz + (-6 * f2 + 6 * f) * z + (3 * f2 - 2 * f) * h * vz;
+          if (!(dz != 0)) break;
+          double g = f - (zf - L) / dz;
+          f = g < 0 ? 0 : g > 1 ? 1 : g;
+        }
+        double f2 = f * f, f3 = f2 * f;
+        double a0 = 2 * f3 - 3 * f2 + 1, b0 = (f3 - 2 * f2 + f) * h, a1 = -2 * f3 + 3 * f2, b1 = (f3 - f2) * h;
+        x = a0 * px + b0 * pvx + a1 * x + b1 * vx; y = a0 * py + b0 * pvy + a1 * y + b1 * vy; z = L;
+        break;
+      }
     }
     lost:
     checksum += x + y + z;
