@@ -33,7 +33,8 @@ export function readSweepFolder(dir: string): SweepTable {
 /** Axis unit from a column name: SI figures carry it in their name (_m, _hz, _s, _v). */
 function unitOf(col: string, summary: Record<string, any>): { label: string; unit: string } {
   const u = summary.sweep?.units?.[col];
-  if (u) return { label: col, unit: u === 'Th' ? '' : u };
+  // The trade writes the mass-to-charge axis m/z (unit Th, left unwritten as is usual).
+  if (u) return { label: col === 'mz' ? 'm/z' : col, unit: u === 'Th' ? '' : u };
   const m = /_(m|hz|s|v|ev)$/.exec(col);
   const units: Record<string, string> = { m: 'm', hz: 'Hz', s: 's', v: 'V', ev: 'eV' };
   const label = col.replace(/^space_charge\.|^cooling\.|^scan\./, '').replace(/_(m|hz|s|v|ev)$/, '').replace(/_/g, ' ');
@@ -158,7 +159,7 @@ export function sweepFigure(t: SweepTable, yCols: string[], xCol?: string, serie
       return banded(c) ? [line, band(c, seriesColor(k))] : [line];
     });
   return {
-    title: `${name} — sweep of ${t.summary.sweep?.keys?.join(' × ') ?? x}`,
+    title: `${name} — sweep of ${(t.summary.sweep?.keys ?? [x]).map((k: string) => (k === 'mz' ? 'm/z' : k)).join(' × ')}`,
     subtitle: `${t.summary.folders ? `${t.summary.folders} sweeps, ` : ''}${t.rows.length} points × ${t.summary.sweep?.ions_per_point ?? '?'} ions; method ${p.method ?? '?'}${grouped ? `; ${series.length} curves of ${Math.max(...series.map((s) => s.rows.length))} points` : ''}`,
     legend, panels, rows: panels.length, cols: 1, sharedX: true,
     // Version, seed and scene only (no start time, no folder name): a merged sweep's figure has the
